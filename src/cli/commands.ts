@@ -1,0 +1,87 @@
+import { writeFileSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { loadStudy } from "../manifest/loadStudy.js";
+import type { Study } from "../manifest/types.js";
+import { UserError } from "../messages/index.js";
+import { demoDirUsable, writeFerryStudy } from "../demo/ferry.js";
+import { publishStudy } from "../record/publish.js";
+import { verifyReport } from "../record/verify.js";
+import { timeAverageAt } from "../study/at.js";
+import { fullTable } from "../study/fullTable.js";
+import { runStudy } from "../study/runStudy.js";
+import { studyPlan, planText } from "./plan.js";
+
+let status = 0;
+/** The exit status a command asked for without throwing (verify's verdict). */
+export function exitStatus(): number {
+  return status;
+}
+
+const say = (line: string) => process.stdout.write(line + "\n");
+const progressTo = (quiet: boolean | undefined) => (quiet ? undefined : (m: string) => process.stderr.write(`  ${m}\n`));
+
+export async function report(manifest: string, o: { out: string; pdf?: boolean; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean }): Promise<void> {
+  const study = await loadStudy(manifest);
+  const started = Date.now();
+  const r = await publishStudy(study, { out: o.out, force: o.force ?? false, pdf: o.pdf ?? false, paper: o.paper, chrome: o.chrome, onProgress: progressTo(o.quiet) });
+  summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
+}
+
+function summarize(dir: string, warnings: number, ms: number, pdfPages: number | null): void {
+  say(`Report written to ${dir} in ${(ms / 1000).toFixed(1)} s`);
+  say(`  ${join(dir, "report.html")}   open in a browser`);
+  if (pdfPages !== null) say(`  ${join(dir, "report.pdf")}    ${pdfPages} pages`);
+  say(`  ${join(dir, "results.json")}  every number at full precision`);
+  if (warnings > 0) say(`  ${warnings} warning(s): see the report's warnings section`);
+}
+
+export async function check(manifest: string, o: { json?: boolean }): Promise<void> {
+  const study = await loadStudy(manifest);
+  const { outcome } = await runStudy(study);
+  const plan = studyPlan(study, outcome);
+  if (o.json) say(JSON.stringify(plan, null, 2));
+  else for (const line of planText(plan)) say(line);
+}
+
+export async function at(manifest: string, o: { scenario: string; run: string; measure: string; time: number; json?: boolean }): Promise<void> {
+  const study = await loadStudy(manifest);
+  const r = await timeAverageAt(study, o, o.time);
+  if (o.json) say(JSON.stringify(r.result));
+  else for (const line of r.lines) say(line);
+}
+
+export async function table(manifest: string, o: { scenario: string; run: string; measure: string; out?: string }): Promise<void> {
+  const study = await loadStudy(manifest);
+  const tables = await fullTable(study, o);
+  if (o.out === undefined) {
+    process.stdout.write(tables[0].csv);
+    return;
+  }
+  for (const t of tables) {
+    const file = t.suffix === "" ? o.out : o.out.replace(/(\.csv)?$/, `.${t.suffix}.csv`);
+    writeFileSync(file, t.csv);
+    say(`wrote ${file}`);
+  }
+}
+
+export async function verify(dir: string, o: { inputs?: string }): Promise<void> {
+  const v = await verifyReport(dir, o);
+  for (const l of v.lines) say(`${l.ok ? "ok      " : "FAILED  "}${l.item}: ${l.detail}`);
+  const failed = v.lines.filter((l) => !l.ok).length;
+  say(v.ok ? `VERIFIED: ${v.lines.length} items checked, all match.` : `NOT VERIFIED: ${failed} of ${v.lines.length} items do not match.`);
+  if (!v.ok) status = 1;
+}
+
+export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean }): Promise<void> {
+  if (!demoDirUsable(dir)) {
+    throw new UserError(`${dir}: the folder exists and is not an earlier demo folder.\n  What to do: choose a new or empty folder for the demo.`);
+  }
+  const progress = progressTo(o.quiet);
+  progress?.("generating the invented ferry check-in study (seeded, 2 scenarios x 8 runs)");
+  const manifest = await writeFerryStudy(dir);
+  const study: Study = await loadStudy(manifest);
+  const started = Date.now();
+  const r = await publishStudy(study, { out: join(dir, "report"), force: true, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
+  say(`Demo study written to ${resolve(dir)} (manifest ${manifest})`);
+  summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
+}

@@ -1,0 +1,97 @@
+import { Command, CommanderError, InvalidArgumentError, Option } from "commander";
+import { UserError } from "../messages/index.js";
+import { toolVersion } from "../record/version.js";
+import * as commands from "./commands.js";
+
+function number(value: string): number {
+  const x = Number(value);
+  if (value.trim() === "" || !Number.isFinite(x)) throw new InvalidArgumentError("expected a number.");
+  return x;
+}
+
+/** The command line: each command parses its flags and calls one library function. */
+export function program(): Command {
+  const p = new Command("sojourn")
+    .description("Output analysis of discrete-event simulation runs: statistics, intervals and an audited report.")
+    .version(toolVersion().version)
+    .option("--debug", "show a stack trace when something fails (any command)")
+    .exitOverride()
+    .showHelpAfterError("(run with --help for usage)");
+
+  p.command("report")
+    .description("compute every statistic of a study and write results.json, calculation tables, report.html (and report.pdf)")
+    .argument("<manifest>", "the study manifest (YAML or JSON)")
+    .requiredOption("--out <dir>", "the report folder to write (replaced atomically when complete)")
+    .option("--pdf", "also write report.pdf (needs Chromium)")
+    .addOption(new Option("--paper <size>", "PDF paper size").choices(["A4", "Letter"]).default("A4"))
+    .option("--chrome <path>", "the Chromium or Chrome executable for the PDF (else $SOJOURN_CHROME, then usual places)")
+    .option("--force", "replace --out even if it is not an earlier Sojourn report")
+    .option("--quiet", "print no progress")
+    .action(commands.report);
+
+  p.command("check")
+    .description("validate the manifest and read every run file without writing anything; print the plan")
+    .argument("<manifest>", "the study manifest")
+    .option("--json", "print the plan as JSON for scripts")
+    .action(commands.check);
+
+  p.command("at")
+    .description("time average of a level (or utilization) measure of one run from the window start up to a time, with its arithmetic")
+    .argument("<manifest>", "the study manifest")
+    .requiredOption("--scenario <name>", "scenario name")
+    .requiredOption("--run <id>", "run id (file name without extensions)")
+    .requiredOption("--measure <name>", "measure name")
+    .requiredOption("--time <t>", "the time to stop at", number)
+    .option("--json", 'print {"time", "area", "duration", "mean"} as JSON')
+    .action(commands.at);
+
+  p.command("table")
+    .description("write the full calculation table of one run and measure (the report folder keeps long tables shortened)")
+    .argument("<manifest>", "the study manifest")
+    .requiredOption("--scenario <name>", "scenario name")
+    .requiredOption("--run <id>", "run id")
+    .requiredOption("--measure <name>", "measure name")
+    .option("--out <file>", "write to this file instead of standard output")
+    .action(commands.table);
+
+  p.command("verify")
+    .description("re-derive a report folder from its study record and check every digest and number")
+    .argument("<dir>", "a report folder written by `sojourn report`")
+    .option("--inputs <path>", "the folder the manifest's run paths are relative to, when the inputs moved")
+    .action(commands.verify);
+
+  p.command("demo")
+    .description("write an invented demo study (ferry check-in) into a folder and report on it")
+    .argument("<dir>", "folder for the demo study; the report goes to <dir>/report")
+    .option("--pdf", "also write the PDF")
+    .option("--chrome <path>", "Chromium executable for the PDF")
+    .option("--quiet", "print no progress")
+    .action(commands.demo);
+
+  return p;
+}
+
+/** Runs the command line and returns the exit status (0 success, 1 input or verification failure, 2 usage). */
+export async function run(argv: string[]): Promise<number> {
+  const p = program();
+  const debug = argv.includes("--debug");
+  try {
+    await p.parseAsync(argv.filter((a) => a !== "--debug"), { from: "user" });
+    return commands.exitStatus();
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      // Help and version exit 0; everything else commander rejects is a usage error.
+      if (e.code === "commander.helpDisplayed" || e.code === "commander.version" || e.code === "commander.help") return 0;
+      return 2;
+    }
+    if (e instanceof UserError) {
+      process.stderr.write(`sojourn: ${e.message}\n`);
+      if (debug && e.stack) process.stderr.write(e.stack + "\n");
+      return e.exitCode;
+    }
+    process.stderr.write(`sojourn: internal error: ${(e as Error)?.message ?? String(e)}\n`);
+    if (debug) process.stderr.write(String((e as Error)?.stack) + "\n");
+    else process.stderr.write("  This is a bug in Sojourn. Run again with --debug to see where it happened, and report it.\n");
+    return 1;
+  }
+}

@@ -1,0 +1,139 @@
+/**
+ * The normalized study: what the rest of Sojourn trusts.
+ *
+ * The manifest reader (`src/manifest/`) turns what the user wrote (`unknown` fields) into these
+ * strict types once, at the edge, with every default filled in. Nothing after the edge re-checks.
+ */
+
+/** Names of the four contract columns in the run files. */
+export interface ColumnMap {
+  time: string;
+  series: string;
+  value: string;
+  entity: string;
+}
+
+/** One run file of one scenario. */
+export interface RunRef {
+  /** File name without its extensions (`rep-07.csv.gz` -> `rep-07`). */
+  id: string;
+  /** Absolute path, used to open the file. Never written to results. */
+  path: string;
+  /** Path relative to the manifest's folder with `/` separators; this is what results show. */
+  file: string;
+  /** Start of the collection window (default 0). */
+  start: number;
+  /** End of the collection window; null when neither the scenario nor the run gives one. */
+  end: number | null;
+}
+
+/** Where a level's value comes from. */
+export type LevelSource =
+  | { type: "series"; series: string }
+  | { type: "entities"; enter: string; leave: string };
+
+/** Where an observation's values come from. */
+export type ObservationSource =
+  | { type: "series"; series: string }
+  | { type: "entities"; start: string; end: string };
+
+export type Capacity = { type: "constant"; value: number } | { type: "series"; series: string; initial: number };
+
+/** Extra per-run figures of issue 8 (quantiles, shares). Empty arrays mean "none asked". */
+export interface LevelExtras {
+  /** Thresholds k for the share of time with level >= k. */
+  atLeast: number[];
+}
+export interface ObservationExtras {
+  /** Probabilities p for type-7 quantiles. */
+  quantiles: number[];
+  /** Thresholds x for the fraction of observations <= x. */
+  within: number[];
+}
+
+/** Target precision for the runs-needed figure (issue 4). */
+export type Target = { type: "half_width"; value: number } | { type: "relative"; value: number };
+
+interface MeasureBase {
+  name: string;
+  target: Target | null;
+}
+
+export interface LevelMeasure extends MeasureBase, LevelExtras {
+  kind: "level";
+  source: LevelSource;
+  /** Level before the first row (default 0). */
+  initial: number;
+}
+
+export interface UtilizationMeasure extends MeasureBase, LevelExtras {
+  kind: "utilization";
+  /** The busy level. */
+  series: string;
+  initial: number;
+  capacity: Capacity;
+}
+
+export interface ObservationMeasure extends MeasureBase, ObservationExtras {
+  kind: "observation";
+  source: ObservationSource;
+}
+
+export interface CountMeasure extends MeasureBase {
+  kind: "count";
+  series: string;
+}
+
+export type Measure = LevelMeasure | UtilizationMeasure | ObservationMeasure | CountMeasure;
+export type MeasureKind = Measure["kind"];
+
+/** How the warm-up is set for a scenario. */
+export type Warmup =
+  | { type: "none" }
+  | { type: "fixed"; time: number }
+  | { type: "mser-5"; measure: string; slice: number };
+
+/** Steady-state analysis inside each run (issue 4). */
+export type Analysis = { type: "replications" } | { type: "batch-means"; batches: number };
+
+export interface Scenario {
+  name: string;
+  runs: RunRef[];
+  /** The study's measures with this scenario's overrides applied, in manifest order. */
+  measures: Measure[];
+  warmup: Warmup;
+  analysis: Analysis;
+  columns: ColumnMap;
+}
+
+export interface Comparison {
+  measure: string;
+  a: string;
+  b: string;
+  method: "paired" | "welch";
+}
+
+/** Options for the calculation tables written under DIR/tables. */
+export interface TableOptions {
+  /** Tables with at most this many rows are written in full. */
+  maxRows: number;
+  /** Rows kept at the head and at the tail of a shortened table. */
+  edgeRows: number;
+}
+
+export interface Study {
+  /** Absolute path of the manifest file. */
+  manifestPath: string;
+  /** The manifest's text exactly as read. */
+  manifestText: string;
+  title: string;
+  timeUnit: string;
+  confidence: number;
+  /** The study-wide warm-up as written (scenarios may override it). */
+  warmup: Warmup;
+  scenarios: Scenario[];
+  /** Measure names in manifest order (every scenario has all of them). */
+  measureNames: string[];
+  comparisons: Comparison[];
+  tables: TableOptions;
+}

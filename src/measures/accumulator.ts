@@ -1,0 +1,49 @@
+import type { BuiltTable } from "./table.js";
+import type { RunStats } from "../study/outcome.js";
+
+/** One series a measure reads; `entity` asks the reader to decode the entity cell. */
+export interface SeriesRead {
+  series: string;
+  entity: boolean;
+}
+
+/** Where rows come from, for messages. */
+export interface RowOrigin {
+  file: string;
+}
+
+/** A point of a level's trace, for the step chart. */
+export interface TracePoint {
+  time: number;
+  value: number;
+  running_mean: number;
+}
+
+/** What a measure yields for one run. */
+export interface MeasureOutput {
+  stats: RunStats;
+  /** The calculation tables of this run and measure: the main one first, extras after. */
+  tables: { suffix: string; table: BuiltTable }[];
+  /** Level change points (possibly thinned) for the chart. */
+  trace?: { points: TracePoint[]; thinned: boolean };
+  /** Observation values in time order (for samples, batch means and MSER-5). */
+  observations?: Float64Array;
+  /** Observation times, aligned with `observations`. */
+  observationTimes?: Float64Array;
+  /** Batch means of this run when batch means were asked for. */
+  batchMeans?: number[];
+  /** Time averages of fixed-width slices from the window start (for MSER-5 and Welch's plot). */
+  slices?: number[];
+  warnings: string[];
+}
+
+/**
+ * A measure's accumulator for one run. The run reader calls `row` for every row of a series in
+ * `reads` (slot = index in `reads`) whose time is not after the window's end, in file order;
+ * then `finish` once.
+ */
+export interface MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  row(slot: number, time: number, value: number, entity: string | undefined, line: number): void;
+  finish(): MeasureOutput;
+}

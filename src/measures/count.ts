@@ -1,0 +1,39 @@
+import type { CountMeasure } from "../manifest/types.js";
+import type { CountRunStats } from "../study/outcome.js";
+import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
+import type { MeasureSetup } from "./setup.js";
+import { type Cell, TableBuilder } from "./table.js";
+import { windowDuration } from "./window.js";
+
+export const COUNT_COLUMNS = ["index", "time", "running_count"];
+
+/** Each row of the series inside [c, end] counts 1; rate = n / T (contract section 4). */
+export class Count implements MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  private n = 0;
+  private readonly table: TableBuilder;
+  private readonly cells: Cell[] = new Array(3);
+
+  constructor(
+    measure: CountMeasure,
+    private readonly setup: MeasureSetup,
+  ) {
+    this.reads = [{ series: measure.series, entity: false }];
+    this.table = new TableBuilder(COUNT_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+  }
+
+  row(_slot: number, time: number): void {
+    if (time < this.setup.window.collectFrom) return;
+    const r = this.cells;
+    r[0] = ++this.n;
+    r[1] = time;
+    r[2] = this.n;
+    this.table.add(r);
+  }
+
+  finish(): MeasureOutput {
+    const T = windowDuration(this.setup.window);
+    const stats: CountRunStats = { kind: "count", value: this.n, n: this.n, rate: T === null ? null : this.n / T };
+    return { stats, tables: [{ suffix: "", table: this.table.build() }], warnings: [] };
+  }
+}

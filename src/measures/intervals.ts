@@ -1,0 +1,60 @@
+/**
+ * Piecewise-constant levels as a stream of intervals.
+ *
+ * A level is given by change points (time, new value). `LevelTracker` turns them into the
+ * intervals of the calculation table, clipped to the window [c, end]:
+ *
+ *   initial ──┬── changes before c only move the level in effect at c
+ *             ├── each change at t >= c closes [from, t] with the old value (duration may be 0)
+ *             └── finish() closes [from, end] with the final value
+ *
+ * A change exactly at c closes a zero-length interval [c, c]; ties at one time each leave a
+ * zero-length interval, and the last one's value holds on (contract section 3).
+ */
+
+/** Receives each closed interval in time order. */
+export interface IntervalSink {
+  interval(from: number, to: number, value: number): void;
+}
+
+export class LevelTracker {
+  private current: number;
+  private from: number;
+
+  constructor(
+    initial: number,
+    private readonly collectFrom: number,
+    private readonly end: number,
+    private readonly sink: IntervalSink,
+  ) {
+    this.current = initial;
+    this.from = collectFrom;
+  }
+
+  /** The level becomes `value` at `time` (time <= end; later rows never reach here). */
+  change(time: number, value: number): void {
+    if (time >= this.collectFrom) {
+      this.sink.interval(this.from, time, this.current);
+      this.from = time;
+    }
+    this.current = value;
+  }
+
+  /** Closes the last interval at the window's end. Returns the final level. */
+  finish(): number {
+    this.sink.interval(this.from, this.end, this.current);
+    return this.current;
+  }
+
+  get value(): number {
+    return this.current;
+  }
+}
+
+/** Sends every interval to several sinks. */
+export class FanOut implements IntervalSink {
+  constructor(private readonly sinks: IntervalSink[]) {}
+  interval(from: number, to: number, value: number): void {
+    for (const s of this.sinks) s.interval(from, to, value);
+  }
+}

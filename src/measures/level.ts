@@ -1,0 +1,177 @@
+import { Adder } from "../stats/adder.js";
+import * as msg from "../messages/study.js";
+import type { LevelMeasure } from "../manifest/types.js";
+import type { LevelRunStats } from "../study/outcome.js";
+import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
+import { EntityIds, EventBuffer } from "./events.js";
+import { type IntervalSink, LevelTracker } from "./intervals.js";
+import { LevelStats } from "./levelStats.js";
+import type { MeasureSetup } from "./setup.js";
+import { SliceAreas, wholeSlices } from "./slices.js";
+import { type Cell, TableBuilder } from "./table.js";
+import { TraceBuilder } from "./trace.js";
+
+export const LEVEL_COLUMNS = ["index", "value", "from", "to", "duration", "area", "running_area", "running_mean"];
+
+/**
+ * Everything one level's intervals feed: statistics, the calculation table, the chart trace, and
+ * the slice areas for batch means and MSER-5.
+ */
+export class LevelSinks implements IntervalSink {
+  readonly stats: LevelStats;
+  readonly table: TableBuilder;
+  private readonly running = new Adder();
+  private readonly cells: Cell[] = new Array(LEVEL_COLUMNS.length);
+  private readonly trace: TraceBuilder | null;
+  readonly batches: SliceAreas | null;
+  readonly slices: SliceAreas | null;
+  private index = 0;
+
+  constructor(
+    private readonly setup: MeasureSetup,
+    thresholds: readonly number[],
+  ) {
+    const { window: w } = setup;
+    const end = w.end as number;
+    this.stats = new LevelStats(thresholds);
+    this.table = new TableBuilder(LEVEL_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+    this.trace = setup.trace ? new TraceBuilder() : null;
+    const T = end - w.collectFrom;
+    this.batches = setup.batches !== null ? new SliceAreas(w.collectFrom, T / setup.batches, setup.batches, end) : null;
+    if (setup.slice !== null) {
+      const { count, last } = wholeSlices(w.start, end, setup.slice);
+      this.slices = new SliceAreas(w.start, setup.slice, count, last);
+    } else this.slices = null;
+  }
+
+  interval(from: number, to: number, value: number): void {
+    const d = to - from;
+    const area = value * d;
+    this.stats.interval(from, to, value);
+    this.running.add(area);
+    const runningArea = this.running.value();
+    const elapsed = to - this.setup.window.collectFrom;
+    const runningMean = elapsed > 0 ? runningArea / elapsed : null;
+    const r = this.cells;
+    r[0] = ++this.index;
+    r[1] = value;
+    r[2] = from;
+    r[3] = to;
+    r[4] = d;
+    r[5] = area;
+    r[6] = runningArea;
+    r[7] = runningMean;
+    this.table.add(r);
+    if (this.trace !== null) this.trace.add(from, value, runningMean ?? value);
+    if (this.batches !== null) this.batches.interval(from, to, value);
+    if (this.slices !== null) this.slices.interval(from, to, value);
+  }
+
+  /** Builds the output once the tracker has closed the last interval. */
+  output(final: number, extra: Record<string, unknown> = {}): MeasureOutput {
+    const w = this.setup.window;
+    const end = w.end as number;
+    const T = end - w.collectFrom;
+    const f = this.stats.result(T);
+    const stats: LevelRunStats = {
+      kind: "level",
+      value: f.mean,
+      mean: f.mean,
+      area: f.area,
+      duration: T,
+      sd: f.sd,
+      min: f.min as number,
+      max: f.max as number,
+      final,
+      ...extra,
+    };
+    if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
+    if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
+    const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }], warnings: [] };
+    if (this.trace !== null) {
+      const points = this.trace.close(end, final, f.mean);
+      out.trace = { points, thinned: this.trace.thinned };
+    }
+    if (this.batches !== null) out.batchMeans = this.batches.means();
+    if (this.slices !== null) out.slices = this.slices.means();
+    return out;
+  }
+}
+
+/** A level read from one series: each row's value is the new level (contract section 2). */
+export class SeriesLevel implements MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  private readonly sinks: LevelSinks;
+  private readonly tracker: LevelTracker;
+
+  constructor(
+    private readonly measure: LevelMeasure & { source: { type: "series" } },
+    private readonly setup: MeasureSetup,
+  ) {
+    this.reads = [{ series: measure.source.series, entity: false }];
+    this.sinks = new LevelSinks(setup, measure.atLeast);
+    this.tracker = new LevelTracker(measure.initial, setup.window.collectFrom, setup.window.end as number, this.sinks);
+  }
+
+  row(_slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
+    if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.measure.source.series, this.measure.name);
+    this.tracker.change(time, value);
+  }
+
+  finish(): MeasureOutput {
+    return this.sinks.output(this.tracker.finish());
+  }
+}
+
+const ENTER = 0;
+const LEAVE = 1;
+
+/**
+ * The number of entities that have had event `enter` and not yet event `leave` (contract
+ * section 2), plus `initial`. Events are merged across the two series in time order.
+ */
+export class EntityLevel implements MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  private readonly events = new EventBuffer();
+  private readonly ids = new EntityIds();
+
+  constructor(
+    private readonly measure: LevelMeasure & { source: { type: "entities" } },
+    private readonly setup: MeasureSetup,
+  ) {
+    this.reads = [
+      { series: measure.source.enter, entity: true },
+      { series: measure.source.leave, entity: true },
+    ];
+  }
+
+  row(slot: number, time: number, _value: number, entity: string | undefined, line: number): void {
+    if (entity === undefined) throw msg.rowWithoutEntity(this.setup.file, line, this.reads[slot].series, this.measure.name);
+    this.events.add(time, slot === 0 ? ENTER : LEAVE, 0, this.ids.id(entity), line);
+  }
+
+  finish(): MeasureOutput {
+    const { setup, measure } = this;
+    const sinks = new LevelSinks(setup, measure.atLeast);
+    const tracker = new LevelTracker(measure.initial, setup.window.collectFrom, setup.window.end as number, sinks);
+    const openSince = new Float64Array(this.ids.size).fill(-1);
+    let inside = 0;
+    let entered = 0;
+    let left = 0;
+    this.events.replay((time, kind, _v, id, line) => {
+      if (kind === ENTER) {
+        if (openSince[id] >= 0) throw msg.duplicateEnter(setup.file, line, this.ids.name(id), measure.source.enter, measure.name, openSince[id]);
+        openSince[id] = line;
+        inside++;
+        if (time >= setup.window.collectFrom) entered++;
+      } else {
+        if (openSince[id] < 0) throw msg.leaveWithoutEnter(setup.file, line, this.ids.name(id), measure.source.leave, measure.name, measure.source.enter);
+        openSince[id] = -1;
+        inside--;
+        if (time >= setup.window.collectFrom) left++;
+      }
+      tracker.change(time, measure.initial + inside);
+    });
+    return sinks.output(tracker.finish(), { entered, left, inside_at_end: inside });
+  }
+}

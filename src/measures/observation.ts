@@ -1,0 +1,156 @@
+import { Adder } from "../stats/adder.js";
+import { describe } from "../stats/moments.js";
+import * as msg from "../messages/study.js";
+import type { ObservationMeasure } from "../manifest/types.js";
+import type { ObservationRunStats } from "../study/outcome.js";
+import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
+import { EntityIds, EventBuffer } from "./events.js";
+import type { MeasureSetup } from "./setup.js";
+import { type Cell, TableBuilder } from "./table.js";
+import { observationExtras } from "./quantiles.js";
+
+/** A growable pair of typed arrays: observation times and values, in the order recorded. */
+class Observations {
+  times = new Float64Array(1024);
+  values = new Float64Array(1024);
+  n = 0;
+  push(time: number, value: number): void {
+    if (this.n === this.values.length) {
+      const t = new Float64Array(this.n * 2);
+      t.set(this.times);
+      this.times = t;
+      const v = new Float64Array(this.n * 2);
+      v.set(this.values);
+      this.values = v;
+    }
+    this.times[this.n] = time;
+    this.values[this.n++] = value;
+  }
+}
+
+export const OBSERVATION_COLUMNS = ["index", "time", "value", "running_sum", "running_mean"];
+export const ENTITY_OBSERVATION_COLUMNS = ["index", "time", "entity", "start_time", "value", "running_sum", "running_mean"];
+
+/** Shared end of both observation kinds: statistics from the recorded values. */
+function observationOutput(
+  measure: ObservationMeasure,
+  setup: MeasureSetup,
+  obs: Observations,
+  table: TableBuilder,
+  extra: Record<string, unknown>,
+): MeasureOutput {
+  const values = obs.values.subarray(0, obs.n);
+  const d = describe(values);
+  const stats: ObservationRunStats = { kind: "observation", value: d.mean, n: d.n, mean: d.mean, sd: d.sd, min: d.min, max: d.max, ...extra };
+  const tables = [{ suffix: "", table: table.build() }];
+  const extras = observationExtras(values, measure.quantiles, measure.within, setup.table);
+  if (extras.quantiles !== undefined) stats.quantiles = extras.quantiles;
+  if (extras.within !== undefined) stats.within = extras.within;
+  tables.push(...extras.tables);
+  const out: MeasureOutput = { stats, tables, warnings: [], observations: values, observationTimes: obs.times.subarray(0, obs.n) };
+  return out;
+}
+
+/** Each row of one series is one observation (contract section 2). */
+export class SeriesObservation implements MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  private readonly obs = new Observations();
+  private readonly running = new Adder();
+  private readonly table: TableBuilder;
+  private readonly cells: Cell[] = new Array(OBSERVATION_COLUMNS.length);
+
+  constructor(
+    private readonly measure: ObservationMeasure & { source: { type: "series" } },
+    private readonly setup: MeasureSetup,
+  ) {
+    this.reads = [{ series: measure.source.series, entity: false }];
+    this.table = new TableBuilder(OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+  }
+
+  row(_slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
+    if (value !== value) throw msg.observationRowWithoutValue(this.setup.file, line, this.measure.source.series, this.measure.name);
+    if (time < this.setup.window.collectFrom) return;
+    this.obs.push(time, value);
+    this.running.add(value);
+    const sum = this.running.value();
+    const r = this.cells;
+    r[0] = this.obs.n;
+    r[1] = time;
+    r[2] = value;
+    r[3] = sum;
+    r[4] = sum / this.obs.n;
+    this.table.add(r);
+  }
+
+  finish(): MeasureOutput {
+    return observationOutput(this.measure, this.setup, this.obs, this.table, {});
+  }
+}
+
+const START = 0;
+const END = 1;
+
+/**
+ * For each entity, time of its `end` event minus time of its `start` event, recorded at the end
+ * event's time (contract section 2). Entities still open at the window's end are censored:
+ * counted and reported.
+ */
+export class EntityObservation implements MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  private readonly events = new EventBuffer();
+  private readonly ids = new EntityIds();
+
+  constructor(
+    private readonly measure: ObservationMeasure & { source: { type: "entities" } },
+    private readonly setup: MeasureSetup,
+  ) {
+    this.reads = [
+      { series: measure.source.start, entity: true },
+      { series: measure.source.end, entity: true },
+    ];
+  }
+
+  row(slot: number, time: number, _value: number, entity: string | undefined, line: number): void {
+    if (entity === undefined) throw msg.rowWithoutEntity(this.setup.file, line, this.reads[slot].series, this.measure.name);
+    this.events.add(time, slot === 0 ? START : END, 0, this.ids.id(entity), line);
+  }
+
+  finish(): MeasureOutput {
+    const { measure, setup } = this;
+    const c = setup.window.collectFrom;
+    const startTime = new Float64Array(this.ids.size).fill(NaN);
+    const startLine = new Float64Array(this.ids.size);
+    const obs = new Observations();
+    const running = new Adder();
+    const table = new TableBuilder(ENTITY_OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+    const row: Cell[] = new Array(ENTITY_OBSERVATION_COLUMNS.length);
+    let open = 0;
+    this.events.replay((time, kind, _v, id, line) => {
+      if (kind === START) {
+        if (startTime[id] === startTime[id]) throw msg.duplicateEnter(setup.file, line, this.ids.name(id), measure.source.start, measure.name, startLine[id]);
+        startTime[id] = time;
+        startLine[id] = line;
+        open++;
+        return;
+      }
+      const began = startTime[id];
+      if (began !== began) throw msg.leaveWithoutEnter(setup.file, line, this.ids.name(id), measure.source.end, measure.name, measure.source.start);
+      startTime[id] = NaN;
+      open--;
+      if (time < c) return;
+      const value = time - began;
+      obs.push(time, value);
+      running.add(value);
+      const sum = running.value();
+      row[0] = obs.n;
+      row[1] = time;
+      row[2] = this.ids.name(id);
+      row[3] = began;
+      row[4] = value;
+      row[5] = sum;
+      row[6] = sum / obs.n;
+      table.add(row);
+    });
+    return observationOutput(measure, setup, obs, table, { censored: open });
+  }
+}

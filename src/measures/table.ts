@@ -1,0 +1,124 @@
+/**
+ * Calculation tables that stay useful at any length.
+ *
+ * A table with at most `maxRows` rows is kept whole. A longer one keeps its first `edgeRows`
+ * rows, its last `edgeRows` rows, and checkpoint rows in between: every row whose index is a
+ * multiple of a stride, the stride doubling whenever the checkpoints would exceed their budget
+ * (maxRows - 2 * edgeRows). Which rows are kept therefore depends only on the row count, never on
+ * timing, and every kept row carries its index and its running sums, so a reader can check any
+ * stretch against the full table (`sojourn table` writes it on demand).
+ *
+ * Memory is bounded by maxRows rows whatever the length of the run.
+ */
+
+export type Cell = number | string | null;
+
+export interface BuiltTable {
+  columns: string[];
+  rowsTotal: number;
+  rows: Cell[][];
+  shortened: boolean;
+}
+
+export class TableBuilder {
+  private readonly head: Cell[][] = [];
+  private checkpoints: Cell[][] = [];
+  private stride = 1;
+  /** Ring of the latest rows once the head is full. */
+  private readonly ring: Cell[][] = [];
+  private ringNext = 0;
+  private total = 0;
+  private readonly checkpointBudget: number;
+  /** The rows seen after the head while the table may still turn out short. */
+  private readonly middle: Cell[][] = [];
+  private overflowed = false;
+
+  constructor(
+    readonly columns: string[],
+    private readonly maxRows: number,
+    private readonly edgeRows: number,
+  ) {
+    if (edgeRows * 2 >= maxRows) this.edgeRows = Math.floor(maxRows / 4);
+    this.checkpointBudget = Math.max(1, maxRows - 2 * this.edgeRows);
+  }
+
+  /** Adds one row (its values are copied; the caller may reuse the array). */
+  add(row: readonly Cell[]): void {
+    const index = this.total++;
+    if (index < this.edgeRows) {
+      this.head.push(row.slice());
+      return;
+    }
+    if (!this.overflowed) {
+      if (this.head.length + this.middle.length < this.maxRows) {
+        this.middle.push(row.slice());
+        return;
+      }
+      this.overflow();
+    }
+    this.keepTail(row);
+    if (index % this.stride === 0) this.addCheckpoint(row.slice());
+  }
+
+  /** First time past maxRows: turn the buffered middle into checkpoints and tail. */
+  private overflow(): void {
+    this.overflowed = true;
+    const middle = this.middle.splice(0);
+    for (let i = 0; i < middle.length; i++) {
+      const index = this.edgeRows + i;
+      this.keepTail(middle[i]);
+      if (index % this.stride === 0) this.addCheckpoint(middle[i]);
+    }
+  }
+
+  private keepTail(row: readonly Cell[]): void {
+    if (this.edgeRows === 0) return;
+    if (this.ring.length < this.edgeRows) {
+      this.ring.push(row.slice());
+    } else {
+      const slot = this.ring[this.ringNext];
+      for (let j = 0; j < row.length; j++) slot[j] = row[j];
+      this.ringNext = (this.ringNext + 1) % this.edgeRows;
+    }
+  }
+
+  private addCheckpoint(row: Cell[]): void {
+    this.checkpoints.push(row);
+    while (this.checkpoints.length > this.checkpointBudget) {
+      this.stride *= 2;
+      this.checkpoints = this.checkpoints.filter((r) => ((r[0] as number) - 1) % this.stride === 0);
+    }
+  }
+
+  get rowsTotal(): number {
+    return this.total;
+  }
+
+  build(): BuiltTable {
+    if (!this.overflowed) {
+      return { columns: this.columns, rowsTotal: this.total, rows: [...this.head, ...this.middle], shortened: false };
+    }
+    const tail = [...this.ring.slice(this.ringNext), ...this.ring.slice(0, this.ringNext)];
+    const firstTail = tail.length > 0 ? (tail[0][0] as number) : Infinity;
+    const rows = [...this.head];
+    for (const r of this.checkpoints) {
+      const index = r[0] as number;
+      if (index > this.edgeRows && index < firstTail) rows.push(r);
+    }
+    rows.push(...tail);
+    return { columns: this.columns, rowsTotal: this.total, rows, shortened: true };
+  }
+}
+
+/** One CSV cell: numbers in shortest round-trip form, text quoted when it needs to be (RFC 4180). */
+export function csvCell(c: Cell): string {
+  if (c === null) return "";
+  if (typeof c === "number") return Object.is(c, -0) ? "0" : String(c);
+  return /[",\r\n]/.test(c) || c !== c.trim() ? `"${c.replace(/"/g, '""')}"` : c;
+}
+
+export function tableToCsv(t: BuiltTable): string {
+  const lines = [t.columns.map(csvCell).join(",")];
+  for (const r of t.rows) lines.push(r.map(csvCell).join(","));
+  return lines.join("\n") + "\n";
+}

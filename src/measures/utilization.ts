@@ -1,0 +1,162 @@
+import { Adder } from "../stats/adder.js";
+import * as msg from "../messages/study.js";
+import type { UtilizationMeasure } from "../manifest/types.js";
+import type { UtilizationRunStats } from "../study/outcome.js";
+import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
+import { EventBuffer } from "./events.js";
+import { LevelStats } from "./levelStats.js";
+import type { MeasureSetup } from "./setup.js";
+import { SliceAreas, wholeSlices } from "./slices.js";
+import { type Cell, TableBuilder } from "./table.js";
+import { TraceBuilder } from "./trace.js";
+
+export const UTILIZATION_COLUMNS = [
+  "index", "value", "capacity", "from", "to", "duration", "area", "capacity_area",
+  "running_area", "running_capacity_area", "running_mean", "running_utilization",
+];
+
+const BUSY = 0;
+const CAPACITY = 1;
+
+/**
+ * Utilization = area(busy) / area(capacity) over the window (contract sections 2 and 4).
+ *
+ * The busy level and the capacity (a constant, or a level of its own series) are followed
+ * together: every change of either closes an interval on which both are constant, so the table
+ * shows both areas side by side. Example: busy 1 on [0, 4] and 2 on [4, 10] with capacity 2 gives
+ * busy area 16, capacity area 20, utilization 0.8.
+ */
+export class Utilization implements MeasureAccumulator {
+  readonly reads: SeriesRead[];
+  private readonly events = new EventBuffer();
+  private busy: number;
+  private capacity: number;
+  private from: number;
+  private readonly c: number;
+  private readonly end: number;
+  private index = 0;
+  private readonly busyStats: LevelStats;
+  private readonly busyArea = new Adder();
+  private readonly capacityArea = new Adder();
+  private readonly table: TableBuilder;
+  private readonly cells: Cell[] = new Array(UTILIZATION_COLUMNS.length);
+  private readonly trace: TraceBuilder | null;
+  private readonly batchBusy: SliceAreas | null = null;
+  private readonly batchCapacity: SliceAreas | null = null;
+  private readonly sliceBusy: SliceAreas | null = null;
+  private readonly sliceCapacity: SliceAreas | null = null;
+
+  constructor(
+    private readonly measure: UtilizationMeasure,
+    private readonly setup: MeasureSetup,
+  ) {
+    const cap = measure.capacity;
+    this.reads = [{ series: measure.series, entity: false }];
+    if (cap.type === "series") this.reads.push({ series: cap.series, entity: false });
+    this.busy = measure.initial;
+    this.capacity = cap.type === "constant" ? cap.value : cap.initial;
+    this.c = setup.window.collectFrom;
+    this.end = setup.window.end as number;
+    this.from = this.c;
+    this.busyStats = new LevelStats(measure.atLeast);
+    this.table = new TableBuilder(UTILIZATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+    this.trace = setup.trace ? new TraceBuilder() : null;
+    const T = this.end - this.c;
+    if (setup.batches !== null) {
+      this.batchBusy = new SliceAreas(this.c, T / setup.batches, setup.batches, this.end);
+      this.batchCapacity = new SliceAreas(this.c, T / setup.batches, setup.batches, this.end);
+    }
+    if (setup.slice !== null) {
+      const { count, last } = wholeSlices(setup.window.start, this.end, setup.slice);
+      this.sliceBusy = new SliceAreas(setup.window.start, setup.slice, count, last);
+      this.sliceCapacity = new SliceAreas(setup.window.start, setup.slice, count, last);
+    }
+  }
+
+  row(slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
+    if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.reads[slot].series, this.measure.name);
+    if (this.reads.length === 1) this.change(time, BUSY, value);
+    else this.events.add(time, slot, value, 0, line);
+  }
+
+  private change(time: number, kind: number, value: number): void {
+    if (time >= this.c) {
+      this.close(time);
+      this.from = time;
+    }
+    if (kind === BUSY) this.busy = value;
+    else this.capacity = value;
+  }
+
+  private close(to: number): void {
+    const from = this.from;
+    const d = to - from;
+    const busy = this.busy;
+    const cap = this.capacity;
+    const area = busy * d;
+    const capArea = cap * d;
+    this.busyStats.interval(from, to, busy);
+    this.busyArea.add(area);
+    this.capacityArea.add(capArea);
+    const runningArea = this.busyArea.value();
+    const runningCap = this.capacityArea.value();
+    const elapsed = to - this.c;
+    const r = this.cells;
+    r[0] = ++this.index;
+    r[1] = busy;
+    r[2] = cap;
+    r[3] = from;
+    r[4] = to;
+    r[5] = d;
+    r[6] = area;
+    r[7] = capArea;
+    r[8] = runningArea;
+    r[9] = runningCap;
+    r[10] = elapsed > 0 ? runningArea / elapsed : null;
+    r[11] = runningCap !== 0 ? runningArea / runningCap : null;
+    this.table.add(r);
+    if (this.trace !== null) this.trace.add(from, busy, elapsed > 0 ? runningArea / elapsed : busy);
+    if (this.batchBusy !== null) {
+      this.batchBusy.interval(from, to, busy);
+      this.batchCapacity!.interval(from, to, cap);
+    }
+    if (this.sliceBusy !== null) {
+      this.sliceBusy.interval(from, to, busy);
+      this.sliceCapacity!.interval(from, to, cap);
+    }
+  }
+
+  finish(): MeasureOutput {
+    if (this.reads.length > 1) this.events.replay((time, kind, value) => this.change(time, kind, value));
+    this.close(this.end);
+    const T = this.end - this.c;
+    const busyArea = this.busyArea.value();
+    const capacityArea = this.capacityArea.value();
+    if (!(capacityArea > 0)) throw msg.capacityNotPositive(this.setup.file, this.measure.name);
+    const f = this.busyStats.result(T);
+    const u = busyArea / capacityArea;
+    const stats: UtilizationRunStats = {
+      kind: "utilization",
+      value: u,
+      mean: u,
+      area: busyArea,
+      capacity_area: capacityArea,
+      duration: T,
+      busy_mean: busyArea / T,
+      capacity_mean: capacityArea / T,
+      final: this.busy,
+    };
+    if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
+    if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
+    const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }], warnings: [] };
+    if (u > 1 + 1e-12) out.warnings.push(`utilization ${u} is above 1: the busy level exceeded the capacity for part of the window`);
+    if (this.trace !== null) out.trace = { points: this.trace.close(this.end, this.busy, busyArea / T), thinned: this.trace.thinned };
+    if (this.batchBusy !== null) out.batchMeans = ratio(this.batchBusy, this.batchCapacity!);
+    if (this.sliceBusy !== null) out.slices = ratio(this.sliceBusy, this.sliceCapacity!);
+    return out;
+  }
+}
+
+function ratio(busy: SliceAreas, capacity: SliceAreas): number[] {
+  return busy.areas.map((a, j) => a.value() / capacity.areas[j].value());
+}

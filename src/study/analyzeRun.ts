@@ -1,0 +1,130 @@
+import { readRun, type SeriesRequest } from "../ingest/readRun.js";
+import type { MeasureAccumulator, MeasureOutput } from "../measures/accumulator.js";
+import { createAccumulator } from "../measures/create.js";
+import type { MeasureSetup } from "../measures/setup.js";
+import { makeWindow, type RunWindow } from "../measures/window.js";
+import type { Measure, RunRef, Scenario, TableOptions } from "../manifest/types.js";
+import type { InputRecord, RunResult } from "./outcome.js";
+
+/** What to compute for one run. */
+export interface RunPlan {
+  scenario: Scenario;
+  run: RunRef;
+  /** The warm-up time in force for this run (fixed or estimated), or null. */
+  warmup: number | null;
+  measures: Measure[];
+  tables: TableOptions;
+  /** Keep level traces for the charts (the first run of each scenario). */
+  trace: boolean;
+  /** Batch means per run with this many batches, or null. */
+  batches: number | null;
+  /** Slice width for MSER-5 / Welch slice averages, or null. */
+  slice: number | null;
+}
+
+export interface RunAnalysis {
+  result: RunResult;
+  input: InputRecord;
+  window: RunWindow;
+  outputs: Map<string, MeasureOutput>;
+  warnings: { measure: string | null; message: string }[];
+}
+
+/**
+ * Reads one run file once and feeds every measure's accumulator:
+ *
+ *   file ──readRun──▶ router (series → accumulators) ──▶ accumulators ──finish──▶ outputs
+ *
+ * Rows after the window's end are counted and never reach a measure (contract section 3).
+ */
+export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
+  const { run, scenario } = plan;
+  const window = makeWindow(run.start, run.end, plan.warmup);
+  const setup: MeasureSetup = {
+    window,
+    file: run.file,
+    table: plan.tables,
+    trace: plan.trace,
+    batches: plan.batches,
+    slice: plan.slice,
+  };
+  const accumulators: [Measure, MeasureAccumulator][] = plan.measures.map((m) => [m, createAccumulator(m, setup)]);
+
+  // One entry per distinct series name: the accumulators (and their slots) that read it.
+  const requests: SeriesRequest[] = [];
+  const targets: { acc: MeasureAccumulator; slot: number }[][] = [];
+  const bySeries = new Map<string, number>();
+  for (const [, acc] of accumulators) {
+    acc.reads.forEach((read, slot) => {
+      let i = bySeries.get(read.series);
+      if (i === undefined) {
+        i = requests.length;
+        bySeries.set(read.series, i);
+        requests.push({ name: read.series, entity: false });
+        targets.push([]);
+      }
+      if (read.entity) requests[i].entity = true;
+      targets[i].push({ acc, slot });
+    });
+  }
+
+  const end = window.end ?? Infinity;
+  const c = window.collectFrom;
+  let afterEnd = 0;
+  let beforeWindow = 0;
+  const report = await readRun({
+    path: run.path,
+    display: run.file,
+    columns: scenario.columns,
+    series: requests,
+    onRow(seriesIndex, time, value, entity, line) {
+      if (time > end) {
+        afterEnd++;
+        return;
+      }
+      if (time < c) beforeWindow++;
+      const list = targets[seriesIndex];
+      for (let k = 0; k < list.length; k++) list[k].acc.row(list[k].slot, time, value, entity, line);
+    },
+  });
+
+  const outputs = new Map<string, MeasureOutput>();
+  const warnings: RunAnalysis["warnings"] = [];
+  const measures: RunResult["measures"] = {};
+  for (const [m, acc] of accumulators) {
+    const missing = acc.reads.filter((r) => report.seriesRows[r.series] === undefined).map((r) => r.series);
+    if (missing.length > 0) {
+      warnings.push({
+        measure: m.name,
+        message: `series ${missing.map((s) => `"${s}"`).join(", ")} never appears in ${run.file}; measure "${m.name}" sees no rows of it in this run`,
+      });
+    }
+    const out = acc.finish();
+    for (const w of out.warnings) warnings.push({ measure: m.name, message: w });
+    outputs.set(m.name, out);
+    measures[m.name] = out.stats;
+  }
+
+  let requested = 0;
+  for (const r of requests) requested += report.seriesRows[r.name] ?? 0;
+  const input: InputRecord = {
+    scenario: scenario.name,
+    run: run.id,
+    file: run.file,
+    bytes: report.bytes,
+    sha256: report.sha256,
+    rows: report.rows,
+    left_out: { after_end: afterEnd, before_window: beforeWindow, unused_series: report.rows - requested },
+    series_rows: report.seriesRows,
+  };
+  const result: RunResult = {
+    id: run.id,
+    file: run.file,
+    sha256: report.sha256,
+    start: run.start,
+    end: run.end,
+    measures,
+  };
+  if (window.warmup !== null) result.warmup = window.warmup;
+  return { result, input, window, outputs, warnings };
+}

@@ -1,0 +1,190 @@
+/**
+ * What a study run produces: `results.json` (typed as `Results`) plus everything the report and
+ * the study record need beside it (input audit, table index, interval arithmetic, chart data).
+ */
+
+/** A run measure as written to results.json. Extra keys beyond the contract are allowed. */
+export interface LevelRunStats {
+  kind: "level";
+  value: number;
+  mean: number;
+  area: number;
+  duration: number;
+  sd: number;
+  min: number;
+  max: number;
+  final: number;
+  [extra: string]: unknown;
+}
+export interface UtilizationRunStats {
+  kind: "utilization";
+  value: number;
+  mean: number;
+  [extra: string]: unknown;
+}
+export interface ObservationRunStats {
+  kind: "observation";
+  /** null when the run has no observation in the window. */
+  value: number | null;
+  n: number;
+  mean: number | null;
+  sd: number | null;
+  min: number | null;
+  max: number | null;
+  [extra: string]: unknown;
+}
+export interface CountRunStats {
+  kind: "count";
+  value: number;
+  n: number;
+  /** null when the run has no window end. */
+  rate: number | null;
+  [extra: string]: unknown;
+}
+export type RunStats = LevelRunStats | UtilizationRunStats | ObservationRunStats | CountRunStats;
+
+export interface RunResult {
+  id: string;
+  file: string;
+  sha256: string;
+  start: number;
+  end: number | null;
+  measures: Record<string, RunStats>;
+  [extra: string]: unknown;
+}
+
+/** Across-run summary of one figure. Interval fields are null with fewer than two runs. */
+export interface Summary {
+  n: number;
+  mean: number | null;
+  sd: number | null;
+  half_width: number | null;
+  ci_low: number | null;
+  ci_high: number | null;
+  [extra: string]: unknown;
+}
+
+export interface ScenarioResult {
+  name: string;
+  runs: RunResult[];
+  summary: Record<string, Summary>;
+  [extra: string]: unknown;
+}
+
+export interface Results {
+  format: "sojourn-results/1";
+  title: string;
+  time_unit: string;
+  confidence: number;
+  warmup: unknown;
+  scenarios: ScenarioResult[];
+  [extra: string]: unknown;
+}
+
+/** Why rows of a run file were not used. */
+export interface LeftOut {
+  /** Rows of series that measures read, after the window's end. */
+  after_end: number;
+  /** Rows of series that measures read, before the collection start c (warm-up or start):
+   *  levels still take their value from them; observations and counts leave them out. */
+  before_window: number;
+  /** Rows of series no measure reads. */
+  unused_series: number;
+}
+
+/** Audit of one input file. */
+export interface InputRecord {
+  scenario: string;
+  run: string;
+  /** Relative to the manifest's folder, `/` separators. */
+  file: string;
+  bytes: number;
+  sha256: string;
+  rows: number;
+  left_out: LeftOut;
+  /** Rows per series name, every series seen in the file. */
+  series_rows: Record<string, number>;
+}
+
+/** One calculation table written under DIR/tables. */
+export interface TableRecord {
+  scenario: string;
+  /** null for a scenario-level table (interval arithmetic). */
+  run: string | null;
+  measure: string;
+  kind: string;
+  /** Path relative to the report folder, `/` separators. */
+  file: string;
+  columns: string[];
+  rows_total: number;
+  rows_written: number;
+  /** True when the table was shortened (head, checkpoints, tail). */
+  shortened: boolean;
+  sha256: string;
+  /** The rows as written, for the report appendix (at most the written rows). */
+  preview: (number | string | null)[][];
+}
+
+/** Step-by-step arithmetic of one across-run interval. */
+export interface IntervalArithmetic {
+  scenario: string;
+  measure: string;
+  /** What is summarised: "value", or a sub-figure such as "quantiles.0.9". */
+  figure: string;
+  rows: { run: string; value: number; deviation: number; squared: number }[];
+  n: number;
+  sum: number;
+  mean: number | null;
+  sum_squared: number | null;
+  variance: number | null;
+  sd: number | null;
+  df: number | null;
+  /** The probability of the t quantile, 1 - alpha/2. */
+  p: number | null;
+  t: number | null;
+  standard_error: number | null;
+  half_width: number | null;
+  ci_low: number | null;
+  ci_high: number | null;
+  /** Why the interval is missing, when it is. */
+  note: string | null;
+}
+
+/** A level trace for the step chart: intervals of one run (possibly thinned for the chart). */
+export interface LevelTrace {
+  scenario: string;
+  run: string;
+  measure: string;
+  /** Window start c (after warm-up) and end. */
+  from: number;
+  to: number;
+  warmup: number | null;
+  /** Change points: the level `value` holds on [time, next time). */
+  points: { time: number; value: number; running_mean: number }[];
+  thinned: boolean;
+}
+
+/** Observation values of one scenario and measure for the histogram (possibly a sample). */
+export interface ObservationSample {
+  scenario: string;
+  measure: string;
+  values: number[];
+  total: number;
+}
+
+export interface Warning {
+  scenario: string | null;
+  run: string | null;
+  measure: string | null;
+  message: string;
+}
+
+export interface StudyOutcome {
+  results: Results;
+  inputs: InputRecord[];
+  tables: TableRecord[];
+  intervals: IntervalArithmetic[];
+  traces: LevelTrace[];
+  samples: ObservationSample[];
+  warnings: Warning[];
+}

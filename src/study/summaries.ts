@@ -1,0 +1,63 @@
+import { intervalArithmetic } from "../stats/interval.js";
+import { runsNeeded } from "../stats/runsNeeded.js";
+import type { Measure } from "../manifest/types.js";
+import type { IntervalArithmetic, RunResult, Summary } from "./outcome.js";
+
+/** The contract's summary fields taken from the interval arithmetic. */
+export function summaryOf(a: Omit<IntervalArithmetic, "scenario" | "measure" | "figure">): Summary {
+  return { n: a.n, mean: a.mean, sd: a.sd, half_width: a.half_width, ci_low: a.ci_low, ci_high: a.ci_high };
+}
+
+/** The across-run value of one figure of each run: null figures are left out. */
+function figureValues(runs: RunResult[], pick: (r: RunResult) => unknown): { run: string; value: number }[] {
+  const out: { run: string; value: number }[] = [];
+  for (const r of runs) {
+    const v = pick(r);
+    if (typeof v === "number") out.push({ run: r.id, value: v });
+  }
+  return out;
+}
+
+/**
+ * Summaries of one measure across the runs of a scenario (contract section 4): the primary value,
+ * then each per-run quantile, share within and share of time at least (issue 8), and the runs
+ * needed for a target precision (issue 4). Every interval's arithmetic is kept for the appendix.
+ */
+export function summarizeMeasure(
+  scenario: string,
+  measure: Measure,
+  runs: RunResult[],
+  confidence: number,
+): { summary: Summary; intervals: IntervalArithmetic[] } {
+  const intervals: IntervalArithmetic[] = [];
+  const interval = (figure: string, pick: (r: RunResult) => unknown): Summary => {
+    const a = intervalArithmetic(figureValues(runs, pick), confidence);
+    intervals.push({ scenario, measure: measure.name, figure, ...a });
+    return summaryOf(a);
+  };
+  const stats = (r: RunResult) => r.measures[measure.name] as Record<string, unknown>;
+  const summary = interval("value", (r) => stats(r).value);
+
+  const keyed = (field: "quantiles" | "within" | "time_at_least", keys: readonly number[]) => {
+    if (keys.length === 0) return;
+    const out: Record<string, Summary> = {};
+    for (const k of keys) {
+      const key = String(k);
+      out[key] = interval(`${field}.${key}`, (r) => (stats(r)[field] as Record<string, unknown> | undefined)?.[key]);
+    }
+    summary[field] = out;
+  };
+  if (measure.kind === "observation") {
+    keyed("quantiles", measure.quantiles);
+    keyed("within", measure.within);
+  } else if (measure.kind === "level" || measure.kind === "utilization") {
+    keyed("time_at_least", measure.atLeast);
+  }
+
+  if (measure.target !== null) {
+    summary.target = measure.target.type === "half_width" ? { half_width: measure.target.value } : { relative: measure.target.value };
+    summary.runs_needed =
+      summary.sd !== null && summary.mean !== null ? runsNeeded(summary.sd, summary.n, summary.mean, confidence, measure.target) : null;
+  }
+  return { summary, intervals };
+}

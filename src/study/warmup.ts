@@ -1,0 +1,79 @@
+import { mser } from "../stats/mser5.js";
+import { fsum } from "../stats/fsum.js";
+import type { Scenario, Study } from "../manifest/types.js";
+import { analyzeRun } from "./analyzeRun.js";
+
+/** The warm-up of a scenario once resolved, with the estimate behind it when one was made. */
+export interface ResolvedWarmup {
+  time: number | null;
+  estimate: Record<string, unknown> | null;
+  warnings: string[];
+}
+
+/**
+ * The warm-up of one scenario: none, fixed, or estimated by MSER-5 (White 1997; White, Cobb and
+ * Spratt 2000) from a first pass over its runs.
+ *
+ * Level or utilization measure: every run's time average over slices of width s from the
+ * window start, averaged slice by slice across runs (Welch 1983's averaged process), then
+ * MSER-5 on that sequence; warm-up = start + 5·d·s. Observation measure: MSER-5 on each run's
+ * observations in time order; warm-up = the latest time of a first kept observation.
+ */
+export async function resolveWarmup(study: Study, scenario: Scenario): Promise<ResolvedWarmup> {
+  const w = scenario.warmup;
+  if (w.type === "none") return { time: null, estimate: null, warnings: [] };
+  if (w.type === "fixed") return { time: w.time, estimate: null, warnings: [] };
+  const measure = scenario.measures.find((m) => m.name === w.measure)!;
+  const isLevel = measure.kind === "level" || measure.kind === "utilization";
+  const perRun = [];
+  for (const run of scenario.runs) {
+    perRun.push(
+      await analyzeRun({
+        scenario,
+        run,
+        warmup: null,
+        measures: [measure],
+        tables: { maxRows: 1, edgeRows: 0 },
+        trace: false,
+        batches: null,
+        slice: isLevel ? w.slice : null,
+      }).then((a) => ({ run, out: a.outputs.get(measure.name)! })),
+    );
+  }
+  const warnings: string[] = [];
+  const start = Math.min(...scenario.runs.map((r) => r.start));
+  if (isLevel) {
+    const count = Math.min(...perRun.map((p) => p.out.slices!.length));
+    const averages: number[] = [];
+    for (let j = 0; j < count; j++) averages.push(fsum(perRun.map((p) => p.out.slices![j])) / perRun.length);
+    const r = mser(averages, 5);
+    const time = start + 5 * r.d * w.slice;
+    if (r.atLimit) warnings.push(limitWarning(scenario.name, measure.name));
+    if (r.batches < 2) warnings.push(`MSER-5 for scenario "${scenario.name}" had fewer than two batches of 5 slices; no warm-up was removed. Use a smaller slice width.`);
+    return {
+      time: time > start ? time : null,
+      estimate: { method: "mser-5", measure: measure.name, d: r.d, batches: r.batches, time, slice: w.slice, slice_means: averages, statistics: r.statistics, at_limit: r.atLimit },
+      warnings,
+    };
+  }
+  let best: { time: number; d: number; batches: number } | null = null;
+  const runs: Record<string, unknown>[] = [];
+  for (const { run, out } of perRun) {
+    const values = out.observations!;
+    const r = mser(values, 5);
+    const first = r.truncated < values.length ? out.observationTimes![r.truncated] : null;
+    runs.push({ run: run.id, d: r.d, batches: r.batches, time: first, at_limit: r.atLimit });
+    if (r.atLimit) warnings.push(limitWarning(scenario.name, measure.name, run.id));
+    if (first !== null && (best === null || first > best.time)) best = { time: first, d: r.d, batches: r.batches };
+  }
+  const time = best?.time ?? start;
+  return {
+    time: time > start ? time : null,
+    estimate: { method: "mser-5", measure: measure.name, d: best?.d ?? 0, batches: best?.batches ?? 0, time, runs },
+    warnings,
+  };
+}
+
+function limitWarning(scenario: string, measure: string, run?: string): string {
+  return `MSER-5 on "${measure}" in scenario "${scenario}"${run ? `, run "${run}"` : ""} chose the largest truncation allowed (half the batches): the warm-up may not be over within the run. Make the runs longer before trusting this estimate.`;
+}
