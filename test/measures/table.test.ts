@@ -1,0 +1,41 @@
+import { describe, expect, it } from "vitest";
+import { TableBuilder, csvCell, tableToCsv } from "../../src/measures/table.js";
+
+function build(n: number, maxRows: number, edgeRows: number) {
+  const t = new TableBuilder(["index", "x"], maxRows, edgeRows);
+  for (let i = 1; i <= n; i++) t.add([i, i * 10]);
+  return t.build();
+}
+
+describe("TableBuilder", () => {
+  it("keeps a table of at most maxRows rows whole", () => {
+    const t = build(100, 100, 10);
+    expect(t.shortened).toBe(false);
+    expect(t.rows.map((r) => r[0])).toEqual(Array.from({ length: 100 }, (_, i) => i + 1));
+  });
+
+  it("shortens a long table to head, checkpoints and tail, never more than maxRows rows, indices increasing", () => {
+    for (const n of [101, 1000, 12345, 200_000]) {
+      const t = build(n, 100, 10);
+      expect(t.shortened).toBe(true);
+      expect(t.rowsTotal).toBe(n);
+      expect(t.rows.length).toBeLessThanOrEqual(100);
+      const idx = t.rows.map((r) => r[0] as number);
+      // head: rows 1..10; tail: the last 10 rows (common practice for long listings)
+      expect(idx.slice(0, 10)).toEqual(Array.from({ length: 10 }, (_, i) => i + 1));
+      expect(idx.slice(-10)).toEqual(Array.from({ length: 10 }, (_, i) => n - 9 + i));
+      for (let i = 1; i < idx.length; i++) expect(idx[i]).toBeGreaterThan(idx[i - 1]);
+      // every kept row is the row that was added at that index
+      for (const r of t.rows) expect(r[1]).toBe((r[0] as number) * 10);
+    }
+  });
+
+  it("csvCell quotes text with commas, quotes or edge spaces (RFC 4180) and writes numbers round-trip", () => {
+    expect(csvCell('a,"b"')).toBe('"a,""b"""');
+    expect(csvCell(" x")).toBe('" x"');
+    expect(csvCell(0.1 + 0.2)).toBe("0.30000000000000004");
+    expect(csvCell(-0)).toBe("0");
+    expect(csvCell(null)).toBe("");
+    expect(tableToCsv({ columns: ["a"], rows: [[1]], rowsTotal: 1, shortened: false })).toBe("a\n1\n");
+  });
+});

@@ -1,0 +1,150 @@
+import { describe, expect, it } from "vitest";
+import { loadStudy } from "../../src/manifest/loadStudy.js";
+import { timeAverageAt } from "../../src/study/at.js";
+import { csv } from "../helpers/tempStudy.js";
+import { figures, studyOf } from "../helpers/runStudyFrom.js";
+
+// A small level trace worked by hand (our own numbers): initial 0, 2 from t=0, 5 from t=3,
+// 1 from t=4, window [0, 10], and a row at t=12 after the end.
+const trace = csv([[0, "queue", 2], [3, "queue", 5], [4, "queue", 1], [12, "queue", 3]]);
+const levelManifest = (extra = "") => `title: hand
+${extra}
+scenarios:
+  - {name: a, end: 10, runs: runs/*.csv}
+measures:
+  - {name: q, kind: level, series: queue}
+`;
+
+describe("level statistics on a hand-worked trace", () => {
+  it("runStudy gives area, time average, time-weighted sd, min, max and final as worked by hand", async () => {
+    const { outcome } = await studyOf(levelManifest(), { "runs/r1.csv": trace });
+    const q = figures(outcome.results, "q");
+    // computed by hand: area = 0*0 + 2*3 + 5*1 + 1*6 = 17; T = 10; mean = 1.7
+    expect(q.area).toBe(17);
+    expect(q.duration).toBe(10);
+    expect(q.mean).toBe(1.7);
+    // computed by hand: sum d (v - 1.7)^2 = 3*0.09 + 1*10.89 + 6*0.49 = 14.1; sd = sqrt(1.41)
+    expect(q.sd as number).toBeCloseTo(Math.sqrt(1.41), 14);
+    // computed by hand: min and max over intervals of positive duration (the zero-length [0,0] at 0 is not one)
+    expect(q.min).toBe(1);
+    expect(q.max).toBe(5);
+    expect(q.final).toBe(1);
+    // CONTRACT.md section 3: the row after the end is excluded and counted
+    expect(outcome.inputs[0].left_out.after_end).toBe(1);
+  });
+
+  it("the calculation table lists every interval with duration, area, running area and running average", async () => {
+    const { outcome } = await studyOf(levelManifest(), { "runs/r1.csv": trace });
+    const t = outcome.tables.find((x) => x.run === "r1" && x.measure === "q")!;
+    expect(t.columns).toEqual(["index", "value", "from", "to", "duration", "area", "running_area", "running_mean"]);
+    // computed by hand: the initial level holds on [0, 0] (duration 0), then the three rows' levels
+    expect(t.preview).toEqual([
+      [1, 0, 0, 0, 0, 0, 0, null],
+      [2, 2, 0, 3, 3, 6, 6, 2],
+      [3, 5, 3, 4, 1, 5, 11, 11 / 4],
+      [4, 1, 4, 10, 6, 6, 17, 1.7],
+    ]);
+  });
+
+  it("a warm-up prorates the interval that straddles it", async () => {
+    const { outcome } = await studyOf(levelManifest("warmup: 2"), { "runs/r1.csv": trace });
+    const q = figures(outcome.results, "q");
+    // computed by hand: c = 2; [2,3] at 2 gives 2, [3,4] at 5 gives 5, [4,10] at 1 gives 6: area 13 over T = 8
+    expect(q.area).toBe(13);
+    expect(q.duration).toBe(8);
+    expect(q.mean).toBe(13 / 8);
+  });
+
+  it("rows at the same time each leave a zero-length interval and the last one holds (ties)", async () => {
+    const tied = csv([[0, "queue", 2], [3, "queue", 5], [3, "queue", 7], [3, "queue", 4]]);
+    const { outcome } = await studyOf(levelManifest(), { "runs/r1.csv": tied });
+    const q = figures(outcome.results, "q");
+    // computed by hand: 2 on [0,3] (area 6), 5 and 7 on [3,3] (area 0), 4 on [3,10] (area 28)
+    expect(q.area).toBe(34);
+    expect(q.max).toBe(4); // CONTRACT.md section 4: max over intervals of positive duration only
+    expect(q.final).toBe(4);
+    const t = outcome.tables.find((x) => x.run === "r1" && x.measure === "q")!;
+    expect(t.rows_total).toBe(5);
+    expect(t.preview.map((r) => r[4])).toEqual([0, 3, 0, 0, 7]);
+  });
+
+  it("a row exactly at the end is inside the window and sets the final value", async () => {
+    const { outcome } = await studyOf(levelManifest(), { "runs/r1.csv": csv([[0, "queue", 2], [10, "queue", 9]]) });
+    const q = figures(outcome.results, "q");
+    // CONTRACT.md section 3: a row exactly at end is inside
+    expect(q.area).toBe(20);
+    expect(q.final).toBe(9);
+    expect(outcome.inputs[0].left_out.after_end).toBe(0);
+  });
+
+  it("timeAverageAt prorates the interval containing t", async () => {
+    const { manifestPath } = await studyOf(levelManifest(), { "runs/r1.csv": trace });
+    const study = await loadStudy(manifestPath);
+    const r = await timeAverageAt(study, { scenario: "a", run: "r1", measure: "q" }, 3.5);
+    // computed by hand: 2*3 + 5*0.5 = 8.5 over [0, 3.5]
+    expect(r.result).toEqual({ time: 3.5, area: 8.5, duration: 3.5, mean: 8.5 / 3.5 });
+  });
+
+  it("timeAverageAt after a warm-up starts at the warm-up", async () => {
+    const { manifestPath } = await studyOf(levelManifest("warmup: 2"), { "runs/r1.csv": trace });
+    const study = await loadStudy(manifestPath);
+    const r = await timeAverageAt(study, { scenario: "a", run: "r1", measure: "q" }, 4);
+    // computed by hand: 2*1 + 5*1 over [2, 4]
+    expect(r.result).toEqual({ time: 4, area: 7, duration: 2, mean: 3.5 });
+  });
+});
+
+describe("observation, count and utilization on hand-worked runs", () => {
+  const rows = csv([
+    [0, "busy", 1], [1, "wait", 4], [2, "wait", 6], [2, "arrive", null, "x"], [4, "busy", 2], [5, "wait", 11], [9, "arrive", null, "y"],
+  ]);
+  const manifest = `title: obs
+warmup: 2
+scenarios:
+  - {name: a, end: 10, runs: runs/*.csv}
+measures:
+  - {name: w, kind: observation, series: wait, quantiles: [0.5], within: [6]}
+  - {name: n, kind: count, series: arrive}
+  - {name: u, kind: utilization, series: busy, capacity: 2}
+`;
+  it("observations and counts before the warm-up are left out; a row exactly at the warm-up is inside", async () => {
+    const { outcome } = await studyOf(manifest, { "runs/r1.csv": rows });
+    const w = figures(outcome.results, "w");
+    // computed by hand: kept observations 6 (t=2, exactly at the warm-up) and 11
+    expect(w.n).toBe(2);
+    expect(w.mean).toBe(8.5);
+    expect(w.sd).toBeCloseTo(Math.sqrt(12.5), 14);
+    expect(w.min).toBe(6);
+    expect(w.max).toBe(11);
+    // Hyndman and Fan (1996) type 7: median of [6, 11] = 8.5; share <= 6 is 1/2
+    expect(w.quantiles).toEqual({ "0.5": 8.5 });
+    expect(w.within).toEqual({ "6": 0.5 });
+    const n = figures(outcome.results, "n");
+    // computed by hand: arrivals at 2 and 9; rate = 2 / (10 - 2)
+    expect(n).toMatchObject({ n: 2, value: 2, rate: 0.25 });
+  });
+
+  it("utilization = busy area / capacity area over the window, prorated at the warm-up", async () => {
+    const { outcome } = await studyOf(manifest, { "runs/r1.csv": rows });
+    const u = figures(outcome.results, "u");
+    // computed by hand: busy 1 on [2,4] and 2 on [4,10]: area 14; capacity 2 over 8: area 16
+    expect(u.value).toBe(14 / 16);
+    expect(u.mean).toBe(14 / 16);
+  });
+
+  it("utilization against a capacity series merges the two series in time order", async () => {
+    // capacity rows come after the busy rows in the file: time is ordered only within a series (CONTRACT.md section 1)
+    const file = csv([[0, "busy", 1], [4, "busy", 2], [0, "open", 2], [5, "open", 4]]);
+    const { outcome } = await studyOf(
+      `title: cap
+scenarios:
+  - {name: a, end: 10, runs: runs/*.csv}
+measures:
+  - {name: u, kind: utilization, series: busy, capacity: open}
+`,
+      { "runs/r1.csv": file },
+    );
+    // computed by hand: busy area 1*4 + 2*6 = 16; capacity area 2*5 + 4*5 = 30
+    expect(figures(outcome.results, "u").value).toBe(16 / 30);
+  });
+});
