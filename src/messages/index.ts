@@ -3,3 +3,6 @@
  * tests compare against these functions, never against copied strings.
  */
 export { UserError, located, formatPlace, type Place } from "./error.js";
+export * as manifestMessages from "./manifest.js";
+export * as ingestMessages from "./ingest.js";
+export * as reportMessages from "./report.js";

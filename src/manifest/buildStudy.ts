@@ -1,0 +1,270 @@
+/**
+ * The meaning checks and the normalization: a schema-valid `StudySpec` becomes a `Study` with
+ * every default filled in, every name resolved and every run file found. Each check throws a
+ * located message for the first problem it meets.
+ */
+import { manifestMessages } from "../messages/index.js";
+import { closest } from "./didYouMean.js";
+import type { KeyPath } from "./keyPath.js";
+import type { ManifestSource } from "./manifestSource.js";
+import { resolveRuns, type ResolvedRun } from "./resolveRuns.js";
+import {
+  KEYS_FOR_KIND,
+  OVERRIDABLE_KEYS,
+  type AnalysisSpec,
+  type ComparisonSpec,
+  type MeasureSpec,
+  type OverrideSpec,
+  type ScenarioSpec,
+  type StudySpec,
+  type TargetSpec,
+  type WarmupSpec,
+} from "./spec.js";
+import type { Analysis, ColumnMap, Comparison, Measure, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
+
+export const DEFAULT_COLUMNS: ColumnMap = { time: "time", series: "series", value: "value", entity: "entity" };
+export const DEFAULT_QUANTILES: readonly number[] = [0.5, 0.9, 0.95];
+export const DEFAULT_CONFIDENCE = 0.95;
+export const DEFAULT_TIME_UNIT = "time";
+export const DEFAULT_TABLES = { maxRows: 5000, edgeRows: 500 };
+
+/** What `buildStudy` needs besides the spec. */
+export interface StudyContext {
+  /** Absolute path of the manifest. */
+  manifestPath: string;
+  manifestText: string;
+  /** Absolute folder the run paths are relative to. */
+  baseDir: string;
+  /** The title when the manifest gives none. */
+  defaultTitle: string;
+}
+
+/** Own-property lookup, so that a name such as `constructor` never finds `Object.prototype`. */
+function own<T>(record: Record<string, T> | undefined, key: string): T | undefined {
+  return record !== undefined && Object.hasOwn(record, key) ? record[key] : undefined;
+}
+
+export function buildStudy(spec: StudySpec, source: ManifestSource, context: StudyContext): Study {
+  const place = (path: KeyPath, key = false) => source.place(path, { key });
+  const measureNames = spec.measures.map((m) => m.name);
+  const scenarioNames = spec.scenarios.map((s) => s.name);
+  const measureByName = new Map(spec.measures.map((m) => [m.name, m]));
+
+  // Study-wide settings.
+  const confidence = spec.confidence ?? DEFAULT_CONFIDENCE;
+  if (!(confidence > 0 && confidence < 1)) throw manifestMessages.confidenceOutOfRange(place(["confidence"]), confidence);
+  checkAnalysis(spec.analysis, ["analysis"]);
+  checkUniqueNames("scenario", scenarioNames, "scenarios");
+  checkUniqueNames("measure", measureNames, "measures");
+
+  // Measures and their per-scenario overrides.
+  spec.measures.forEach((measure, i) => {
+    const path: KeyPath = ["measures", i];
+    if (measure.kind === "level" || measure.kind === "observation") {
+      const fromForm = measure.kind === "level" ? "{enter: SERIES, leave: SERIES}" : "{start: SERIES, end: SERIES}";
+      if (measure.series !== undefined && measure.from !== undefined) throw manifestMessages.seriesAndFrom(place(path), measure.name);
+      if (measure.series === undefined && measure.from === undefined) throw manifestMessages.noSource(place(path), measure.name, measure.kind, fromForm);
+    }
+    checkOptionValues(measure, measure.name, path);
+    for (const [scenario, options] of Object.entries(measure.scenarios ?? {})) {
+      const optionsPath: KeyPath = [...path, "scenarios", scenario];
+      if (!scenarioNames.includes(scenario)) {
+        throw manifestMessages.unknownScenario(place(optionsPath, true), scenario, scenarioNames, closest(scenario, scenarioNames));
+      }
+      checkOverride(options, measure, optionsPath);
+    }
+  });
+  const warmup = spec.warmup === undefined ? ({ type: "none" } as const) : toWarmup(spec.warmup, ["warmup"]);
+
+  // Scenarios.
+  const scenarios = spec.scenarios.map((scenario, i) => buildScenario(scenario, i));
+  const comparisons = (spec.compare ?? []).map((c, k) => buildComparison(c, k));
+
+  return {
+    manifestPath: context.manifestPath,
+    manifestText: context.manifestText,
+    title: spec.title ?? context.defaultTitle,
+    timeUnit: spec.time_unit ?? DEFAULT_TIME_UNIT,
+    confidence,
+    warmup,
+    scenarios,
+    measureNames,
+    comparisons,
+    tables: {
+      maxRows: spec.tables?.max_rows ?? DEFAULT_TABLES.maxRows,
+      edgeRows: spec.tables?.edge_rows ?? DEFAULT_TABLES.edgeRows,
+    },
+  };
+
+  function checkUniqueNames(what: "scenario" | "measure", names: string[], key: string): void {
+    names.forEach((name, i) => {
+      const first = names.indexOf(name);
+      if (first !== i) throw manifestMessages.duplicateName(place([key, i, "name"]), what, name, source.lineOf([key, first]));
+    });
+  }
+
+  function checkAnalysis(analysis: AnalysisSpec | undefined, path: KeyPath): void {
+    if (analysis?.method === "batch-means" && analysis.batches < 2) {
+      throw manifestMessages.tooFewBatches(place([...path, "batches"]), analysis.batches);
+    }
+  }
+
+  /** Values that the schema cannot judge: capacity > 0 and quantile probabilities in [0, 1]. */
+  function checkOptionValues(options: OverrideSpec, measure: string, path: KeyPath): void {
+    if (typeof options.capacity === "number" && options.capacity <= 0) {
+      throw manifestMessages.capacityNotPositive(place([...path, "capacity"]), measure, options.capacity);
+    }
+    (options.quantiles ?? []).forEach((p, j) => {
+      if (!(p >= 0 && p <= 1)) throw manifestMessages.quantileOutOfRange(place([...path, "quantiles", j]), p);
+    });
+  }
+
+  /** An override's keys must apply to the measure's kind, and its values must be valid. */
+  function checkOverride(options: OverrideSpec, measure: MeasureSpec, path: KeyPath): void {
+    const allowed = KEYS_FOR_KIND[measure.kind];
+    for (const key of Object.keys(options)) {
+      if (!(allowed as readonly string[]).includes(key)) {
+        throw manifestMessages.overrideNotForKind(place([...path, key], true), key, measure.name, measure.kind, allowed);
+      }
+    }
+    checkOptionValues(options, measure.name, path);
+  }
+
+  function toWarmup(written: WarmupSpec, path: KeyPath): Warmup {
+    if (typeof written === "number") return { type: "fixed", time: written };
+    const measure = measureByName.get(written.measure);
+    if (measure === undefined) {
+      throw manifestMessages.unknownMeasure(place([...path, "measure"]), written.measure, measureNames, closest(written.measure, measureNames));
+    }
+    if (measure.kind === "count") throw manifestMessages.mserCountMeasure(place([...path, "measure"]), written.measure);
+    return { type: "mser-5", measure: written.measure, slice: written.slice };
+  }
+
+  function buildScenario(scenario: ScenarioSpec, i: number): Scenario {
+    const path: KeyPath = ["scenarios", i];
+    const name = scenario.name;
+    checkAnalysis(scenario.analysis, [...path, "analysis"]);
+    for (const [measureName, options] of Object.entries(scenario.measures ?? {})) {
+      const optionsPath: KeyPath = [...path, "measures", measureName];
+      const measure = measureByName.get(measureName);
+      if (measure === undefined) {
+        throw manifestMessages.unknownMeasure(place(optionsPath, true), measureName, measureNames, closest(measureName, measureNames));
+      }
+      checkOverride(options, measure, optionsPath);
+    }
+    if (scenario.start !== undefined && scenario.end !== undefined && scenario.end <= scenario.start) {
+      throw manifestMessages.endNotAfterStart(place([...path, "end"]), name, null, scenario.start, scenario.end);
+    }
+
+    const runs = resolveRuns(scenario, i, context.baseDir, source).map((run) => toRunRef(run, scenario, path));
+
+    const warmupPath: KeyPath = scenario.warmup !== undefined ? [...path, "warmup"] : ["warmup"];
+    const warmup = scenario.warmup !== undefined ? toWarmup(scenario.warmup, warmupPath) : spec.warmup !== undefined ? toWarmup(spec.warmup, warmupPath) : ({ type: "none" } as const);
+    if (warmup.type === "fixed") {
+      for (const run of runs) {
+        if (run.end !== null && warmup.time >= run.end) throw manifestMessages.warmupPastEnd(place(warmupPath), name, run.id, warmup.time, run.end);
+      }
+    }
+
+    const measures = spec.measures.map((m) => toMeasure(m, own(m.scenarios, name), own(scenario.measures, m.name)));
+    for (const measure of measures) {
+      if (measure.kind !== "level" && measure.kind !== "utilization") continue;
+      const open = runs.find((run) => run.end === null);
+      if (open !== undefined) throw manifestMessages.needsEnd(place(path), measure.name, measure.kind, name, open.id);
+    }
+
+    const analysis: Analysis = toAnalysis(scenario.analysis ?? spec.analysis);
+    const columns: ColumnMap = { ...DEFAULT_COLUMNS, ...spec.columns, ...scenario.columns };
+    return { name, runs, measures, warmup, analysis, columns };
+  }
+
+  function toRunRef(run: ResolvedRun, scenario: ScenarioSpec, scenarioPath: KeyPath): RunRef {
+    const start = run.start ?? scenario.start ?? 0;
+    const end = run.end ?? scenario.end ?? null;
+    if (end !== null && end <= start) {
+      const at: KeyPath = run.end !== undefined ? [...run.origin, "end"] : run.start !== undefined ? [...run.origin, "start"] : [...scenarioPath, "end"];
+      throw manifestMessages.endNotAfterStart(place(at), scenario.name, run.id, start, end);
+    }
+    return { id: run.id, path: run.path, file: run.file, start, end };
+  }
+
+  function buildComparison(comparison: ComparisonSpec, k: number): Comparison {
+    const path: KeyPath = ["compare", k];
+    if (!measureNames.includes(comparison.measure)) {
+      throw manifestMessages.unknownMeasure(place([...path, "measure"]), comparison.measure, measureNames, closest(comparison.measure, measureNames));
+    }
+    comparison.scenarios.forEach((s, j) => {
+      if (!scenarioNames.includes(s)) throw manifestMessages.unknownScenario(place([...path, "scenarios", j]), s, scenarioNames, closest(s, scenarioNames));
+    });
+    const [a, b] = comparison.scenarios;
+    if (a === b) throw manifestMessages.sameScenarioTwice(place([...path, "scenarios", 1]), a);
+    const method = comparison.method ?? "welch";
+    if (method === "paired") {
+      const idsA = scenarios[scenarioNames.indexOf(a)].runs.map((r) => r.id);
+      const idsB = scenarios[scenarioNames.indexOf(b)].runs.map((r) => r.id);
+      const onlyA = idsA.filter((id) => !idsB.includes(id));
+      const onlyB = idsB.filter((id) => !idsA.includes(id));
+      if (onlyA.length > 0 || onlyB.length > 0) throw manifestMessages.pairedRunsDiffer(place(path), a, b, onlyA, onlyB);
+    }
+    return { measure: comparison.measure, a, b, method };
+  }
+}
+
+/**
+ * A measure for one scenario: the definition's options, then the measure's `scenarios:` entry,
+ * then the scenario's `measures:` entry; a later source wins key by key.
+ */
+function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fromScenario: OverrideSpec | undefined): Measure {
+  const options: OverrideSpec = {};
+  for (const layer of [spec, fromMeasure ?? {}, fromScenario ?? {}]) {
+    for (const key of OVERRIDABLE_KEYS) {
+      if (layer[key] !== undefined) Object.assign(options, { [key]: layer[key] });
+    }
+  }
+  const target = toTarget(options.target);
+  const name = spec.name;
+  // The schema and the checks above guarantee the source keys each kind needs.
+  const series = spec.series as string;
+  const from = spec.from as Required<NonNullable<MeasureSpec["from"]>>;
+  switch (spec.kind) {
+    case "level":
+      return {
+        kind: "level",
+        name,
+        target,
+        source: spec.series !== undefined ? { type: "series", series } : { type: "entities", enter: from.enter, leave: from.leave },
+        initial: options.initial ?? 0,
+        atLeast: options.at_least ?? [],
+      };
+    case "utilization":
+      return {
+        kind: "utilization",
+        name,
+        target,
+        series,
+        initial: options.initial ?? 0,
+        capacity: typeof options.capacity === "string" ? { type: "series", series: options.capacity, initial: options.capacity_initial ?? 0 } : { type: "constant", value: options.capacity as number },
+        atLeast: options.at_least ?? [],
+      };
+    case "observation":
+      return {
+        kind: "observation",
+        name,
+        target,
+        source: spec.series !== undefined ? { type: "series", series } : { type: "entities", start: from.start, end: from.end },
+        quantiles: options.quantiles ?? [...DEFAULT_QUANTILES],
+        within: options.within ?? [],
+      };
+    case "count":
+      return { kind: "count", name, target, series };
+  }
+}
+
+function toTarget(target: TargetSpec | undefined): Target | null {
+  if (target === undefined) return null;
+  return "half_width" in target ? { type: "half_width", value: target.half_width } : { type: "relative", value: target.relative };
+}
+
+function toAnalysis(analysis: AnalysisSpec | undefined): Analysis {
+  return analysis?.method === "batch-means" ? { type: "batch-means", batches: analysis.batches } : { type: "replications" };
+}

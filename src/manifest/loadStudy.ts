@@ -1,0 +1,53 @@
+/**
+ * Reading a study manifest: the edge where what the user wrote becomes the trusted `Study`.
+ *
+ *   manifest file ──read──▶ text ──parseManifest──▶ YAML document with positions
+ *        ──checkSchema (docs/manifest.schema.json)──▶ StudySpec
+ *        ──buildStudy (names, windows, globs, overrides, defaults)──▶ Study
+ *
+ * Every problem stops at the first one found, as a `UserError` naming the file, line, column and
+ * key path.
+ */
+import { readFile } from "node:fs/promises";
+import { basename, dirname, extname, resolve } from "node:path";
+import { manifestMessages } from "../messages/index.js";
+import { buildStudy } from "./buildStudy.js";
+import { checkSchema } from "./checkSchema.js";
+import { parseManifest } from "./manifestSource.js";
+import type { Study } from "./types.js";
+
+export interface LoadOptions {
+  /** The manifest's text; when given, the file is not read. */
+  text?: string;
+  /** The folder run paths are relative to (default: the manifest's folder). */
+  baseDir?: string;
+}
+
+/**
+ * Reads (or takes `options.text`), parses, validates and normalizes a manifest into a `Study`.
+ * `manifestPath` is shown in messages exactly as given.
+ */
+export async function loadStudy(manifestPath: string, options: LoadOptions = {}): Promise<Study> {
+  const absolutePath = resolve(manifestPath);
+  const text = options.text ?? (await readManifest(manifestPath));
+  const source = parseManifest(text, manifestPath);
+  const spec = checkSchema(source);
+  return buildStudy(spec, source, {
+    manifestPath: absolutePath,
+    manifestText: text,
+    baseDir: resolve(options.baseDir ?? dirname(absolutePath)),
+    defaultTitle: basename(absolutePath, extname(absolutePath)),
+  });
+}
+
+async function readManifest(path: string): Promise<string> {
+  try {
+    return await readFile(path, "utf8");
+  } catch (error) {
+    const code = (error as NodeJS.ErrnoException).code;
+    if (code === "ENOENT") throw manifestMessages.manifestNotFound(path);
+    if (code === "EISDIR") throw manifestMessages.manifestIsFolder(path);
+    if (code === "EACCES" || code === "EPERM") throw manifestMessages.manifestUnreadable(path, "permission denied");
+    throw manifestMessages.manifestUnreadable(path, (error as Error).message);
+  }
+}

@@ -1,0 +1,22 @@
+import quantile from "@stdlib/stats-base-dists-t-quantile";
+
+/**
+ * The quantile of Student's t distribution: the t with P(T ≤ t) = p for T with `df` degrees of
+ * freedom. `df` may be any positive real (Welch–Satterthwaite degrees of freedom are not whole).
+ *
+ * Computed by stdlib's `@stdlib/stats-base-dists-t-quantile` (inverse of the regularized
+ * incomplete beta function). Reference: W. S. Gosset ("Student") (1908), "The Probable Error of
+ * a Mean", Biometrika 6(1), 1–25.
+ *
+ * Example: `tQuantile(0.975, 10)` gives 2.2281388519862744 (printed tables: 2.228).
+ *
+ * Throws a plain `Error` (a programming error, not a user error) when p is not strictly between
+ * 0 and 1 or df is not a finite number greater than 0.
+ */
+export function tQuantile(p: number, df: number): number {
+  if (!(p > 0 && p < 1)) throw new Error(`tQuantile: p must lie strictly between 0 and 1, got ${p}`);
+  if (!(df > 0 && Number.isFinite(df))) {
+    throw new Error(`tQuantile: df must be a finite number greater than 0, got ${df}`);
+  }
+  return quantile(p, df);
+}

@@ -1,0 +1,9 @@
+// jstat ships no type declarations; this covers what the tests call (a CommonJS module whose
+// export is the jStat object; import it as the default export).
+declare module "jstat" {
+  interface JStat {
+    studentt: { inv(p: number, dof: number): number; cdf(x: number, dof: number): number };
+  }
+  const jStat: JStat;
+  export = jStat;
+}
