@@ -96,11 +96,11 @@ describe("exit statuses (CONTRACT.md section 7)", () => {
   it("a time that decreases within a series names the file and line", () => {
     const dir = tempFolder({
       "s.yaml": "title: t\nscenarios:\n  - {name: a, end: 10, runs: [r.csv]}\nmeasures:\n  - {name: q, kind: level, series: q}\n",
-      "r.csv": csv([[0, "q", 1], [5, "other", 1], [4, "q", 2]]),
+      "r.csv": csv([[0, "q", 1], [5, "q", 1], [2, "other", 1], [4, "q", 2]]),
     });
     const r = sojourn(["check", join(dir, "s.yaml")]);
     expect(r.status).toBe(1);
-    expect(r.stderr).toContain("r.csv:4");
+    expect(r.stderr).toContain("r.csv:5");
   });
 });
 

@@ -1,0 +1,348 @@
+/**
+ * CSV run files (RFC 4180), parsed from bytes.
+ *
+ * Two paths per row:
+ * - the fast path reads a row whose fields do not start with a double quote: it walks the bytes
+ *   once, reads numbers in place (`scanDecimal`), matches the series name against known names
+ *   without making a string, and makes a string only for an entity cell the caller wants;
+ * - the quoted path reads any row into strings (quotes, `""` escapes, commas and line breaks
+ *   inside quotes). The fast path hands a row over as soon as it meets a field starting with `"`.
+ *
+ * A row that runs past the end of the bytes at hand is left for the next chunk (`parse` returns
+ * where it starts), so rows may be split anywhere across chunks.
+ */
+import type { ColumnMap } from "../manifest/types.js";
+import * as ingestMessages from "../messages/ingest.js";
+import { parseDecimalBytes, parseDecimalText, scanDecimal, scanned } from "./decimal.js";
+import type { ChunkParser } from "./feeder.js";
+import type { SeriesEntry, SeriesTable } from "./seriesTable.js";
+
+const COMMA = 44;
+const LF = 10;
+const CR = 13;
+const QUOTE = 34;
+const SPACE = 32;
+const TAB = 9;
+
+const SKIP = 0;
+const TIME = 1;
+const SERIES = 2;
+const VALUE = 3;
+const ENTITY = 4;
+/** Past the last column the reader needs: skip to the end of the line. */
+const REST = 5;
+
+/** Entity ids up to this many bytes are decoded byte by byte when ASCII. */
+const SHORT_ID = 16;
+
+/** `parse` steps: the row needs more bytes / the row has a quoted field. */
+const INCOMPLETE = -1;
+const QUOTED = -2;
+
+export class CsvParser implements ChunkParser {
+  /** Physical line (1-based) where the next record starts. */
+  private line = 1;
+  private haveHeader = false;
+  /** Role of each field up to the last one needed. */
+  private roles = new Uint8Array(0);
+  /** Fields a row needs: up to the time and the series columns. */
+  private required = 0;
+  private timeColumn = -1;
+  private seriesColumn = -1;
+  private valueColumn = -1;
+  private entityColumn = -1;
+  /** Fields of the record read last by `readFields`, and the line it started on. */
+  private fields: string[] = [];
+  private fieldsLine = 0;
+
+  constructor(
+    private readonly table: SeriesTable,
+    private readonly display: string,
+    private readonly columns: ColumnMap,
+  ) {}
+
+  parse(buf: Buffer, pos: number, final: boolean): number {
+    const end = buf.length;
+    while (pos < end) {
+      const c = buf[pos];
+      if (c === LF) {
+        this.line++;
+        pos++;
+        continue;
+      }
+      if (c === CR) {
+        if (pos + 1 === end) {
+          if (!final) return pos;
+          pos++;
+          continue;
+        }
+        if (buf[pos + 1] === LF) {
+          this.line++;
+          pos += 2;
+          continue;
+        }
+      }
+      let next: number;
+      if (!this.haveHeader) {
+        next = this.readFields(buf, pos, end, final);
+        if (next !== INCOMPLETE) this.useHeader();
+      } else {
+        next = this.fastRow(buf, pos, end, final);
+        if (next === QUOTED) {
+          next = this.readFields(buf, pos, end, final);
+          if (next !== INCOMPLETE) this.fieldsRow();
+        }
+      }
+      if (next === INCOMPLETE) return pos;
+      pos = next;
+    }
+    return pos;
+  }
+
+  finish(): void {
+    if (!this.haveHeader) throw ingestMessages.emptyFile(this.display, "csv");
+  }
+
+  /** Reads one row on the fast path; returns the position after it, INCOMPLETE or QUOTED. */
+  private fastRow(buf: Buffer, p: number, end: number, final: boolean): number {
+    const roles = this.roles;
+    const known = roles.length;
+    const rowStart = p;
+    let field = 0;
+    let time = NaN;
+    let value = NaN;
+    let entry: SeriesEntry | null = null;
+    let entityStart = -1;
+    let entityEnd = -1;
+    let q: number;
+    for (;;) {
+      if (p < end && buf[p] === QUOTE) return QUOTED;
+      const role = field < known ? roles[field] : REST;
+      if (role === TIME || role === VALUE) {
+        let x = scanDecimal(buf, p, end);
+        q = scanned.end;
+        if (x !== x || (q < end && buf[q] !== COMMA && buf[q] !== LF)) {
+          q = fieldEnd(buf, p, end);
+          if (q === end && !final) return INCOMPLETE;
+          const y = parseDecimalBytes(buf, p, q);
+          if (y === undefined) {
+            const text = buf.toString("utf8", p, q).trim();
+            throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+          }
+          x = y;
+        }
+        if (role === TIME) time = x;
+        else value = x;
+      } else if (role === SERIES) {
+        // Find the field's end and hash its bytes in the same pass (see `hashBytes`).
+        let h = 0;
+        q = p;
+        while (q < end) {
+          const c = buf[q];
+          if (c === COMMA || c === LF) break;
+          h = (Math.imul(h, 31) + c) | 0;
+          q++;
+        }
+        if (q === end && !final) return INCOMPLETE;
+        entry = this.table.lookupBytes(buf, p, q, h);
+        if (entry === null) {
+          if ((q === end || buf[q] === LF) && isBlank(buf, rowStart, q)) return this.blankRow(q, end);
+          throw ingestMessages.emptySeries(this.display, this.line);
+        }
+      } else if (role === REST) {
+        q = p;
+        while (q < end) {
+          const c = buf[q];
+          if (c === LF) break;
+          if (c === QUOTE) return QUOTED;
+          q++;
+        }
+      } else {
+        q = fieldEnd(buf, p, end);
+        if (role === ENTITY) {
+          entityStart = p;
+          entityEnd = q;
+        }
+      }
+      if (q === end) {
+        if (!final) return INCOMPLETE;
+        field++;
+        break;
+      }
+      if (buf[q] === COMMA && role !== REST) {
+        p = q + 1;
+        field++;
+        continue;
+      }
+      field++;
+      q++;
+      break;
+    }
+    const line = this.line;
+    if (field < this.required) {
+      if (isBlank(buf, rowStart, q)) {
+        this.line++;
+        return q;
+      }
+      throw ingestMessages.tooFewFields(this.display, line, field, this.required);
+    }
+    if (time !== time) throw ingestMessages.missingTime(this.display, line);
+    const e = entry as SeriesEntry;
+    const entity = e.entity && entityStart >= 0 ? decodeCell(buf, entityStart, entityEnd) : undefined;
+    this.table.accept(e, time, value, entity, line);
+    this.line++;
+    return q;
+  }
+
+  /** A line of spaces only is blank: skip it. `q` is at or after its line feed, or at the end. */
+  private blankRow(q: number, end: number): number {
+    this.line++;
+    return q < end ? q + 1 : end;
+  }
+
+  /**
+   * Reads one record, quoted fields and all, into `this.fields` (unquoted fields trimmed of
+   * spaces); returns the position after it, or INCOMPLETE.
+   */
+  private readFields(buf: Buffer, p: number, end: number, final: boolean): number {
+    const fields: string[] = [];
+    let breaks = 0;
+    for (;;) {
+      let text: string;
+      let q: number;
+      if (p < end && buf[p] === QUOTE) {
+        const quoteLine = this.line + breaks;
+        const start = p + 1;
+        let close = start;
+        for (;;) {
+          const k = buf.indexOf(QUOTE, close);
+          if (k === -1) {
+            if (!final) return INCOMPLETE;
+            throw ingestMessages.unterminatedQuote(this.display, quoteLine);
+          }
+          if (k + 1 === end && !final) return INCOMPLETE;
+          if (k + 1 < end && buf[k + 1] === QUOTE) {
+            close = k + 2;
+            continue;
+          }
+          close = k;
+          break;
+        }
+        for (let i = start; i < close; i++) if (buf[i] === LF) breaks++;
+        text = buf.toString("utf8", start, close);
+        if (text.includes('"')) text = text.replaceAll('""', '"');
+        q = close + 1;
+        while (q < end && (buf[q] === SPACE || buf[q] === TAB)) q++;
+        if (q < end && buf[q] === CR) {
+          if (q + 1 === end && !final) return INCOMPLETE;
+          if (q + 1 === end || buf[q + 1] === LF) q++;
+        }
+        if (q < end && buf[q] !== COMMA && buf[q] !== LF) {
+          throw ingestMessages.textAfterQuote(this.display, this.line + breaks);
+        }
+      } else {
+        q = fieldEnd(buf, p, end);
+        if (q === end && !final) return INCOMPLETE;
+        text = buf.toString("utf8", p, q).replace(/^[ \t]+|[ \t\r]+$/g, "");
+      }
+      fields.push(text);
+      if (q < end && buf[q] === COMMA) {
+        p = q + 1;
+        continue;
+      }
+      this.fields = fields;
+      this.fieldsLine = this.line;
+      this.line += breaks + 1;
+      return q < end ? q + 1 : end;
+    }
+  }
+
+  /** The header: finds the columns (after renaming) and sets the role of each field. */
+  private useHeader(): void {
+    const names = this.fields.map((name) => name.trim());
+    const columns = this.columns;
+    this.haveHeader = true;
+    this.timeColumn = names.indexOf(columns.time);
+    this.seriesColumn = names.indexOf(columns.series);
+    this.valueColumn = names.indexOf(columns.value);
+    this.entityColumn = this.table.wantsEntity ? names.indexOf(columns.entity) : -1;
+    const missing: { role: string; name: string }[] = [];
+    if (this.timeColumn < 0) missing.push({ role: "time", name: columns.time });
+    if (this.seriesColumn < 0) missing.push({ role: "series", name: columns.series });
+    if (missing.length > 0) throw ingestMessages.missingColumns(this.display, missing, names);
+    if (this.table.wantsEntity && this.entityColumn < 0) {
+      throw ingestMessages.missingEntityColumn(this.display, columns.entity, names, this.table.entitySeries);
+    }
+    const roles = new Uint8Array(Math.max(this.timeColumn, this.seriesColumn, this.valueColumn, this.entityColumn) + 1);
+    roles.fill(SKIP);
+    // Set in reverse order of priority, so that a column mapped twice reads as time, then series.
+    if (this.entityColumn >= 0) roles[this.entityColumn] = ENTITY;
+    if (this.valueColumn >= 0) roles[this.valueColumn] = VALUE;
+    roles[this.seriesColumn] = SERIES;
+    roles[this.timeColumn] = TIME;
+    this.roles = roles;
+    this.required = Math.max(this.timeColumn, this.seriesColumn) + 1;
+  }
+
+  /** A row read by `readFields`. */
+  private fieldsRow(): void {
+    const fields = this.fields;
+    const line = this.fieldsLine;
+    if (fields.length < this.required) {
+      throw ingestMessages.tooFewFields(this.display, line, fields.length, this.required);
+    }
+    const time = parseDecimalText(fields[this.timeColumn]);
+    if (time === undefined) throw ingestMessages.notANumber(this.display, line, "time", fields[this.timeColumn]);
+    const entry = this.table.lookupName(fields[this.seriesColumn]);
+    if (entry === null) throw ingestMessages.emptySeries(this.display, line);
+    let value = NaN;
+    if (this.valueColumn >= 0 && this.valueColumn < fields.length) {
+      const v = parseDecimalText(fields[this.valueColumn]);
+      if (v === undefined) throw ingestMessages.notANumber(this.display, line, "value", fields[this.valueColumn]);
+      value = v;
+    }
+    if (time !== time) throw ingestMessages.missingTime(this.display, line);
+    let entity: string | undefined;
+    if (entry.entity && this.entityColumn >= 0 && this.entityColumn < fields.length) {
+      const text = fields[this.entityColumn];
+      if (text !== "") entity = text;
+    }
+    this.table.accept(entry, time, value, entity, line);
+  }
+}
+
+/** The position of the comma or line feed that ends the unquoted field starting at `p`, or `end`. */
+function fieldEnd(buf: Buffer, p: number, end: number): number {
+  while (p < end) {
+    const c = buf[p];
+    if (c === COMMA || c === LF) return p;
+    p++;
+  }
+  return end;
+}
+
+/** Whether `buf[a..b)` holds only spaces, tabs and line ends. */
+function isBlank(buf: Buffer, a: number, b: number): boolean {
+  for (let i = a; i < b; i++) {
+    const c = buf[i];
+    if (c !== SPACE && c !== TAB && c !== CR && c !== LF) return false;
+  }
+  return true;
+}
+
+/** An unquoted entity cell as a string (UTF-8), trimmed; undefined when blank. */
+function decodeCell(buf: Buffer, a: number, b: number): string | undefined {
+  let c: number;
+  while (a < b && ((c = buf[a]) === SPACE || c === TAB)) a++;
+  while (b > a && ((c = buf[b - 1]) === SPACE || c === TAB || c === CR)) b--;
+  if (a === b) return undefined;
+  if (b - a > SHORT_ID) return buf.toString("utf8", a, b);
+  // Short ASCII ids (the usual case) are built directly: cheaper than a decoder call.
+  let text = "";
+  for (let i = a; i < b; i++) {
+    c = buf[i];
+    if (c >= 0x80) return buf.toString("utf8", a, b);
+    text += String.fromCharCode(c);
+  }
+  return text;
+}

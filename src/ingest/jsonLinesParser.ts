@@ -1,0 +1,118 @@
+/**
+ * JSON Lines run files: one object per non-blank line, keys named by the column map.
+ *
+ * Each line is decoded and given to `JSON.parse`; this path is simpler and slower than the CSV
+ * one. Types accepted (contract section 1): `time` a number or a numeric string; `value` a number,
+ * a numeric string, null or absent; `series` a string or a number; `entity` a string or a number.
+ */
+import type { ColumnMap } from "../manifest/types.js";
+import * as ingestMessages from "../messages/ingest.js";
+import { parseDecimalText } from "./decimal.js";
+import type { ChunkParser } from "./feeder.js";
+import type { SeriesTable } from "./seriesTable.js";
+
+const LF = 10;
+const BLANK = /^[ \t\r]*$/;
+
+/** A JSON value described for a message: "a string", "null", "an array"... */
+function describe(x: unknown): string {
+  if (x === null) return "null";
+  if (Array.isArray(x)) return "an array";
+  switch (typeof x) {
+    case "string":
+      return `the string ${JSON.stringify(x)}`;
+    case "number":
+      return `the number ${String(x)}`;
+    case "boolean":
+      return `the value ${String(x)}`;
+    case "object":
+      return "an object";
+    default:
+      return typeof x;
+  }
+}
+
+export class JsonLinesParser implements ChunkParser {
+  private line = 1;
+  private sawObject = false;
+
+  constructor(
+    private readonly table: SeriesTable,
+    private readonly display: string,
+    private readonly columns: ColumnMap,
+  ) {}
+
+  parse(buf: Buffer, pos: number, final: boolean): number {
+    const end = buf.length;
+    while (pos < end) {
+      let lf = buf.indexOf(LF, pos);
+      if (lf === -1) {
+        if (!final) return pos;
+        lf = end;
+      }
+      const text = buf.toString("utf8", pos, lf);
+      if (!BLANK.test(text)) this.row(text, this.line);
+      this.line++;
+      pos = lf < end ? lf + 1 : end;
+    }
+    return pos;
+  }
+
+  finish(): void {
+    if (!this.sawObject) throw ingestMessages.emptyFile(this.display, "jsonl");
+  }
+
+  private row(text: string, line: number): void {
+    const file = this.display;
+    let parsed: unknown;
+    try {
+      parsed = JSON.parse(text);
+    } catch (e) {
+      throw ingestMessages.badJson(file, line, e instanceof Error ? e.message : String(e));
+    }
+    if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) {
+      throw ingestMessages.notAnObject(file, line, describe(parsed));
+    }
+    this.sawObject = true;
+    const row = parsed as Record<string, unknown>;
+    const { time: timeKey, series: seriesKey, value: valueKey, entity: entityKey } = this.columns;
+    const get = (key: string): unknown => (Object.hasOwn(row, key) ? row[key] : undefined);
+
+    const t = get(timeKey);
+    if (t === undefined) throw ingestMessages.missingKey(file, line, timeKey, "time");
+    let time: number | undefined;
+    if (typeof t === "number") time = Number.isFinite(t) ? t : undefined;
+    else if (typeof t === "string") time = parseDecimalText(t);
+    else throw ingestMessages.wrongType(file, line, timeKey, "time", "a number", describe(t));
+    if (time === undefined) throw ingestMessages.notANumber(file, line, "time", String(t));
+    if (time !== time) throw ingestMessages.missingTime(file, line);
+
+    const s = get(seriesKey);
+    if (s === undefined) throw ingestMessages.missingKey(file, line, seriesKey, "series");
+    if (typeof s !== "string" && typeof s !== "number") {
+      throw ingestMessages.wrongType(file, line, seriesKey, "series", "a string", describe(s));
+    }
+    const entry = this.table.lookupName(String(s));
+    if (entry === null) throw ingestMessages.emptySeries(file, line);
+
+    const v = get(valueKey);
+    let value: number | undefined = NaN;
+    if (typeof v === "number") value = Number.isFinite(v) ? v : undefined;
+    else if (typeof v === "string") value = parseDecimalText(v);
+    else if (v !== undefined && v !== null) {
+      throw ingestMessages.wrongType(file, line, valueKey, "value", "a number or null", describe(v));
+    }
+    if (value === undefined) throw ingestMessages.notANumber(file, line, "value", String(v));
+
+    let entity: string | undefined;
+    if (entry.entity) {
+      const e = get(entityKey);
+      if (typeof e === "string") entity = e === "" ? undefined : e;
+      else if (typeof e === "number") entity = String(e);
+      else if (e !== undefined && e !== null) {
+        throw ingestMessages.wrongType(file, line, entityKey, "entity", "a string", describe(e));
+      }
+    }
+    this.table.accept(entry, time, value, entity, line);
+  }
+}

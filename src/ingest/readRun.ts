@@ -1,0 +1,155 @@
+/**
+ * Reads one run file (contract section 1) as a stream, in one pass:
+ *
+ *   file ──read 1 MiB──┬─► SHA-256 and byte count (bytes as stored)
+ *                      └─► [gunzip] ─► ChunkFeeder ─► CsvParser | JsonLinesParser ─► SeriesTable ─► onRow
+ *
+ * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
+ * end, and one entry per distinct series.
+ */
+import { createHash } from "node:crypto";
+import { createReadStream } from "node:fs";
+import { createGunzip } from "node:zlib";
+import type { ColumnMap } from "../manifest/types.js";
+import { UserError } from "../messages/error.js";
+import * as ingestMessages from "../messages/ingest.js";
+import { CsvParser } from "./csvParser.js";
+import { ChunkFeeder } from "./feeder.js";
+import { JsonLinesParser } from "./jsonLinesParser.js";
+import { RUN_EXTENSIONS, runFormat } from "./runFile.js";
+import { SeriesTable, type RowSink } from "./seriesTable.js";
+
+export type { RowSink } from "./seriesTable.js";
+
+/** A series the caller wants rows of. `entity`: decode the entity cell for this series. */
+export interface SeriesRequest {
+  name: string;
+  entity: boolean;
+}
+
+export interface ReadReport {
+  /** Size of the file on disk (the compressed size for `.gz`). */
+  bytes: number;
+  /** Hex SHA-256 of the file's bytes as stored on disk. */
+  sha256: string;
+  /** Data rows read, all series. */
+  rows: number;
+  /**
+   * Rows per series name for every series seen, inserted in order of first appearance. (A
+   * JavaScript object lists integer-like keys such as `"7"` first, in ascending order.)
+   */
+  seriesRows: Record<string, number>;
+}
+
+export interface ReadOptions {
+  /** Absolute path to open. */
+  path: string;
+  /** Path shown in messages (relative to the manifest). */
+  display: string;
+  /** Names of the time, series, value and entity columns (or JSON keys). */
+  columns: ColumnMap;
+  series: SeriesRequest[];
+  /** Called in file order for each row of a requested series; `seriesIndex` indexes `series`. */
+  onRow: RowSink;
+  /** Read buffer size in bytes (default 1 MiB). */
+  chunkSize?: number;
+}
+
+const DEFAULT_CHUNK = 1 << 20;
+
+/** An error of the file system while reading, kept apart from the parser's own errors. */
+class SourceError extends Error {
+  constructor(readonly source: unknown) {
+    super("run file read failed");
+  }
+}
+
+/**
+ * Reads a run file and gives the rows of the requested series to `onRow` in file order.
+ *
+ * Checks, whatever the series requested: every time is a finite number and, within each series,
+ * does not decrease; every non-empty value is a finite number. Throws `UserError` (message
+ * catalogue `ingestMessages`) on any input error; errors thrown by `onRow` pass through as they are.
+ *
+ * @example
+ * // bakery.csv: "time,series,value\n0,queue,2\n1.5,queue,3\n2,sold,\n"
+ * await readRun({ path, display: "bakery.csv", columns, series: [{ name: "queue", entity: false }], onRow })
+ * // onRow(0, 0, 2, undefined, 2), onRow(0, 1.5, 3, undefined, 3)
+ * // -> { bytes: 48, rows: 3, seriesRows: { queue: 2, sold: 1 }, sha256: "..." }
+ */
+export async function readRun(opts: ReadOptions): Promise<ReadReport> {
+  const { display } = opts;
+  const format = runFormat(opts.path);
+  if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
+  const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
+
+  const table = new SeriesTable(opts.series, opts.onRow, display);
+  const parser =
+    format.format === "csv"
+      ? new CsvParser(table, display, opts.columns)
+      : new JsonLinesParser(table, display, opts.columns);
+  const feeder = new ChunkFeeder(parser);
+  const hash = createHash("sha256");
+  let bytes = 0;
+
+  const feed = (chunk: Buffer): void => {
+    if (chunk.length <= chunkSize) feeder.push(chunk);
+    else for (let at = 0; at < chunk.length; at += chunkSize) feeder.push(chunk.subarray(at, at + chunkSize));
+  };
+
+  const raw = createReadStream(opts.path, { highWaterMark: chunkSize });
+  let failure: unknown = null;
+  try {
+    if (!format.gzip) {
+      for await (const chunk of raw) {
+        hash.update(chunk as Buffer);
+        bytes += (chunk as Buffer).length;
+        try {
+          feed(chunk as Buffer);
+        } catch (e) {
+          failure = e;
+          throw e;
+        }
+      }
+    } else {
+      const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
+      raw.on("data", (chunk: Buffer | string) => {
+        hash.update(chunk);
+        bytes += chunk.length;
+      });
+      raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
+      raw.pipe(gunzip);
+      for await (const chunk of gunzip) {
+        try {
+          feed(chunk as Buffer);
+        } catch (e) {
+          failure = e;
+          throw e;
+        }
+      }
+    }
+  } catch (e) {
+    if (e === failure || e instanceof UserError) throw e;
+    throw sourceProblem(e, display, format.format, format.gzip, bytes);
+  } finally {
+    raw.destroy();
+  }
+  if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
+  feeder.finish();
+  return { bytes, sha256: hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
+}
+
+/** The user's message for an error of the file system or of gunzip. */
+function sourceProblem(e: unknown, display: string, kind: "csv" | "jsonl", gzip: boolean, bytes: number): unknown {
+  const cause = e instanceof SourceError ? e.source : e;
+  const code = (cause as { code?: unknown } | null)?.code;
+  const syscall = (cause as { syscall?: unknown } | null)?.syscall;
+  if (typeof syscall === "string" || e instanceof SourceError) {
+    return ingestMessages.unreadableFile(display, typeof code === "string" ? code : undefined);
+  }
+  if (gzip && typeof code === "string" && code.startsWith("Z_")) {
+    if (bytes === 0) return ingestMessages.emptyFile(display, kind);
+    return ingestMessages.corruptGzip(display, (cause as Error).message);
+  }
+  return e;
+}

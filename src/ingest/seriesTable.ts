@@ -1,0 +1,200 @@
+/**
+ * The series of one run file as they are met: row counts, the time-order check, and delivery of
+ * the rows of requested series to the sink.
+ *
+ * Series names are matched without making a string per row: a CSV cell's bytes are compared with
+ * the series matched last, then looked up in an open-addressing hash table (h * 31 + byte) of the byte
+ * strings seen. A string is made once per distinct series.
+ */
+import * as ingestMessages from "../messages/ingest.js";
+
+/** What the reader asks for: see `SeriesRequest` in `readRun.ts`. */
+export interface SeriesWanted {
+  name: string;
+  entity: boolean;
+}
+
+export type RowSink = (
+  seriesIndex: number,
+  time: number,
+  value: number,
+  entity: string | undefined,
+  line: number,
+) => void;
+
+/** One distinct series of the file. */
+export interface SeriesEntry {
+  readonly name: string;
+  /** The name's UTF-8 bytes. */
+  readonly bytes: Buffer;
+  rows: number;
+  lastTime: number;
+  lastLine: number;
+  /** Index into the requests, or -1 when the series is not requested. */
+  readonly request: number;
+  /** Further requests of the same name (rare), or null. */
+  readonly moreRequests: readonly number[] | null;
+  /** Whether any request of this series wants the entity cell decoded. */
+  readonly entity: boolean;
+}
+
+const SPACE = 32;
+const TAB = 9;
+const CR = 13;
+
+export class SeriesTable {
+  /** Data rows read, all series. */
+  rows = 0;
+  private readonly entries: SeriesEntry[] = [];
+  private readonly byName = new Map<string, SeriesEntry>();
+  private readonly requests = new Map<string, number[]>();
+  /** The byte key matched last, or -1. */
+  private lastKey = -1;
+  // Byte-string keys: several keys may lead to one entry (invalid UTF-8 decodes to the same name).
+  private slots = new Int32Array(64);
+  private mask = 63;
+  private readonly keyBytes: Buffer[] = [];
+  private readonly keyHash: number[] = [];
+  private readonly keyEntry: SeriesEntry[] = [];
+
+  constructor(
+    private readonly wanted: readonly SeriesWanted[],
+    private readonly onRow: RowSink,
+    private readonly display: string,
+  ) {
+    wanted.forEach((w, i) => {
+      const list = this.requests.get(w.name);
+      if (list === undefined) this.requests.set(w.name, [i]);
+      else list.push(i);
+    });
+  }
+
+  /**
+   * The series of the unquoted cell `buf[a..b)` (surrounding spaces trimmed), or null when blank.
+   * `h` is `hashBytes(buf, a, b)`, computed by the caller while it looked for the cell's end.
+   */
+  lookupBytes(buf: Buffer, a: number, b: number, h: number): SeriesEntry | null {
+    let c: number;
+    if (a < b && ((c = buf[a]) === SPACE || c === TAB || (c = buf[b - 1]) === SPACE || c === TAB || c === CR)) {
+      while (a < b && ((c = buf[a]) === SPACE || c === TAB)) a++;
+      while (b > a && ((c = buf[b - 1]) === SPACE || c === TAB || c === CR)) b--;
+      h = hashBytes(buf, a, b);
+    }
+    if (a === b) return null;
+    const last = this.lastKey;
+    if (last >= 0 && this.keyHash[last] === h && sameBytes(this.keyBytes[last], buf, a, b)) return this.keyEntry[last];
+    const mask = this.mask;
+    const slots = this.slots;
+    let s = spread(h) & mask;
+    for (;;) {
+      const k = slots[s];
+      if (k === 0) break;
+      if (this.keyHash[k - 1] === h && sameBytes(this.keyBytes[k - 1], buf, a, b)) {
+        this.lastKey = k - 1;
+        return this.keyEntry[k - 1];
+      }
+      s = (s + 1) & mask;
+    }
+    const bytes = Buffer.from(buf.subarray(a, b));
+    const entry = this.entryFor(bytes.toString("utf8"));
+    this.keyBytes.push(bytes);
+    this.keyHash.push(h);
+    this.keyEntry.push(entry);
+    slots[s] = this.keyBytes.length;
+    if (this.keyBytes.length * 2 > slots.length) this.grow();
+    this.lastKey = this.keyBytes.length - 1;
+    return entry;
+  }
+
+  /** The series of a decoded name (used as is), or null when empty. */
+  lookupName(name: string): SeriesEntry | null {
+    return name === "" ? null : this.entryFor(name);
+  }
+
+  private entryFor(name: string): SeriesEntry {
+    let entry = this.byName.get(name);
+    if (entry === undefined) {
+      const requests = this.requests.get(name);
+      entry = {
+        name,
+        bytes: Buffer.from(name, "utf8"),
+        rows: 0,
+        lastTime: -Infinity,
+        lastLine: 0,
+        request: requests === undefined ? -1 : requests[0],
+        moreRequests: requests === undefined || requests.length === 1 ? null : requests.slice(1),
+        entity: requests !== undefined && requests.some((i) => this.wanted[i].entity),
+      };
+      this.byName.set(name, entry);
+      this.entries.push(entry);
+    }
+    return entry;
+  }
+
+  /**
+   * Counts a row, checks that its series' time does not decrease, and gives it to the sink when
+   * the series is requested. `entity` is only looked at for series whose `entity` flag is set.
+   */
+  accept(entry: SeriesEntry, time: number, value: number, entity: string | undefined, line: number): void {
+    this.rows++;
+    entry.rows++;
+    if (time < entry.lastTime) {
+      throw ingestMessages.timeDecreased(this.display, line, entry.name, entry.lastTime, time, entry.lastLine);
+    }
+    entry.lastTime = time;
+    entry.lastLine = line;
+    if (entry.request < 0) return;
+    if (entry.moreRequests === null) {
+      this.onRow(entry.request, time, value, entity, line);
+      return;
+    }
+    for (const i of [entry.request, ...entry.moreRequests]) {
+      this.onRow(i, time, value, this.wanted[i].entity ? entity : undefined, line);
+    }
+  }
+
+  /** Rows per series, in order of first appearance. */
+  counts(): Record<string, number> {
+    return Object.fromEntries(this.entries.map((e) => [e.name, e.rows]));
+  }
+
+  /** Whether any requested series wants its entity cell. */
+  get wantsEntity(): boolean {
+    return this.wanted.some((w) => w.entity);
+  }
+
+  /** Names of the requested series that want their entity cell. */
+  get entitySeries(): string[] {
+    return [...new Set(this.wanted.filter((w) => w.entity).map((w) => w.name))];
+  }
+
+  private grow(): void {
+    const slots = new Int32Array(this.slots.length * 2);
+    const mask = slots.length - 1;
+    for (let k = 0; k < this.keyHash.length; k++) {
+      let s = spread(this.keyHash[k]) & mask;
+      while (slots[s] !== 0) s = (s + 1) & mask;
+      slots[s] = k + 1;
+    }
+    this.slots = slots;
+    this.mask = mask;
+  }
+}
+
+/** The hash of a series cell: h = h * 31 + byte over its bytes, in 32-bit integers. */
+export function hashBytes(buf: Uint8Array, a: number, b: number): number {
+  let h = 0;
+  for (let i = a; i < b; i++) h = (Math.imul(h, 31) + buf[i]) | 0;
+  return h;
+}
+
+/** Mixes the high bits of a hash into the low ones, which pick the slot. */
+function spread(h: number): number {
+  return Math.imul(h ^ (h >>> 16), 0x45d9f3b) ^ (h >>> 15);
+}
+
+function sameBytes(key: Buffer, buf: Buffer, a: number, b: number): boolean {
+  if (key.length !== b - a) return false;
+  for (let i = 0; i < key.length; i++) if (key[i] !== buf[a + i]) return false;
+  return true;
+}

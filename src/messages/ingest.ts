@@ -1,0 +1,210 @@
+/**
+ * Messages of the run-file reader (`src/ingest/`). Each says where (file and line), what is wrong
+ * and what to do. `file` is always the path as the user sees it (relative to the manifest).
+ */
+import { located, type UserError } from "./error.js";
+
+/** The `columns:` manifest key, written the way a user would type it. */
+function columnsKey(role: string, name = "<column name>"): string {
+  return `columns: {${role}: ${name}}`;
+}
+
+function quoted(names: readonly string[]): string {
+  return names.length === 0 ? "(none)" : names.map((n) => `\`${n}\``).join(", ");
+}
+
+/** A number as a user would read it back in the file. */
+function shown(x: number): string {
+  return Object.is(x, -0) ? "-0" : String(x);
+}
+
+const REASONS: Record<string, string> = {
+  ENOENT: "file not found",
+  EACCES: "permission denied",
+  EPERM: "permission denied",
+  EISDIR: "the path is a folder, not a file",
+  ENOTDIR: "a part of the path is not a folder",
+  ELOOP: "too many symbolic links in the path",
+  ENAMETOOLONG: "the path is too long",
+  EMFILE: "too many files are open at once",
+  ENFILE: "too many files are open at once",
+  EBUSY: "the file is busy or locked",
+  EIO: "the disk reported an input/output error",
+};
+
+/** A system error code (`ENOENT`, ...) in words. */
+export function systemReason(code: string | undefined): string {
+  if (code !== undefined && Object.hasOwn(REASONS, code)) return REASONS[code];
+  return `the system refused to read it (${code ?? "unknown error"})`;
+}
+
+/** The file cannot be opened or read. */
+export function unreadableFile(file: string, code: string | undefined): UserError {
+  const todo =
+    code === "ENOENT" || code === "ENOTDIR"
+      ? "check the path: run files are found relative to the manifest's folder (the scenario's `runs:`)"
+      : code === "EISDIR"
+        ? "list the run files in the scenario's `runs:`, or use a glob such as `runs/*.csv`"
+        : code === "EACCES" || code === "EPERM"
+          ? "give your user read permission on the file"
+          : "check that the file can be read (copy it again if the disk or share is unreliable)";
+  return located({ file }, `cannot read this run file: ${systemReason(code)}`, todo);
+}
+
+/** The file name ends in none of the run-file extensions. */
+export function unsupportedExtension(file: string, supported: readonly string[]): UserError {
+  return located(
+    { file },
+    "the format of this run file is chosen by its extension, and this one is not supported",
+    `name the file with one of: ${supported.join(", ")}`,
+  );
+}
+
+/** 0 bytes, or no header row (CSV) / no object (JSON Lines). */
+export function emptyFile(file: string, format: "csv" | "jsonl"): UserError {
+  const what =
+    format === "csv"
+      ? "the run file is empty: a CSV run file needs at least a header row naming its columns"
+      : "the run file is empty: a JSON Lines run file needs at least one object";
+  return located({ file }, what, "write the run file again, or leave it out of the scenario's `runs:`");
+}
+
+/** Required columns (time, series) missing from the CSV header, after column renaming. */
+export function missingColumns(
+  file: string,
+  missing: readonly { role: string; name: string }[],
+  found: readonly string[],
+): UserError {
+  const which = missing.map((m) => (m.role === m.name ? `\`${m.name}\`` : `\`${m.name}\` (the ${m.role})`));
+  const map = `columns: {${missing.map((m) => `${m.role}: <column name>`).join(", ")}}`;
+  return located(
+    { file, line: 1 },
+    `the header has no column ${which.join(" and no column ")}; columns found: ${quoted(found)}`,
+    `rename the column in the file, or map the file's own column in the manifest with \`${map}\``,
+  );
+}
+
+/** An entity-based measure needs the entity column and the header has none. */
+export function missingEntityColumn(
+  file: string,
+  column: string,
+  found: readonly string[],
+  series: readonly string[],
+): UserError {
+  return located(
+    { file, line: 1 },
+    `the header has no column \`${column}\` (the entity), which the entity-based measures on series ${quoted(series)} need; columns found: ${quoted(found)}`,
+    `add the entity column to the file, or map the file's own column with \`${columnsKey("entity")}\``,
+  );
+}
+
+/** A CSV row ends before the time or the series column. */
+export function tooFewFields(file: string, line: number, found: number, needed: number): UserError {
+  return located(
+    { file, line },
+    `this row has ${found} field${found === 1 ? "" : "s"}, but the time and series columns need at least ${needed}`,
+    "check the row for a missing comma or a row cut short",
+  );
+}
+
+/** A quoted CSV field is still open at the end of the file. */
+export function unterminatedQuote(file: string, line: number): UserError {
+  return located(
+    { file, line },
+    "a quoted field opened on this line is never closed: the file ends inside the quotes",
+    'close the field with a double quote; inside a quoted field, write a double quote as two ("")',
+  );
+}
+
+/** Something other than a comma or the end of the line follows a closing quote. */
+export function textAfterQuote(file: string, line: number): UserError {
+  return located(
+    { file, line },
+    "text follows the closing quote of a quoted field",
+    'quote the whole field, and write each double quote inside it as two ("")',
+  );
+}
+
+/** The time cell of a row is empty or absent. */
+export function missingTime(file: string, line: number): UserError {
+  return located({ file, line }, "the time cell is empty", "give every row the simulation time it happened at");
+}
+
+/** A time or value that is not a finite decimal number. */
+export function notANumber(file: string, line: number, cell: "time" | "value", text: string): UserError {
+  const allowed = "a decimal number such as 12, -0.5 or 1.5e3 (no hex, Infinity or NaN; at most about 1.8e308)";
+  return located(
+    { file, line },
+    `the ${cell} \`${text}\` is not a finite decimal number`,
+    cell === "time" ? `write the time as ${allowed}` : `write the value as ${allowed}, or leave it empty`,
+  );
+}
+
+/** The series cell of a row is empty. */
+export function emptySeries(file: string, line: number): UserError {
+  return located({ file, line }, "the series cell is empty", "name the series (data stream) every row belongs to");
+}
+
+/** Within one series, time went down in file order. */
+export function timeDecreased(
+  file: string,
+  line: number,
+  series: string,
+  previous: number,
+  time: number,
+  previousLine: number,
+): UserError {
+  return located(
+    { file, line },
+    `time goes backwards in series \`${series}\`: ${shown(time)} here, after ${shown(previous)} on line ${previousLine}`,
+    "write the rows of each series in time order (sort the file by time, keeping rows with equal times in their order)",
+  );
+}
+
+/** A JSON Lines line that does not parse. */
+export function badJson(file: string, line: number, detail: string): UserError {
+  return located(
+    { file, line },
+    `this line is not valid JSON (${detail})`,
+    "write one JSON object per line; a line cut short usually means the run stopped while writing",
+  );
+}
+
+/** A JSON Lines line that parses to something other than an object. */
+export function notAnObject(file: string, line: number, got: string): UserError {
+  return located(
+    { file, line },
+    `this line holds ${got}, not a JSON object`,
+    'write one object per line, such as {"time": 1.5, "series": "queue", "value": 3}',
+  );
+}
+
+/** A JSON Lines object without its time or series key. */
+export function missingKey(file: string, line: number, key: string, role: string): UserError {
+  return located(
+    { file, line },
+    `the object has no \`${key}\` key (the ${role})`,
+    `add the key, or map the file's own key in the manifest with \`${columnsKey(role, "<key>")}\``,
+  );
+}
+
+/** A JSON Lines key of the wrong type. */
+export function wrongType(
+  file: string,
+  line: number,
+  key: string,
+  role: string,
+  expected: string,
+  got: string,
+): UserError {
+  return located({ file, line }, `\`${key}\` (the ${role}) is ${got}; expected ${expected}`, `write ${expected} there`);
+}
+
+/** The gzip stream is damaged or cut short. */
+export function corruptGzip(file: string, detail: string): UserError {
+  return located(
+    { file },
+    `the gzip data of this run file is damaged or cut short (${detail})`,
+    "compress or copy the run file again; `gzip -t FILE` tests a gzip file",
+  );
+}

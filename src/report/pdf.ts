@@ -1,0 +1,128 @@
+/**
+ * The PDF: the same HTML printed by a system Chromium through puppeteer-core, with a running
+ * header (the study title) and page numbers. puppeteer-core is imported only here, and only
+ * when a PDF is asked for.
+ */
+import { accessSync, constants } from "node:fs";
+import { mkdtemp, readFile, rm, writeFile, rename } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { reportMessages } from "../messages/index.js";
+
+/** Where to look for a browser when neither `--chrome` nor SOJOURN_CHROME names one. */
+export const CHROME_CANDIDATES = [
+  "/usr/bin/chromium",
+  "/usr/bin/chromium-browser",
+  "/usr/bin/google-chrome",
+  "/usr/bin/google-chrome-stable",
+  "/snap/bin/chromium",
+  "/opt/google/chrome/chrome",
+  "/Applications/Chromium.app/Contents/MacOS/Chromium",
+  "/Applications/Google Chrome.app/Contents/MacOS/Google Chrome",
+  "C:\\Program Files\\Google\\Chrome\\Application\\chrome.exe",
+];
+
+/** Flags that let Chromium print headless as root, offline, without touching a profile. */
+export const CHROME_FLAGS = [
+  "--headless",
+  "--no-sandbox",
+  "--disable-gpu",
+  "--disable-quic",
+  "--no-first-run",
+  "--disable-background-networking",
+  "--disable-component-update",
+  "--disable-sync",
+];
+
+function executable(path: string): boolean {
+  try {
+    accessSync(path, constants.X_OK);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * The browser to print with: the explicit path (`--chrome`) if given, else SOJOURN_CHROME if
+ * set, else the first executable of `CHROME_CANDIDATES`. A path that is named but missing gives
+ * null rather than a silent fallback to another browser.
+ */
+export function findChrome(explicit?: string): string | null {
+  if (explicit !== undefined && explicit !== "") return executable(explicit) ? explicit : null;
+  const env = process.env.SOJOURN_CHROME;
+  if (env !== undefined && env !== "") return executable(env) ? env : null;
+  return CHROME_CANDIDATES.find(executable) ?? null;
+}
+
+/** The browser to use, or the user error that says how to get one. */
+function chromeOrThrow(explicit?: string): string {
+  const found = findChrome(explicit);
+  if (found !== null) return found;
+  if (explicit !== undefined && explicit !== "") throw reportMessages.browserMissing(explicit, "--chrome");
+  const env = process.env.SOJOURN_CHROME;
+  if (env !== undefined && env !== "") throw reportMessages.browserMissing(env, "SOJOURN_CHROME");
+  throw reportMessages.noBrowser(CHROME_CANDIDATES);
+}
+
+/** Number of pages in a PDF, counted from its page objects (`/Type /Page`, not `/Pages`). */
+export function countPdfPages(pdf: Uint8Array): number {
+  const text = Buffer.from(pdf).toString("latin1");
+  return (text.match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
+}
+
+function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] as string);
+}
+
+/** Prints the report's HTML to `pdfPath` (written beside, then renamed into place). */
+export async function renderPdf(
+  html: string,
+  pdfPath: string,
+  options: { chrome?: string; paper: "A4" | "Letter"; title: string; onProgress?: (msg: string) => void },
+): Promise<{ pages: number }> {
+  const chrome = chromeOrThrow(options.chrome);
+  const progress = options.onProgress ?? (() => {});
+  const profile = await mkdtemp(join(tmpdir(), "sojourn-chrome-"));
+  const partial = `${pdfPath}.partial`;
+  let browser: import("puppeteer-core").Browser | undefined;
+  try {
+    progress(`starting the browser at ${chrome}`);
+    const puppeteer = (await import("puppeteer-core")).default;
+    try {
+      browser = await puppeteer.launch({
+        executablePath: chrome,
+        headless: true,
+        args: [...CHROME_FLAGS, `--user-data-dir=${profile}`],
+      });
+    } catch (err) {
+      throw reportMessages.browserFailed(chrome, (err as Error).message.split("\n")[0]);
+    }
+    const page = await browser.newPage();
+    progress("laying out the report");
+    await page.setContent(html, { waitUntil: "load" });
+    const title = escapeHtml(options.title);
+    const small = "font: 8px 'Liberation Sans', Arial, sans-serif; color: #6b6357; width: 100%; padding: 0 14mm;";
+    progress(`printing on ${options.paper} paper`);
+    const pdf = await page.pdf({
+      format: options.paper,
+      printBackground: true,
+      displayHeaderFooter: true,
+      headerTemplate: `<div style="${small} display: flex; justify-content: space-between;"><span>${title}</span><span>Sojourn report</span></div>`,
+      footerTemplate: `<div style="${small} text-align: right;">page <span class="pageNumber"></span> of <span class="totalPages"></span></div>`,
+      margin: { top: "20mm", bottom: "18mm", left: "14mm", right: "14mm" },
+    });
+    await writeFile(partial, pdf);
+    await rename(partial, pdfPath);
+    const pages = countPdfPages(await readFile(pdfPath));
+    progress(`wrote ${pages} pages to ${pdfPath}`);
+    return { pages };
+  } catch (err) {
+    await rm(partial, { force: true });
+    if (err instanceof Error && err.name === "UserError") throw err;
+    throw reportMessages.browserFailed(chrome, (err as Error).message.split("\n")[0]);
+  } finally {
+    await browser?.close().catch(() => {});
+    await rm(profile, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,78 @@
+/** Shared pieces of the ingest tests: a scratch folder, run files written in each layout, a recording sink. */
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { gzipSync } from "node:zlib";
+import type { ColumnMap } from "../../src/manifest/types.js";
+import { UserError } from "../../src/messages/error.js";
+import { readRun, type ReadReport, type SeriesRequest } from "../../src/ingest/readRun.js";
+
+export const COLUMNS: ColumnMap = { time: "time", series: "series", value: "value", entity: "entity" };
+
+/** A scratch folder; `file(name, content)` writes into it and returns the absolute path. */
+export function scratch(): { dir: string; file(name: string, content: string | Buffer): string; remove(): void } {
+  const dir = mkdtempSync(join(tmpdir(), "sojourn-ingest-"));
+  return {
+    dir,
+    file(name, content) {
+      const path = join(dir, name);
+      writeFileSync(path, content);
+      return path;
+    },
+    remove() {
+      rmSync(dir, { recursive: true, force: true });
+    },
+  };
+}
+
+export const gzip = (text: string | Buffer): Buffer => gzipSync(typeof text === "string" ? Buffer.from(text) : text);
+
+/** One sink call. */
+export interface Call {
+  series: number;
+  time: number;
+  value: number;
+  entity: string | undefined;
+  line: number;
+}
+
+/** Reads a run file and records every sink call. */
+export async function record(
+  path: string,
+  series: SeriesRequest[],
+  extra: { columns?: ColumnMap; chunkSize?: number; display?: string } = {},
+): Promise<{ calls: Call[]; report: ReadReport }> {
+  const calls: Call[] = [];
+  const report = await readRun({
+    path,
+    display: extra.display ?? "runs/rep-01",
+    columns: extra.columns ?? COLUMNS,
+    series,
+    chunkSize: extra.chunkSize,
+    onRow: (s, time, value, entity, line) => calls.push({ series: s, time, value, entity, line }),
+  });
+  return { calls, report };
+}
+
+/** The UserError a promise rejects with (fails the test when it resolves or rejects otherwise). */
+export async function rejection(p: Promise<unknown>): Promise<UserError> {
+  try {
+    await p;
+  } catch (e) {
+    if (e instanceof UserError) return e;
+    throw e;
+  }
+  throw new Error("expected a UserError, but the call succeeded");
+}
+
+/** Deterministic pseudo-random numbers in [0, 1) (mulberry32). */
+export function seeded(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
