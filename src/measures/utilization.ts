@@ -76,7 +76,7 @@ export class Utilization implements MeasureAccumulator {
   row(slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
     if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.reads[slot].series, this.measure.name);
     if (this.reads.length === 1) this.change(time, BUSY, value);
-    else this.events.add(time, slot, value, 0, line);
+    else this.events.add(time, slot === 0 ? BUSY : CAPACITY, value, 0, line);
   }
 
   private change(time: number, kind: number, value: number): void {

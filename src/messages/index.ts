@@ -6,3 +6,4 @@ export { UserError, located, formatPlace, type Place } from "./error.js";
 export * as manifestMessages from "./manifest.js";
 export * as ingestMessages from "./ingest.js";
 export * as reportMessages from "./report.js";
+export * as initMessages from "./init.js";
