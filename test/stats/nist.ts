@@ -1,8 +1,9 @@
-/** The NIST StRD univariate datasets in /work/shared/reference, read for the tests. */
+/** The NIST StRD univariate datasets in ../shared/reference, read for the tests. */
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
+import { REFERENCE_DIR } from "../helpers/shared.js";
 
-export const NIST_DIR = "/work/shared/reference/nist-strd-univariate";
+export const NIST_DIR = REFERENCE_DIR + "nist-strd-univariate";
 
 export interface NistDataset {
   dataset: string;
