@@ -6,6 +6,7 @@ import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulato
 import { EntityIds, EventBuffer } from "./events.js";
 import { type IntervalSink, LevelTracker } from "./intervals.js";
 import { LevelStats } from "./levelStats.js";
+import { levelShareTables } from "./levelTables.js";
 import type { MeasureSetup } from "./setup.js";
 import { SliceAreas, wholeSlices } from "./slices.js";
 import { type Cell, TableBuilder } from "./table.js";
@@ -87,7 +88,7 @@ export class LevelSinks implements IntervalSink {
     };
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
-    const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }], warnings: [] };
+    const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
     if (this.trace !== null) {
       const points = this.trace.close(end, final, f.mean);
       out.trace = { points, thinned: this.trace.thinned };

@@ -24,6 +24,7 @@ export class LevelStats implements IntervalSink {
   min = Infinity;
   max = -Infinity;
   private readonly atLeast: Adder[];
+  private readonly atLeastIntervals: number[];
   private timeAtValue: Map<number, Adder> | null = new Map();
 
   constructor(
@@ -31,6 +32,7 @@ export class LevelStats implements IntervalSink {
     private readonly maxDistinct = 100,
   ) {
     this.atLeast = thresholds.map(() => new Adder());
+    this.atLeastIntervals = thresholds.map(() => 0);
   }
 
   interval(from: number, to: number, value: number): void {
@@ -45,7 +47,12 @@ export class LevelStats implements IntervalSink {
     const dv = value - this.shift;
     this.shifted.add(d * dv);
     this.shiftedSq.add(d * dv * dv);
-    for (let i = 0; i < this.thresholds.length; i++) if (value >= this.thresholds[i]) this.atLeast[i].add(d);
+    for (let i = 0; i < this.thresholds.length; i++) {
+      if (value >= this.thresholds[i] && d > 0) {
+        this.atLeast[i].add(d);
+        this.atLeastIntervals[i]++;
+      }
+    }
     if (this.timeAtValue !== null && d > 0) {
       let a = this.timeAtValue.get(value);
       if (a === undefined) {
@@ -67,7 +74,8 @@ export class LevelStats implements IntervalSink {
     const m1 = this.shifted.value() / T;
     const variance = Math.max(0, this.shiftedSq.value() / T - m1 * m1);
     const timeAtLeast: Record<string, number> = {};
-    this.thresholds.forEach((k, i) => (timeAtLeast[String(k)] = this.atLeast[i].value() / T));
+    const atLeastDetail = this.thresholds.map((k, i) => ({ threshold: k, intervals: this.atLeastIntervals[i], time: this.atLeast[i].value() }));
+    for (const a of atLeastDetail) timeAtLeast[String(a.threshold)] = a.time / T;
     let timeAtValue: { value: number; time: number; share: number }[] | null = null;
     if (this.timeAtValue !== null) {
       timeAtValue = [...this.timeAtValue.entries()]
@@ -81,6 +89,7 @@ export class LevelStats implements IntervalSink {
       min: this.min === Infinity ? null : this.min,
       max: this.max === -Infinity ? null : this.max,
       timeAtLeast,
+      atLeastDetail,
       timeAtValue,
     };
   }
@@ -93,5 +102,7 @@ export interface LevelFigures {
   min: number | null;
   max: number | null;
   timeAtLeast: Record<string, number>;
+  /** For each threshold: the intervals of positive duration at or above it and their total time. */
+  atLeastDetail: { threshold: number; intervals: number; time: number }[];
   timeAtValue: { value: number; time: number; share: number }[] | null;
 }

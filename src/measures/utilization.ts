@@ -5,6 +5,7 @@ import type { UtilizationRunStats } from "../study/outcome.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import { EventBuffer } from "./events.js";
 import { LevelStats } from "./levelStats.js";
+import { levelShareTables } from "./levelTables.js";
 import type { MeasureSetup } from "./setup.js";
 import { SliceAreas, wholeSlices } from "./slices.js";
 import { type Cell, TableBuilder } from "./table.js";
@@ -148,7 +149,7 @@ export class Utilization implements MeasureAccumulator {
     };
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
-    const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }], warnings: [] };
+    const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
     if (u > 1 + 1e-12) out.warnings.push(`utilization ${u} is above 1: the busy level exceeded the capacity for part of the window`);
     if (this.trace !== null) out.trace = { points: this.trace.close(this.end, this.busy, busyArea / T), thinned: this.trace.thinned };
     if (this.batchBusy !== null) out.batchMeans = ratio(this.batchBusy, this.batchCapacity!);
