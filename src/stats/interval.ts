@@ -3,10 +3,8 @@ import { spread } from "./spread.js";
 import { tQuantile } from "./tQuantile.js";
 
 /**
- * The arithmetic of one across-run interval, before it is labelled with scenario and measure:
- * the shape of `IntervalArithmetic` (src/study/outcome.ts) without `scenario`, `measure` and
- * `figure`, written out here so that `stats/` imports nothing from outside (a test checks that
- * the two shapes stay the same).
+ * The arithmetic of one across-run interval, before it is labelled with scenario and measure
+ * (`IntervalArithmetic` in src/study/outcome.ts extends it with those labels).
  */
 export interface IntervalSteps {
   rows: { run: string; value: number; deviation: number; squared: number }[];

@@ -1,3 +1,5 @@
+import type { IntervalSteps } from "../stats/interval.js";
+
 /**
  * What a study run produces: `results.json` (typed as `Results`) plus everything the report and
  * the study record need beside it (input audit, table index, interval arithmetic, chart data).
@@ -125,29 +127,12 @@ export interface TableRecord {
   preview: (number | string | null)[][];
 }
 
-/** Step-by-step arithmetic of one across-run interval. */
-export interface IntervalArithmetic {
+/** Step-by-step arithmetic of one across-run interval, labelled with what it summarises. */
+export interface IntervalArithmetic extends IntervalSteps {
   scenario: string;
   measure: string;
   /** What is summarised: "value", or a sub-figure such as "quantiles.0.9". */
   figure: string;
-  rows: { run: string; value: number; deviation: number; squared: number }[];
-  n: number;
-  sum: number;
-  mean: number | null;
-  sum_squared: number | null;
-  variance: number | null;
-  sd: number | null;
-  df: number | null;
-  /** The probability of the t quantile, 1 - alpha/2. */
-  p: number | null;
-  t: number | null;
-  standard_error: number | null;
-  half_width: number | null;
-  ci_low: number | null;
-  ci_high: number | null;
-  /** Why the interval is missing, when it is. */
-  note: string | null;
 }
 
 /** A level trace for the step chart: intervals of one run (possibly thinned for the chart). */
