@@ -101,7 +101,7 @@ export async function readHead(path: string, display: string, columns: ColumnMap
   let delivered = 0;
   let cut = false;
   let lastTime = -Infinity;
-  let total = 0;
+  let total: number;
   try {
     const report = await readRun({
       path,

@@ -1,0 +1,221 @@
+/**
+ * `sojourn init`, part 2: a starter manifest (docs/manifest.md) from what `scanRuns` found.
+ *
+ * The text is written by hand rather than by a YAML library so that every guess can carry a
+ * comment saying what it is based on and what to check.
+ */
+import { readdirSync } from "node:fs";
+import { basename, dirname, relative, resolve, sep } from "node:path";
+import { RUN_EXTENSIONS } from "../ingest/runFile.js";
+import type { RunsScan, ScannedScenario, SeriesFacts } from "./scanRuns.js";
+
+/** Names that suggest a level is the number of busy units of something. */
+const BUSY_NAME = /(^|[_\-. ])(busy|in[_\-. ]?use|occupied|working|serving|used)($|[_\-. ])|^busy/i;
+/** Folder names too generic to be a study's title. */
+const GENERIC_DIR = /^(runs?|data|output|outputs|out|results?|raw)$/i;
+
+export interface StarterManifest {
+  text: string;
+  /** What the user should check, one line each. */
+  checks: string[];
+}
+
+interface Measure {
+  line: string;
+  comment: string[];
+}
+
+/**
+ * The starter manifest for `scan`, to be written at `manifestPath`. Every value in it that is a
+ * guess has a comment with the reason.
+ */
+export function starterManifest(scan: RunsScan, manifestPath: string): StarterManifest {
+  const manifestDir = dirname(manifestPath);
+  const rel = (p: string) => relative(manifestDir, p).split(sep).join("/") || ".";
+  const checks: string[] = [];
+  const out: string[] = [];
+  const runCount = scan.scenarios.reduce((n, s) => n + s.runs.length, 0);
+  const command = `sojourn init ${rel(scan.dir)}`;
+
+  out.push(`# Starter manifest written by \`${command}\` from ${runCount} run file${runCount === 1 ? "" : "s"} in ${scan.scenarios.length} scenario${scan.scenarios.length === 1 ? "" : "s"}.`);
+  out.push("# Every value below is a GUESS made from the first rows of the run files; the comment beside");
+  out.push("# each one says what it is based on. Check them, then run:");
+  out.push(`#   sojourn check ${basename(manifestPath)}`);
+  out.push(`#   sojourn report ${basename(manifestPath)} --out report`);
+  out.push("# The manifest reference is docs/manifest.md.");
+  if (scan.cut) out.push(`# Files longer than ${scan.headRows} rows were read only in part: row counts below are of the part read.`);
+  if (scan.skipped.length > 0) {
+    out.push("#");
+    out.push(`# Skipped ${scan.skipped.length} file${scan.skipped.length === 1 ? "" : "s"} (not in any scenario below):`);
+    for (const s of scan.skipped) out.push(`#   ${s.display}: ${s.reason}`);
+    checks.push(`${scan.skipped.length} file(s) were skipped (listed at the top of the manifest): fix them and run init again, or leave them out.`);
+  }
+  out.push("");
+  out.push("version: 1");
+  const dirName = basename(resolve(scan.dir));
+  const title = GENERIC_DIR.test(dirName) ? basename(dirname(resolve(scan.dir))) || dirName : dirName;
+  out.push(`title: ${yamlText(title)}   # GUESS: a folder's name; write what the report should be called`);
+  out.push("time_unit: time   # GUESS: unknown; write the unit of the simulation clock (min, h, s)");
+  checks.push("title and time_unit: write the report's title and the clock's unit.");
+  out.push("confidence: 0.95   # the usual 95 % confidence intervals");
+
+  const levels = scan.series.filter((s) => s.kind === "level");
+  const ends = new Map(scan.scenarios.map((sc) => [sc.name, guessEnd(sc)]));
+  const singleRun = scan.scenarios.some((sc) => sc.runs.length === 1);
+  const used = new Set<string>();
+  const unique = (base: string) => {
+    let name = base;
+    for (let k = 2; used.has(name); k++) name = `${base}_${k}`;
+    used.add(name);
+    return name;
+  };
+  const seriesMeasure = new Map(scan.series.map((s) => [s.name, unique(s.kind === "count" ? `${measureName(s.name)}_count` : measureName(s.name))]));
+  // The warm-up is judged on the busiest level that is neither a capacity nor busy units (a queue).
+  const capacitySeries = new Set(scan.capacities.map((c) => c.capacity));
+  const plain = levels.filter((s) => !capacitySeries.has(s.name) && !BUSY_NAME.test(s.name)).sort((a, b) => b.rows - a.rows);
+  const warmupSeries = plain[0]?.name ?? levels[0]?.name ?? scan.series.find((s) => s.kind === "observation")?.name;
+  const warmupMeasure = warmupSeries === undefined ? undefined : seriesMeasure.get(warmupSeries)!;
+  const shortest = Math.min(...[...ends.values()].map((e) => e.end));
+  const slice = niceUp(shortest / 200);
+  if (singleRun) {
+    out.push("# GUESS: some scenario has a single run, so its interval comes from batch means within the run,");
+    out.push("# and the run's start (often empty and idle) is cut off by MSER-5. Check both; see docs/manifest.md.");
+    out.push("analysis: {method: batch-means, batches: 20}");
+    if (warmupMeasure !== undefined) {
+      out.push(`warmup: {method: mser-5, measure: ${yamlText(warmupMeasure)}, slice: ${slice}}   # slice: about 1/200 of the run`);
+    }
+    checks.push("analysis and warmup: a scenario has one run, so batch means and an MSER-5 warm-up were guessed.");
+  } else {
+    out.push("# warmup: none guessed. If the runs start empty and you study the long run, cut the start off with");
+    out.push(`#   warmup: <time>   or   warmup: {method: mser-5, measure: ${warmupMeasure ?? "<measure>"}, slice: ${slice}}`);
+  }
+
+  // Measures first: the scenarios need their names for overrides.
+  const measures: Measure[] = [];
+  for (const s of scan.series) {
+    const name = seriesMeasure.get(s.name)!;
+    measures.push({ line: `{name: ${yamlText(name)}, kind: ${s.kind}, series: ${yamlText(s.name)}}`, comment: [describe(s, runCount), `GUESS ${s.kind}: ${s.why}`] });
+  }
+  const overrides = new Map<string, string[]>();
+  for (const c of scan.capacities) {
+    const name = unique(`${measureName(c.busy)}_use`);
+    const initial = c.capacityFrom > 0 ? `, capacity_initial: 0` : "";
+    const comment = [`GUESS utilization of "${c.busy}" against the capacity series "${c.capacity}": ${c.why}.`];
+    if (c.capacityFrom > 0) comment.push(`"${c.capacity}" first appears at time ${c.capacityFrom}; capacity_initial is the capacity before that: set it.`);
+    measures.push({ line: `{name: ${yamlText(name)}, kind: utilization, series: ${yamlText(c.busy)}, capacity: ${yamlText(c.capacity)}${initial}}`, comment });
+    checks.push(`${name}: is "${c.busy}" the busy units and "${c.capacity}" the units available?`);
+  }
+  for (const s of levels) {
+    if (scan.capacities.some((c) => c.busy === s.name) || capacitySeries.has(s.name) || !BUSY_NAME.test(s.name) || s.min < 0) continue;
+    const name = unique(`${measureName(s.name)}_use`);
+    const perScenario = scan.scenarios.map((sc) => ({ sc: sc.name, max: Math.max(1, sc.maxBySeries.get(s.name) ?? 1) }));
+    const study = Math.max(...perScenario.map((p) => p.max));
+    for (const p of perScenario) {
+      if (p.max === study) continue;
+      const list = overrides.get(p.sc) ?? [];
+      list.push(`${yamlText(name)}: {capacity: ${p.max}}   # GUESS: the most "${s.name}" seen in this scenario's runs`);
+      overrides.set(p.sc, list);
+    }
+    measures.push({
+      line: `{name: ${yamlText(name)}, kind: utilization, series: ${yamlText(s.name)}, capacity: ${study}}`,
+      comment: [`GUESS utilization: the name "${s.name}" suggests busy units; capacity ${study} is the most seen in any run. Write the real number of units.`],
+    });
+    checks.push(`${name}: the capacity is the most "${s.name}" seen in the runs; write the real number of units${perScenario.length > 1 ? " per scenario" : ""}.`);
+  }
+  for (const p of scan.pairs) {
+    const a = measureName(p.start);
+    const b = measureName(p.end);
+    const evidence = `${p.shared} entities had both "${p.start}" and "${p.end}", ${p.inOrder === p.shared ? "all" : p.inOrder} in that order; ${p.open} had "${p.start}" only (censored if still open at the end)`;
+    measures.push({
+      line: `{name: ${yamlText(unique(`n_${a}_to_${b}`))}, kind: level, from: {enter: ${yamlText(p.start)}, leave: ${yamlText(p.end)}}}`,
+      comment: [`GUESS from entity events: ${evidence}.`, `The number of entities that have had "${p.start}" and not yet "${p.end}" (like a number in system).`],
+    });
+    measures.push({
+      line: `{name: ${yamlText(unique(`time_${a}_to_${b}`))}, kind: observation, from: {start: ${yamlText(p.start)}, end: ${yamlText(p.end)}}}`,
+      comment: [`Each entity's time from "${p.start}" to "${p.end}" (like a time in system).`],
+    });
+  }
+  if (scan.pairs.length > 0) checks.push(`entity measures (n_..._to_..., time_..._to_...): keep the event pairs that mean something, delete the rest.`);
+
+  out.push("scenarios:");
+  for (const sc of scan.scenarios) {
+    const end = ends.get(sc.name)!;
+    out.push(`  - name: ${yamlText(sc.name)}   # the folder ${rel(sc.dir)}`);
+    out.push(`    end: ${end.end}   # CHECK: ${end.why}`);
+    const runs = runsSpec(sc, rel);
+    const ids = sc.runs.map((r) => r.id);
+    const idText = ids.length <= 3 ? ids.join(", ") : `${ids[0]}, ${ids[1]}, ..., ${ids[ids.length - 1]}`;
+    if (typeof runs === "string") out.push(`    runs: ${runs}   # ${ids.length} run${ids.length === 1 ? "" : "s"}: ${idText}`);
+    else {
+      out.push(`    runs:   # ${ids.length} run${ids.length === 1 ? "" : "s"}; listed one by one because the folder holds skipped files too`);
+      for (const r of runs) out.push(`      - ${r}`);
+    }
+    const o = overrides.get(sc.name);
+    if (o !== undefined) {
+      out.push("    measures:");
+      for (const line of o) out.push(`      ${line}`);
+    }
+  }
+  checks.push("end of each scenario: the time each run stopped (guessed from the last row).");
+
+  out.push("measures:");
+  for (const m of measures) {
+    for (const c of m.comment) out.push(`  # ${c}`);
+    out.push(`  - ${m.line}`);
+  }
+  out.push("");
+  return { text: out.join("\n"), checks };
+}
+
+/** A one-line description of a series: rows, files, values and entities. */
+function describe(s: SeriesFacts, runs: number): string {
+  const carries = [s.valued > 0 ? (s.valued === s.rows ? "values" : `values on ${s.valued}`) : "no values", s.withEntity > 0 ? (s.withEntity === s.rows ? "entities" : `entities on ${s.withEntity}`) : "no entities"];
+  return `series "${s.name}": ${s.rows} rows in ${s.files} of ${runs} run files; ${carries.join(", ")}`;
+}
+
+/** The window end of a scenario: the last row of any run, rounded up to a round number. */
+function guessEnd(sc: ScannedScenario): { end: number; why: string } {
+  const known = sc.runs.map((r) => r.lastTime).filter((t): t is number => t !== null);
+  const unknown = sc.runs.length - known.length;
+  const last = known.length > 0 ? Math.max(...known) : 0;
+  const first = known.length > 0 ? Math.min(...known) : 0;
+  const end = last > 0 ? niceUp(last) : 1;
+  let why = `the last row of any run is at ${last}, rounded up to ${end}. Set the time the simulation stopped`;
+  if (known.length > 1 && first < 0.9 * last) why += ` (runs end between ${first} and ${last}: give each run its own end if they stopped at different times)`;
+  if (unknown > 0) why += `; ${unknown} compressed run(s) were read only in part, so their end is unknown`;
+  return { end, why };
+}
+
+/** The smallest number >= x with two significant digits (478.3 -> 480, 9987 -> 10000, 0.213 -> 0.22). */
+export function niceUp(x: number): number {
+  if (!(x > 0)) return 1;
+  const step = 10 ** (Math.floor(Math.log10(x)) - 1);
+  const n = Math.ceil(Number((x / step).toPrecision(12)));
+  return Number((n * step).toPrecision(12));
+}
+
+/** A glob when it matches exactly the scenario's runs, else the list of paths. */
+function runsSpec(sc: ScannedScenario, rel: (p: string) => string): string | string[] {
+  const names = sc.runs.map((r) => basename(r.path));
+  const suffix = RUN_EXTENSIONS.find((e) => names[0].endsWith(e));
+  if (suffix !== undefined && names.every((n) => n.endsWith(suffix))) {
+    const matches = readdirSync(sc.dir).filter((n) => !n.startsWith(".") && n.endsWith(suffix) && n.length > suffix.length);
+    if (matches.length === names.length && matches.every((n) => names.includes(n))) {
+      const folder = rel(sc.dir);
+      return yamlText(folder === "." ? `*${suffix}` : `${folder}/*${suffix}`);
+    }
+  }
+  return sc.runs.map((r) => yamlText(rel(r.path)));
+}
+
+/** A measure name from a series name: letters, digits and `_`. */
+function measureName(series: string): string {
+  const s = series.replace(/[^A-Za-z0-9_]+/g, "_").replace(/^_+|_+$/g, "");
+  return s === "" ? "series" : /^[0-9]/.test(s) ? `s_${s}` : s;
+}
+
+/** A YAML scalar: plain when it is safe everywhere (also inside `{...}`), else double-quoted. */
+export function yamlText(s: string): string {
+  const plain = /^[A-Za-z0-9_./][A-Za-z0-9_.\-/*]*$/.test(s) && !/^(true|false|null|~|yes|no|on|off|y|n)$/i.test(s) && !/^[-+.0-9][0-9_.eE+-]*$/.test(s);
+  return plain ? s : JSON.stringify(s);
+}
