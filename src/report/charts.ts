@@ -275,3 +275,170 @@ export function histogramChart(
     config: config(),
   } as TopLevelSpec;
 }
+
+/** Most points the warm-up plot draws per line; longer slice series are sampled evenly for drawing. */
+export const MAX_WELCH_POINTS = 2000;
+/** Most points an empirical distribution line draws per scenario (evenly spaced ranks). */
+export const MAX_ECDF_POINTS = 800;
+
+/**
+ * Welch's moving average (Welch 1983) of a sequence Y₁…Yₘ with window w: for j > w the mean of
+ * the 2w + 1 values centred on j; near the start (j ≤ w) the mean of the 2j − 1 values centred on
+ * j, so the first point is Y₁ itself. Defined for j = 1…m − w. Returns [] when m < 2w + 1 or w < 1.
+ *
+ * @example welchMovingAverage([1, 2, 3, 4, 5], 1) // [1, 2, 3, 4]
+ */
+export function welchMovingAverage(ys: number[], w: number): number[] {
+  const m = ys.length;
+  if (w < 1 || m < 2 * w + 1) return [];
+  const prefix = [0];
+  for (const y of ys) prefix.push(prefix[prefix.length - 1] + y);
+  const out: number[] = [];
+  for (let j = 1; j <= m - w; j++) {
+    const s = j <= w ? j - 1 : w;
+    out.push((prefix[j + s] - prefix[j - s - 1]) / (2 * s + 1));
+  }
+  return out;
+}
+
+/** The default window of the warm-up plot: m/20 rounded, at least 1, at most ⌊m/4⌋ (0 when m < 4). */
+export function welchWindow(m: number): number {
+  if (m < 4) return 0;
+  return Math.min(Math.floor(m / 4), Math.max(1, Math.round(m / 20)));
+}
+
+/** Indices 0…n−1 sampled evenly to at most `max` (first and last kept). */
+function evenIndices(n: number, max: number): number[] {
+  if (n <= max) return Array.from({ length: n }, (_, i) => i);
+  const out: number[] = [];
+  for (let i = 0; i < max; i++) out.push(Math.round((i * (n - 1)) / (max - 1)));
+  return [...new Set(out)];
+}
+
+/**
+ * The warm-up plot: the across-run average of each time slice (thin line with dots), its moving
+ * average (thick line), and the chosen warm-up as a rule with its label.
+ */
+export function welchChart(args: {
+  slices: { time: number; mean: number }[];
+  smoothed: { time: number; mean: number }[];
+  warmup: number | null;
+  timeTitle: string;
+  valueTitle: string;
+  sliceLabel: string;
+  smoothLabel: string;
+  warmupLabel: string;
+}): TopLevelSpec {
+  const pick = <T>(xs: T[]) => evenIndices(xs.length, MAX_WELCH_POINTS).map((i) => xs[i]);
+  const color = {
+    field: "series",
+    type: "nominal",
+    scale: { domain: [args.sliceLabel, args.smoothLabel], range: [PALETTE.tide, PALETTE.kiln] },
+    legend: { title: null },
+  } as const;
+  const x = { field: "time", type: "quantitative", title: args.timeTitle, scale: { nice: false } } as const;
+  const y = { field: "mean", type: "quantitative", title: args.valueTitle } as const;
+  const layer: object[] = [
+    {
+      data: { values: pick(args.slices).map((p) => ({ time: p.time, mean: p.mean, series: args.sliceLabel })) },
+      mark: { type: "line", strokeWidth: 1, opacity: 0.9 },
+      encoding: { x, y, color },
+    },
+  ];
+  if (args.smoothed.length > 0) {
+    layer.push({
+      data: { values: pick(args.smoothed).map((p) => ({ time: p.time, mean: p.mean, series: args.smoothLabel })) },
+      mark: { type: "line", strokeWidth: 2.6 },
+      encoding: { x, y, color },
+    });
+  }
+  if (args.warmup !== null) {
+    const rule = [{ time: args.warmup, label: args.warmupLabel }];
+    layer.push({
+      data: { values: rule },
+      mark: { type: "rule", color: PALETTE.ink, strokeDash: [4, 3], strokeWidth: 1.5 },
+      encoding: { x: { field: "time", type: "quantitative" } },
+    });
+    layer.push({
+      data: { values: rule },
+      mark: { type: "text", align: "left", baseline: "top", dx: 4, y: 2, fontSize: 10, fontStyle: "italic", color: PALETTE.ink },
+      encoding: { x: { field: "time", type: "quantitative" }, text: { field: "label" } },
+    });
+  }
+  return { $schema: SCHEMA, width: WIDTH, height: 200, layer, config: config() } as TopLevelSpec;
+}
+
+/**
+ * The empirical distribution function of each scenario's observations as a step line: the share
+ * of observations ≤ x. The steps are at evenly spaced ranks when there are many values.
+ */
+export function ecdfSteps(values: number[], max: number = MAX_ECDF_POINTS): { value: number; share: number }[] {
+  const s = [...values].sort((a, b) => a - b);
+  const n = s.length;
+  if (n === 0) return [];
+  // Keep the last of equal values: F(x) counts every value ≤ x.
+  const last: number[] = [];
+  for (let i = 0; i < n; i++) if (i + 1 === n || s[i + 1] !== s[i]) last.push(i);
+  const keep = evenIndices(last.length, max).map((k) => last[k]);
+  return [{ value: s[0], share: 0 }, ...keep.map((i) => ({ value: s[i], share: (i + 1) / n }))];
+}
+
+/** ECDF lines by scenario with the measure's thresholds as labelled vertical rules. */
+export function ecdfChart(args: {
+  rows: { scenario: string; value: number; share: number }[];
+  scenarios: string[];
+  thresholds: { value: number; label: string }[];
+  valueTitle: string;
+  shareTitle: string;
+}): TopLevelSpec {
+  const colors = [PALETTE.tide, PALETTE.kiln, PALETTE.ink, PALETTE.ochre, PALETTE.muted];
+  const layer: object[] = [
+    {
+      data: { values: args.rows },
+      mark: { type: "line", interpolate: "step-after", strokeWidth: 1.8 },
+      encoding: {
+        x: { field: "value", type: "quantitative", title: args.valueTitle },
+        y: { field: "share", type: "quantitative", title: args.shareTitle, scale: { domain: [0, 1] }, axis: { format: ".0%" } },
+        color: { field: "scenario", type: "nominal", sort: args.scenarios, scale: { domain: args.scenarios, range: colors }, legend: { title: null } },
+      },
+    },
+  ];
+  if (args.thresholds.length > 0) {
+    layer.push({
+      data: { values: args.thresholds },
+      mark: { type: "rule", color: PALETTE.muted, strokeDash: [3, 3] },
+      encoding: { x: { field: "value", type: "quantitative" } },
+    });
+    layer.push({
+      data: { values: args.thresholds },
+      mark: { type: "text", align: "left", baseline: "top", dx: 3, y: 2, fontSize: 10, color: PALETTE.muted },
+      encoding: { x: { field: "value", type: "quantitative" }, text: { field: "label" } },
+    });
+  }
+  return { $schema: SCHEMA, width: WIDTH, height: 200, layer, config: config() } as TopLevelSpec;
+}
+
+/** Average share of time at each value, one row of bars per scenario on a shared value axis. */
+export function timeAtValueChart(
+  rows: { scenario: string; value: number; share: number }[],
+  scenarios: string[],
+  valueTitle: string,
+  shareTitle: string,
+): TopLevelSpec {
+  return {
+    $schema: SCHEMA,
+    data: { values: rows },
+    facet: { row: { field: "scenario", type: "nominal", sort: scenarios, title: null, header: { labelAngle: 0, labelAlign: "left", labelAnchor: "start", labelOrient: "top" } } },
+    spacing: 10,
+    spec: {
+      width: WIDTH,
+      height: 90,
+      mark: { type: "bar", color: PALETTE.ochre, opacity: 0.9 },
+      encoding: {
+        x: { field: "value", type: "ordinal", sort: "ascending", title: valueTitle, axis: { labelAngle: 0, labelOverlap: "parity" } },
+        y: { field: "share", type: "quantitative", title: shareTitle, axis: { format: ".0%" } },
+      },
+    },
+    config: config(),
+  } as TopLevelSpec;
+}

@@ -13,7 +13,7 @@ import { compile } from "vega-lite";
 import { parse, View } from "vega";
 import type { TopLevelSpec } from "vega-lite";
 import { reportMessages } from "../messages/index.js";
-import type { ReportModel } from "./model.js";
+import type { Chart, ReportModel } from "./model.js";
 
 /** The templates folder: `templates/` at the package root, from `src/report/` and `dist/report/` alike. */
 export const TEMPLATES_DIR = new URL("../../templates/", import.meta.url);
@@ -52,11 +52,13 @@ async function loadTemplates(): Promise<Templates> {
 /** Renders the report's HTML from its view model. */
 export async function renderHtml(model: ReportModel): Promise<string> {
   const { page, css } = await loadTemplates();
+  const withSvg = async <C extends Chart>(c: C) => ({ ...c, svg: await renderChartSvg(c.spec) });
   const measures = await Promise.all(
-    model.measures.map(async (m) => ({
-      ...m,
-      charts: await Promise.all(m.charts.map(async (c) => ({ ...c, svg: await renderChartSvg(c.spec) }))),
-    })),
+    model.measures.map(async (m) => ({ ...m, charts: await Promise.all(m.charts.map(withSvg)) })),
   );
-  return page({ ...model, measures, css });
+  const warmup = model.warmup === null ? null : {
+    ...model.warmup,
+    scenarios: await Promise.all(model.warmup.scenarios.map(async (w) => ({ ...w, chart: w.chart === null ? null : await withSvg(w.chart) }))),
+  };
+  return page({ ...model, warmup, measures, css });
 }

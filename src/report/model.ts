@@ -18,6 +18,8 @@ import type {
 } from "../study/outcome.js";
 import type { TopLevelSpec } from "vega-lite";
 import {
+  ecdfChart,
+  ecdfSteps,
   evenSample,
   histogramChart,
   intervalChart,
@@ -25,7 +27,14 @@ import {
   traceChart,
   MAX_HISTOGRAM_VALUES,
   MAX_TRACE_POINTS,
+  MAX_ECDF_POINTS,
+  MAX_WELCH_POINTS,
+  timeAtValueChart,
+  welchChart,
+  welchMovingAverage,
+  welchWindow,
 } from "./charts.js";
+import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
 
 /** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS`. */
@@ -40,6 +49,10 @@ export interface Cell {
   href: string | null;
   /** Set on cells of columns that hold numbers: right-aligned, tabular figures. */
   num?: boolean;
+  /** Set on cells of columns of short labels (run ids, scenario names), kept on one line. */
+  nowrap?: boolean;
+  /** Set on a cell that flags a problem (shown in the warning colour). */
+  flag?: boolean;
 }
 
 export interface Fact {
@@ -89,8 +102,15 @@ const NUMERIC = /^(—|-?[0-9][0-9.e-]*( %)?|\[[^\]]*\])$/;
 /** A table view with its numeric columns marked. */
 function tableView(caption: string, columns: string[], rows: Cell[][]): TableView {
   const numeric = columns.map((_, j) => rows.length > 0 && rows.every((r) => NUMERIC.test(r[j]?.text ?? "")));
-  return { caption, columns, numeric, rows: rows.map((r) => r.map((c, j) => (numeric[j] ? { ...c, num: true } : c))) };
+  const short = columns.map((_, j) => !numeric[j] && rows.length > 0 && rows.every((r) => (r[j]?.text ?? "").length <= SHORT_LABEL));
+  return {
+    caption, columns, numeric,
+    rows: rows.map((r) => r.map((c, j) => (numeric[j] ? { ...c, num: true } : short[j] ? { ...c, nowrap: true } : c))),
+  };
 }
+
+/** Longest label kept on one line in a table column. */
+const SHORT_LABEL = 16;
 
 export interface MeasureSection {
   id: string;
@@ -133,9 +153,13 @@ export interface InputLine {
 export interface CalcTable {
   id: string;
   heading: string;
+  /** One line on what the columns mean (share and quantile tables), or null. */
+  explain: string | null;
   file: string;
   sha256: string;
   columns: string[];
+  /** Per column: false for a column of text (such as written-out arithmetic), which wraps. */
+  numeric: boolean[];
   /** A row of cells, or a gap marker row with its text. */
   rows: { cells: string[] | null; gap: string | null }[];
   note: string;
@@ -155,6 +179,19 @@ export interface IntervalView {
   note: string | null;
 }
 
+/** The warm-up estimate of one scenario: its figures, the warm-up plot, or the per-run table. */
+export interface WarmupView {
+  id: string;
+  scenario: string;
+  /** One sentence: what was estimated and the result. */
+  lead: string;
+  facts: Fact[];
+  chart: Chart | null;
+  runs: TableView | null;
+  /** Shown when MSER-5 stopped at its limit (half the batches). */
+  warning: string | null;
+}
+
 export interface ReportModel {
   title: string;
   generatedAt: string;
@@ -165,6 +202,8 @@ export interface ReportModel {
   cover: { facts: Fact[]; scenarios: ScenarioLine[] };
   contents: { href: string; label: string }[];
   summary: { intro: string; rows: SummaryRow[] };
+  /** The warm-up estimates (MSER-5) with the warm-up plot; null when no scenario estimated one. */
+  warmup: { intro: string; scenarios: WarmupView[] } | null;
   measures: MeasureSection[];
   comparisons: { intro: string; table: TableView } | null;
   methods: MethodNote[];
@@ -177,6 +216,10 @@ export interface ReportModel {
     tablesIntro: string;
     tables: CalcTable[];
     intervals: IntervalView[];
+    /** Consistency checks of the run data, one row per check and run; null when there are none. */
+    checks: { intro: string; table: TableView } | null;
+    /** The batch means of every run, per measure; null without batch means. */
+    batchValues: { intro: string; items: { id: string; table: TableView }[] } | null;
   };
 }
 
@@ -364,14 +407,14 @@ const METHODS: Omit<MethodNote, "id">[] = [
   },
   {
     term: "Warm-up plot",
-    formula: "Ȳ_j = (1/R) Σ_r Y_rj, smoothed by a moving average of width 2w + 1",
-    text: "Averaging the runs time slice by time slice and smoothing the result shows where the level settles; the warm-up chosen should lie past that point.",
+    formula: "Ȳ_j = (1/R) Σ_r Y_rj;  Ȳ_j(w) = mean of Ȳ_{j−w} … Ȳ_{j+w} (of Ȳ_1 … Ȳ_{2j−1} for j ≤ w);  w = m/20 rounded, 1 ≤ w ≤ m/4",
+    text: "Each run's time average over slices of equal width, averaged over the R runs slice by slice (Ȳ_j for slices j = 1 … m), then smoothed by a centred moving average of 2w + 1 slices. The plot shows both lines and the warm-up MSER-5 chose as a vertical rule; the smoothed line should be flat to the right of the rule. If it still drifts, the runs are too short or the system has no steady state.",
     source: "Welch, P. D. (1983). The statistical analysis of simulation results. In S. S. Lavenberg (ed.), Computer Performance Modeling Handbook, Academic Press, 268–328.",
   },
   {
     term: "Batch means within one run",
     formula: "Z_j = batch averages (j = 1..k),  Z̄ ± t(1 − α/2; k − 1) · s_Z / √k,  lag-1 r = Σ (Z_j − Z̄)(Z_{j+1} − Z̄) / Σ (Z_j − Z̄)²",
-    text: "One long run is cut into k batches of equal length; their averages are treated as roughly independent. A lag-1 correlation far from 0 says the batches are too short.",
+    text: "One long run is cut into k batches (a level: k stretches of equal time, prorated at the edges; observations: k groups of ⌊n/k⌋ consecutive values after dropping the n mod k oldest); their averages are treated as roughly independent and give an interval for the run's long-run mean. A lag-1 correlation above 0.2 in size says the batches are probably too short: the report flags it and warns.",
     source: "Schmeiser, B. (1982). Batch size effects in the analysis of simulation output. Operations Research 30(3), 556–568.",
   },
   {
@@ -391,6 +434,12 @@ const METHODS: Omit<MethodNote, "id">[] = [
     formula: "Q(p) = x₍ⱼ₎ + g·(x₍ⱼ₊₁₎ − x₍ⱼ₎),  h = (n − 1)·p,  j = ⌊h⌋ + 1,  g = h − ⌊h⌋",
     text: "Linear interpolation between the order statistics x₍₁₎ ≤ … ≤ x₍ₙ₎ of a run's observations.",
     source: "Hyndman, R. J., & Fan, Y. (1996). Sample quantiles in statistical packages. The American Statistician 50(4), 361–365.",
+  },
+  {
+    term: "Intervals for per-run quantiles and shares",
+    formula: "q_r = quantile (or share) of run r;  q̄ ± t(1 − α/2; n − 1) · s_q / √n",
+    text: "Each run gives its own quantile, share of values within a threshold, or share of time at or above a level; the interval treats these n per-run figures like any run value. It is an interval for the expected per-run quantile or share (what one run of this length gives on average), not for the quantile or share of all observations pooled, which can differ, most of all for short runs and extreme quantiles. The distribution chart, by contrast, pools the observations.",
+    source: "Follows from the Student t interval above; the quantile definition is Hyndman and Fan (1996), type 7.",
   },
   {
     term: "Runs needed for a target precision",
@@ -438,10 +487,12 @@ export function buildReportModel(
   };
 
   // Anchors of calculation tables and interval derivations, assigned once.
+  // Every table has its own anchor; a run value links to its measure's first (main) table.
+  const tableAnchors = outcome.tables.map((t, i) => anchor("table", i + 1, t.measure, t.scenario, t.run));
   const tableIds = new Map<string, string>();
   outcome.tables.forEach((t, i) => {
     const k = key(t.scenario, t.run, t.measure);
-    if (!tableIds.has(k)) tableIds.set(k, anchor("table", i + 1, t.measure, t.scenario, t.run));
+    if (!tableIds.has(k)) tableIds.set(k, tableAnchors[i]);
   });
   const intervalIds = new Map<string, string>();
   outcome.intervals.forEach((a, i) => {
@@ -449,6 +500,11 @@ export function buildReportModel(
     if (!intervalIds.has(k)) intervalIds.set(k, anchor("calc", i + 1, a.measure, a.scenario, a.figure === "value" ? null : a.figure));
   });
   const measureIds = study.measureNames.map((m, i) => anchor("measure", i + 1, m));
+  const batchIds = new Map<string, string>();
+  let batchNo = 0;
+  for (const name of study.measureNames) for (const sr of results.scenarios) {
+    if (sr.runs.some((r) => isRecord(r.measures[name]?.batch_means))) batchIds.set(key(sr.name, name), anchor("batches", ++batchNo, name, sr.name));
+  }
   const ivId = (scenario: string, measure: string, figure: string) => intervalIds.get(key(scenario, measure, figure)) ?? null;
   const tbId = (scenario: string, run: string | null, measure: string) => tableIds.get(key(scenario, run, measure)) ?? null;
 
@@ -500,6 +556,18 @@ export function buildReportModel(
       });
     });
   });
+
+  // Warm-up estimates.
+  const warmupViews = results.scenarios.flatMap((sr, i) => {
+    const v = warmupView(sr, i + 1, unit, measureOf);
+    return v === null ? [] : [v];
+  });
+  const warmup = warmupViews.length === 0 ? null : {
+    intro: "MSER-5 chooses the warm-up from the data: it drops the first d batches of five values that make the standard error of what remains smallest. " +
+      "For a level or utilization the values are the runs' time averages over equal time slices, averaged over the runs slice by slice; the warm-up plot shows them with their moving average, so the choice can be judged by eye. " +
+      "For an observation measure MSER-5 runs on each run's observations, and the scenario's warm-up is the latest of the runs' choices.",
+    scenarios: warmupViews,
+  };
 
   // Measure sections.
   const measures: MeasureSection[] = study.measureNames.map((name, mi) => {
@@ -556,6 +624,12 @@ export function buildReportModel(
           spec: histogramChart(rows, scenarioNames, m.source.type === "entities" ? `${name} (${unit})` : name, "observations"),
         });
       }
+      const ecdf = ecdfView(name, m, outcome.samples.filter((s) => s.measure === name), scenarioNames, study, unit);
+      if (ecdf !== null) charts.push({ id: chartId("distribution"), ...ecdf });
+    }
+    if (m.kind === "level" || m.kind === "utilization") {
+      const tav = timeAtValueView(name, m.kind, results.scenarios, unit);
+      if (tav !== null) charts.push({ id: chartId("time-at-value"), ...tav });
     }
 
     return {
@@ -566,7 +640,7 @@ export function buildReportModel(
       charts,
       runs: runTable(name, m.kind, results.scenarios, unit, tbId),
       extras: extrasTable(name, m.kind, results.scenarios, ivId),
-      batchMeans: batchMeansTable(name, results.scenarios),
+      batchMeans: batchMeansTable(name, results.scenarios, batchIds),
       runsNeeded: runsNeededTable(name, results.scenarios),
     };
   });
@@ -606,19 +680,31 @@ export function buildReportModel(
       sha256: r.sha256,
     };
   });
-  const tables: CalcTable[] = outcome.tables.map((t, i) => calcTable(t, tableIds.get(key(t.scenario, t.run, t.measure)) ?? anchor("table", i + 1)));
+  const tables: CalcTable[] = outcome.tables.map((t, i) => calcTable(t, tableAnchors[i]));
   const intervals: IntervalView[] = outcome.intervals.map((a, i) => {
     const kind = (() => { try { return measureOf(a.scenario, a.measure).kind; } catch { return "level" as const; } })();
     return intervalView(a, intervalIds.get(key(a.scenario, a.measure, a.figure)) ?? anchor("calc", i + 1), figureLabel(kind, a.figure), tbId);
   });
 
-  const warnings: WarningLine[] = outcome.warnings.map((w) => ({
+  const warningsIn = [...outcome.warnings];
+  const seen = new Set(warningsIn.map((w) => key(w.scenario, w.run, w.measure, w.message)));
+  for (const sr of results.scenarios) for (const c of checksOf(sr)) {
+    if (c.passed) continue;
+    const k = key(sr.name, c.run, c.measure, c.message);
+    if (seen.has(k)) continue;
+    seen.add(k);
+    warningsIn.push({ scenario: sr.name, run: c.run, measure: c.measure, message: c.message });
+  }
+  const warnings: WarningLine[] = warningsIn.map((w) => ({
     where: [w.scenario, w.run, w.measure].filter((x): x is string => x !== null).join(" › ") || "study",
-    message: w.message,
+    message: roundNumbersIn(w.message),
   }));
+  const checks = checksTable(results.scenarios);
+  const batchValues = batchValuesView(study.measureNames, results.scenarios, batchIds);
 
   const contents = [
     { href: "#summary", label: "Summary" },
+    ...(warmup ? [{ href: "#warmup", label: "Warm-up" }] : []),
     ...measures.map((m) => ({ href: `#${m.id}`, label: m.name })),
     ...(comparisons ? [{ href: "#comparisons", label: "Scenario comparisons" }] : []),
     { href: "#methods", label: "Method notes" },
@@ -642,6 +728,7 @@ export function buildReportModel(
         "Relative precision is half-width / |mean|. Every number links to its step-by-step derivation in the appendix.",
       rows: summaryRows,
     },
+    warmup,
     measures,
     comparisons,
     methods: METHODS.map((n, i) => ({ id: anchor("method", i + 1, n.term), ...n })),
@@ -656,6 +743,8 @@ export function buildReportModel(
         "the full table is the CSV file named under it, whose SHA-256 digest is given.",
       tables,
       intervals,
+      checks,
+      batchValues,
     },
   };
 }
@@ -752,20 +841,26 @@ function extrasTable(
   );
 }
 
-function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scenarios"]): TableView | null {
+/** Size of the lag-1 correlation of batch means above which the batches are flagged as too short. */
+export const LAG1_FLAG = 0.2;
+
+function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scenarios"], batchIds: Map<string, string>): TableView | null {
   const rows: Cell[][] = [];
   for (const sr of scenarios) for (const r of sr.runs as RunResult[]) {
-    const b = r.measures[name]?.batch_means as Record<string, number | null> | undefined;
-    if (!b || typeof b !== "object") continue;
+    const b = r.measures[name]?.batch_means;
+    if (!isRecord(b)) continue;
+    const lag1 = numOrNull(b.lag1);
+    const flagged = lag1 !== null && Math.abs(lag1) > LAG1_FLAG;
+    const flag: Cell = { ...text(lag1 === null ? "no lag-1 (too few batches)" : flagged ? `|lag-1| > ${LAG1_FLAG}: batches too short` : "ok"), ...(flagged ? { flag: true } : {}) };
     rows.push([
-      text(sr.name), text(r.id), text(fmt(b.batches ?? null)), text(fmt(b.mean ?? null)), text(fmt(b.half_width ?? null)),
-      text(intervalText(b.ci_low ?? null, b.ci_high ?? null)), text(fmt(b.lag1 ?? null)),
+      text(sr.name), link(r.id, batchIds.get(key(sr.name, name)) ?? null), text(fmt(numOrNull(b.batches))), text(fmt(numOrNull(b.mean))),
+      text(fmt(numOrNull(b.half_width))), text(intervalText(numOrNull(b.ci_low), numOrNull(b.ci_high))), text(fmt(lag1)), flag,
     ]);
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${name}: batch means within each run (a lag-1 correlation far from 0 says the batches are too short)`,
-    ["Scenario", "Run", "Batches", "Mean", "Half-width", "Interval", "Lag-1 correlation"],
+    `${name}: batch means within each run (interval for the run's long-run mean; each run links to its batch values in the appendix)`,
+    ["Scenario", "Run", "Batches", "Mean", "Half-width", "Interval", "Lag-1 correlation", "Check"],
     rows,
   );
 }
@@ -791,11 +886,32 @@ function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scena
   );
 }
 
+/** What the columns of a share or quantile table mean, by table kind (one line each). */
+const TABLE_EXPLAIN: Record<string, { label: string; text: string }> = {
+  time_at_least: {
+    label: "share of time at or above each threshold",
+    text: "One row per threshold k: intervals_at_or_above counts the level's intervals with value ≥ k, time is their total duration inside the window, duration is the window's length, and share = time / duration.",
+  },
+  time_at_value: {
+    label: "time at each value",
+    text: "One row per distinct value: time is how long the level held that value inside the window, duration is the window's length, and share = time / duration; the shares add up to 1.",
+  },
+  quantiles: {
+    label: "quantiles (type 7)",
+    text: "One row per probability p: h = (n − 1)·p; the sorted values at ranks lower_rank = ⌊h⌋ + 1 and upper_rank = ⌊h⌋ + 2 are interpolated with fraction = h − ⌊h⌋; the arithmetic column writes the interpolation out.",
+  },
+  within: {
+    label: "share of values within each threshold",
+    text: "One row per threshold x: at_most is the number of observations ≤ x, n the number of observations in the window, and share = at_most / n.",
+  },
+};
+
 function calcTable(t: TableRecord, id: string): CalcTable {
   const preview = t.preview;
   const show = preview.length <= TABLE_ROW_CAP ? preview : [...preview.slice(0, TABLE_HEAD_ROWS), ...preview.slice(-TABLE_TAIL_ROWS)];
-  const cell = (v: number | string | null) => (typeof v === "number" ? fmt(v) : v === null ? MISSING : v);
+  const cell = (v: number | string | null) => (typeof v === "number" ? fmt(v) : v === null ? MISSING : roundNumbersIn(v));
   const rows: CalcTable["rows"] = show.map((r) => ({ cells: r.map(cell), gap: null }));
+  const numeric = t.columns.map((_, j) => show.every((r) => typeof r[j] !== "string" || NUMERIC.test(r[j] as string)));
   const hiddenHere = preview.length - show.length;
   const hiddenTotal = t.rows_total - show.length;
   if (hiddenTotal > 0) {
@@ -807,8 +923,10 @@ function calcTable(t: TableRecord, id: string): CalcTable {
   else parts.push(`The CSV file ${t.file} holds all of them.`);
   if (hiddenHere > 0 || hiddenTotal > 0) parts.push("Rows not shown here are in that file.");
   parts.push(`SHA-256 ${t.sha256}.`);
-  const heading = t.run === null ? `${t.measure} — ${t.scenario}` : `${t.measure} — ${t.scenario} — run ${t.run}`;
-  return { id, heading, file: t.file, sha256: t.sha256, columns: t.columns, rows, note: parts.join(" ") };
+  const extra = TABLE_EXPLAIN[t.kind];
+  const base = t.run === null ? `${t.measure} — ${t.scenario}` : `${t.measure} — ${t.scenario} — run ${t.run}`;
+  const heading = extra ? `${base} — ${extra.label}` : base;
+  return { id, heading, explain: extra?.text ?? null, file: t.file, sha256: t.sha256, columns: t.columns, numeric, rows, note: parts.join(" ") };
 }
 
 function intervalView(
@@ -844,5 +962,273 @@ function intervalView(
     })),
     steps,
     note: a.note,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------
+// Steady state, distributions, checks
+
+function isRecord(v: unknown): v is Record<string, unknown> {
+  return typeof v === "object" && v !== null && !Array.isArray(v);
+}
+
+function numOrNull(v: unknown): number | null {
+  return typeof v === "number" && Number.isFinite(v) ? v : null;
+}
+
+/**
+ * A message from the engine with each decimal number in it rounded by the report's rule
+ * ("L = 14.793044444444446" → "L = 14.79"); whole numbers and names are left as they are.
+ */
+export function roundNumbersIn(message: string): string {
+  return message.replace(/(?<![\w.])-?\d+\.\d+(?:e[-+]?\d+)?(?![\w.])/gi, (m) => fmt(Number(m)));
+}
+
+const LIMIT_WARNING = "MSER-5 chose the largest truncation it allows (half of the batches): the warm-up may not be over within the runs. Make the runs longer before trusting these figures.";
+
+/** The warm-up estimate of one scenario as shown, or null when the scenario has none. */
+function warmupView(
+  sr: StudyOutcome["results"]["scenarios"][number],
+  index: number,
+  unit: string,
+  measureOf: (scenario: string, name: string) => Measure,
+): WarmupView | null {
+  const est = sr.warmup_estimate;
+  if (!isRecord(est)) return null;
+  const measure = String(est.measure ?? "");
+  const time = numOrNull(est.time);
+  const d = numOrNull(est.d);
+  const batches = numOrNull(est.batches);
+  const method = String(est.method ?? "mser-5").toUpperCase();
+  const id = anchor("warmup", index, sr.name);
+  const facts: Fact[] = [
+    { label: "Method", value: method },
+    { label: "Measure", value: measure },
+  ];
+
+  if (Array.isArray(est.slice_means)) {
+    const means = (est.slice_means as unknown[]).map(numOrNull);
+    const slice = numOrNull(est.slice);
+    const start = sr.runs.length > 0 ? Math.min(...sr.runs.map((r) => r.start)) : 0;
+    const m = means.length;
+    const w = welchWindow(m);
+    const ok = slice !== null && means.every((x): x is number => x !== null);
+    facts.push(
+      { label: "Slice width", value: `${fmt(slice)} ${unit}` },
+      { label: "Slices (m)", value: fmt(m) },
+      { label: "Batches of 5 slices", value: fmt(batches) },
+      { label: "Batches dropped (d)", value: fmt(d) },
+      { label: "Warm-up", value: `${fmt(time)} ${unit}` },
+      { label: "Moving average", value: w > 0 ? `w = ${w} (${2 * w + 1} slices)` : "none (fewer than 4 slices)" },
+    );
+    let chart: Chart | null = null;
+    if (ok && m > 0) {
+      const ys = means as number[];
+      const mid = (j: number) => start + (j + 0.5) * (slice as number);
+      const smoothed = welchMovingAverage(ys, w).map((mean, j) => ({ time: mid(j), mean }));
+      let kind: Measure["kind"] = "level";
+      try { kind = measureOf(sr.name, measure).kind; } catch { /* the estimate names a measure the study lacks: keep the level wording */ }
+      chart = {
+        id: `${id}-chart`,
+        caption: `Warm-up plot of ${measure} in ${sr.name}: the average over the ${sr.runs.length} runs of each ${fmt(slice)}-${unit} slice, drawn at the slice's midpoint (thin line)` +
+          (w > 0 ? `, its moving average over ${2 * w + 1} slices (w = ${w}, thick line)` : "") +
+          `, and the warm-up MSER-5 chose, ${fmt(time)} ${unit} (dashed rule).` +
+          (m > MAX_WELCH_POINTS ? ` The lines are drawn from an even sample of ${MAX_WELCH_POINTS} of the ${fmt(m)} slices.` : ""),
+        spec: welchChart({
+          slices: ys.map((mean, j) => ({ time: mid(j), mean })),
+          smoothed,
+          warmup: time,
+          timeTitle: `time (${unit})`,
+          valueTitle: kind === "utilization" ? `${measure}: slice utilization` : `${measure}: slice average`,
+          sliceLabel: "average of the runs per slice",
+          smoothLabel: w > 0 ? `moving average (w = ${w})` : "moving average",
+          warmupLabel: `warm-up ${fmt(time)} ${unit}`,
+        }),
+      };
+    }
+    return {
+      id,
+      scenario: sr.name,
+      lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on ${q(measure)}: the first ${fmt(d)} of ${fmt(batches)} batches of five ${fmt(slice)}-${unit} slices are dropped.`,
+      facts,
+      chart,
+      runs: null,
+      warning: est.at_limit === true ? LIMIT_WARNING : null,
+    };
+  }
+
+  if (Array.isArray(est.runs)) {
+    const runs = (est.runs as unknown[]).filter(isRecord);
+    facts.push({ label: "Warm-up", value: `${fmt(time)} ${unit}` });
+    const table = tableView(
+      `${measure} in ${sr.name}: MSER-5 on each run's observations in time order (the scenario's warm-up is the latest first kept observation)`,
+      ["Run", "Batches of 5", "Batches dropped d", `First kept observation (${unit})`, "At the limit"],
+      runs.map((r) => [
+        text(String(r.run ?? "")), text(fmt(numOrNull(r.batches))), text(fmt(numOrNull(r.d))), text(fmt(numOrNull(r.time))),
+        text(r.at_limit === true ? "yes" : "no"),
+      ]),
+    );
+    return {
+      id,
+      scenario: sr.name,
+      lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on the observations of ${q(measure)}, run by run: the latest time at which a run's kept observations begin.`,
+      facts,
+      chart: null,
+      runs: table,
+      warning: runs.some((r) => r.at_limit === true) ? LIMIT_WARNING : null,
+    };
+  }
+
+  facts.push({ label: "Batches dropped (d)", value: `${fmt(d)} of ${fmt(batches)}` }, { label: "Warm-up", value: `${fmt(time)} ${unit}` });
+  return {
+    id,
+    scenario: sr.name,
+    lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on ${q(measure)}.`,
+    facts,
+    chart: null,
+    runs: null,
+    warning: est.at_limit === true ? LIMIT_WARNING : null,
+  };
+}
+
+/** The empirical distribution chart of an observation measure, or null without samples. */
+function ecdfView(
+  name: string,
+  m: Measure,
+  samples: StudyOutcome["samples"],
+  scenarios: string[],
+  study: Study,
+  unit: string,
+): Omit<Chart, "id"> | null {
+  const rows = samples.flatMap((s) => ecdfSteps(s.values).map((p) => ({ scenario: s.scenario, value: p.value, share: p.share })));
+  if (rows.length === 0) return null;
+  const within = [...new Set(study.scenarios.flatMap((sc) => sc.measures)
+    .filter((x): x is Extract<Measure, { kind: "observation" }> => x.name === name && x.kind === "observation")
+    .flatMap((x) => x.within))].sort((a, b) => a - b);
+  const entities = m.kind === "observation" && m.source.type === "entities";
+  const sampled = samples.filter((s) => s.values.length < s.total);
+  const thinned = samples.some((s) => s.values.length > MAX_ECDF_POINTS);
+  const caption = [
+    `${name}: share of the observations at or below each value (empirical distribution), all runs of each scenario pooled` +
+      (entities ? `, values in ${unit}` : "") + ".",
+    within.length > 0
+      ? `Dashed rules mark the ${within.length === 1 ? "threshold" : "thresholds"} ${within.map((x) => fmt(x)).join(", ")}; the table of further figures gives the mean of the per-run shares within ${within.length === 1 ? "it" : "them"}, which can differ from the pooled share read here.`
+      : "",
+    ...sampled.map((s) => `${s.scenario}: drawn from a strided sample of ${fmt(s.values.length)} of the ${fmt(s.total)} observations.`),
+    thinned ? `Each line has at most ${MAX_ECDF_POINTS} steps, at evenly spaced ranks.` : "",
+    "The statistics use every observation.",
+  ].filter((x) => x !== "").join(" ");
+  return {
+    caption,
+    spec: ecdfChart({
+      rows,
+      scenarios: scenarios.filter((sc) => samples.some((s) => s.scenario === sc && s.values.length > 0)),
+      thresholds: within.map((x) => ({ value: x, label: `≤ ${fmt(x)}` })),
+      valueTitle: entities ? `${name} (${unit})` : name,
+      shareTitle: "share of observations ≤ value",
+    }),
+  };
+}
+
+/** The time-at-value bar chart of a level or utilization, or null when no run has the figures. */
+function timeAtValueView(
+  name: string,
+  kind: "level" | "utilization",
+  scenarios: StudyOutcome["results"]["scenarios"],
+  unit: string,
+): Omit<Chart, "id"> | null {
+  const rows: { scenario: string; value: number; share: number }[] = [];
+  const partial: string[] = [];
+  const used: string[] = [];
+  for (const sr of scenarios) {
+    const lists = sr.runs.map((r) => r.measures[name]?.time_at_value).filter((x): x is unknown[] => Array.isArray(x));
+    if (lists.length === 0) continue;
+    used.push(sr.name);
+    if (lists.length < sr.runs.length) partial.push(`${sr.name}: ${lists.length} of ${sr.runs.length} runs`);
+    const byValue = new Map<number, number[]>();
+    for (const list of lists) for (const e of list) {
+      if (!isRecord(e)) continue;
+      const v = numOrNull(e.value);
+      const share = numOrNull(e.share);
+      if (v === null || share === null) continue;
+      byValue.set(v, [...(byValue.get(v) ?? []), share]);
+    }
+    for (const v of [...byValue.keys()].sort((a, b) => a - b)) {
+      rows.push({ scenario: sr.name, value: v, share: fsum(byValue.get(v) as number[]) / lists.length });
+    }
+  }
+  if (rows.length === 0) return null;
+  return {
+    caption: `${name}: share of the window's time spent at each ${kind === "utilization" ? "number of busy units" : "value"} (time at the value ÷ window length, both in ${unit}), ` +
+      "averaged over the runs of each scenario; a run that never took a value counts as 0 for it." +
+      (partial.length > 0 ? ` Only the runs with a time-at-value table are averaged (${partial.join("; ")}).` : "") +
+      " Each run's own shares are in its time-at-value table in the appendix.",
+    spec: timeAtValueChart(rows, used, kind === "utilization" ? `${name}: busy units` : `${name}: level`, "share of time"),
+  };
+}
+
+interface CheckRecord {
+  check: string;
+  run: string;
+  measure: string;
+  passed: boolean;
+  message: string;
+  applies?: unknown;
+}
+
+function checksOf(sr: StudyOutcome["results"]["scenarios"][number]): CheckRecord[] {
+  if (!Array.isArray(sr.checks)) return [];
+  return (sr.checks as unknown[]).filter((c): c is CheckRecord =>
+    isRecord(c) && typeof c.check === "string" && typeof c.passed === "boolean" && typeof c.message === "string");
+}
+
+const CHECK_LABELS: Record<string, string> = {
+  "littles-law": "Little's law (L = λ·W)",
+  conservation: "conservation (at start + entered − left = at end)",
+  "utilization-range": "utilization within [0, 1]",
+  "level-non-negative": "number inside never negative",
+};
+
+function checksTable(scenarios: StudyOutcome["results"]["scenarios"]): { intro: string; table: TableView } | null {
+  const rows: Cell[][] = [];
+  let failed = 0;
+  let total = 0;
+  for (const sr of scenarios) for (const c of checksOf(sr)) {
+    total++;
+    if (!c.passed) failed++;
+    const result: Cell = c.passed ? text(c.applies === false ? "passed (not an identity here)" : "passed") : { ...text("FAILED"), flag: true };
+    rows.push([text(sr.name), text(String(c.run ?? "")), text(String(c.measure ?? "")), text(CHECK_LABELS[c.check] ?? c.check), result, text(roundNumbersIn(c.message))]);
+  }
+  if (rows.length === 0) return null;
+  return {
+    intro: `Identities the run data must satisfy, checked run by run: ${fmt(total - failed)} of ${fmt(total)} passed` +
+      (failed > 0 ? `, ${fmt(failed)} failed (each failed check is also listed among the warnings).` : ".") +
+      " Little's law is an exact identity only when the system is empty at both ends of the window; otherwise its two sides are shown for comparison.",
+    table: tableView("Consistency checks by scenario and run", ["Scenario", "Run", "Measure", "Check", "Result", "Details"], rows),
+  };
+}
+
+function batchValuesView(
+  measureNames: string[],
+  scenarios: StudyOutcome["results"]["scenarios"],
+  batchIds: Map<string, string>,
+): { intro: string; items: { id: string; table: TableView }[] } | null {
+  const items: { id: string; table: TableView }[] = [];
+  for (const name of measureNames) for (const sr of scenarios) {
+    const id = batchIds.get(key(sr.name, name));
+    if (id === undefined) continue;
+    const rows: Cell[][] = [];
+    for (const r of sr.runs) {
+      const b = r.measures[name]?.batch_means;
+      if (!isRecord(b)) continue;
+      const values = Array.isArray(b.batch_values) ? (b.batch_values as unknown[]).map(numOrNull) : [];
+      rows.push([text(r.id), text(fmt(numOrNull(b.batches))), text(fmt(numOrNull(b.lag1))), text(values.length > 0 ? values.map((v) => fmt(v)).join(", ") : MISSING)]);
+    }
+    items.push({ id, table: tableView(`${name} — ${sr.name}: each run's batch means in time order`, ["Run", "Batches", "Lag-1 correlation", "Batch means Z₁, Z₂, …"], rows) });
+  }
+  if (items.length === 0) return null;
+  return {
+    intro: "The batch means behind each batch-means interval, in time order. A trend or long runs of values above or below the mean are what a large lag-1 correlation measures.",
+    items,
   };
 }

@@ -32,6 +32,39 @@ describe("renderHtml", () => {
     expect(svgs.join("")).toContain("&lt;script&gt;alert(1)&lt;/script&gt;");
   });
 
+  it("renderHtml shows the warm-up section, consistency checks and batch values only when the results have them", async () => {
+    const full = bakery();
+    const html = await renderHtml(buildReportModel(full.study, full.outcome, META));
+    for (const id of ["warmup", "checks", "batch-values"]) expect(html).toContain(`id="${id}"`);
+    expect(html).toContain('href="#warmup"');
+    const plain = bakery({ plain: true });
+    for (const sr of plain.outcome.results.scenarios) delete sr.checks;
+    const bare = await renderHtml(buildReportModel(plain.study, plain.outcome, META));
+    for (const id of ["warmup", "checks", "batch-values"]) expect(bare).not.toContain(`id="${id}"`);
+    expect(bare).not.toContain(`class="table-explain"`);
+  });
+
+  it("renderHtml escapes names inside the new charts and tables (distribution, time at value, warm-up, checks)", async () => {
+    const { study, outcome } = bakery({ hostile: true });
+    const model = buildReportModel(study, outcome, META);
+    const html = await renderHtml(model);
+    const figure = (suffix: string) => {
+      const id = model.measures.flatMap((m) => m.charts).find((c) => c.id.endsWith(suffix))!.id;
+      const at = html.indexOf(`id="${id}"`);
+      return html.slice(at, html.indexOf("</figure>", at));
+    };
+    for (const part of [figure("-distribution"), figure("-time-at-value")]) {
+      // Scenario names are the legend or facet labels of these charts; vega escapes them in the SVG.
+      expect(part).toContain("&lt;script&gt;alert(1)&lt;/script&gt;");
+      for (const bad of HOSTILE) expect(part).not.toContain(bad);
+    }
+    const warm = html.slice(html.indexOf('id="warmup"'), html.indexOf("</section>", html.indexOf('id="warmup"')));
+    expect(warm).toContain("&lt;script&gt;alert(1)&lt;/script&gt;");
+    const checks = html.slice(html.indexOf('id="checks"'), html.indexOf('id="derivations"'));
+    expect(checks).toContain("&lt;img src");
+    for (const bad of HOSTILE) expect(checks).not.toContain(bad);
+  });
+
   it("renderHtml resolves every in-page link to exactly one element id", async () => {
     const { study, outcome } = bakery({ hostile: true });
     const html = await renderHtml(buildReportModel(study, outcome, META));

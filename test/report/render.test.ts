@@ -55,7 +55,8 @@ describe.skipIf(chrome === null)("report in a browser", () => {
     expect(requests).toEqual([url]);
     expect(errors).toEqual([]);
     // Every chart of the model is an <svg> of non-zero size in its figure (model.measures[].charts).
-    const ids = model.measures.flatMap((m) => m.charts.map((c) => c.id));
+    const ids = [...model.measures.flatMap((m) => m.charts.map((c) => c.id)), ...(model.warmup?.scenarios ?? []).flatMap((w) => (w.chart ? [w.chart.id] : []))];
+    expect(ids.some((id) => id.startsWith("warmup-"))).toBe(true);
     const sizes = (await page.evaluate(`(${JSON.stringify(ids)}).map((id) => {
       const svg = document.getElementById(id)?.querySelector("svg");
       if (!svg) return null;
@@ -68,6 +69,8 @@ describe.skipIf(chrome === null)("report in a browser", () => {
       expect(s![0]).toBeGreaterThan(0);
       expect(s![1]).toBeGreaterThan(0);
     }
+    // No horizontal scrollbar on the page: wide tables scroll inside their own container.
+    expect(await page.evaluate("document.documentElement.scrollWidth <= document.documentElement.clientWidth")).toBe(true);
     // No script element at all (brief: no script needed to read it).
     expect(await page.evaluate("document.scripts.length")).toBe(0);
     await page.screenshot({ path: join(ARTIFACTS, "report.png"), fullPage: true });
