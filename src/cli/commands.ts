@@ -1,5 +1,5 @@
-import { writeFileSync } from "node:fs";
-import { join, resolve } from "node:path";
+import { mkdirSync, renameSync, writeFileSync } from "node:fs";
+import { dirname, join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
 import { UserError } from "../messages/index.js";
@@ -20,10 +20,22 @@ export function exitStatus(): number {
 const say = (line: string) => process.stdout.write(line + "\n");
 const progressTo = (quiet: boolean | undefined) => (quiet ? undefined : (m: string) => process.stderr.write(`  ${m}\n`));
 
-export async function report(manifest: string, o: { out: string; pdf?: boolean; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean }): Promise<void> {
+export async function report(
+  manifest: string,
+  o: { out: string; pdf?: boolean; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
+): Promise<void> {
   const study = await loadStudy(manifest);
   const started = Date.now();
-  const r = await publishStudy(study, { out: o.out, force: o.force ?? false, pdf: o.pdf ?? false, paper: o.paper, chrome: o.chrome, onProgress: progressTo(o.quiet) });
+  const r = await publishStudy(study, {
+    out: o.out,
+    force: o.force ?? false,
+    pdf: o.pdf ?? false,
+    paper: o.paper,
+    chrome: o.chrome,
+    onProgress: progressTo(o.quiet),
+    workers: o.workers,
+    fromSummaries: o.fromSummaries,
+  });
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
 }
 
@@ -35,9 +47,9 @@ function summarize(dir: string, warnings: number, ms: number, pdfPages: number |
   if (warnings > 0) say(`  ${warnings} warning(s): see the report's warnings section`);
 }
 
-export async function check(manifest: string, o: { json?: boolean }): Promise<void> {
+export async function check(manifest: string, o: { json?: boolean; workers?: number }): Promise<void> {
   const study = await loadStudy(manifest);
-  const { outcome } = await runStudy(study);
+  const { outcome } = await runStudy(study, { workers: o.workers });
   const plan = studyPlan(study, outcome);
   if (o.json) say(JSON.stringify(plan, null, 2));
   else for (const line of planText(plan)) say(line);
@@ -64,6 +76,17 @@ export async function table(manifest: string, o: { scenario: string; run: string
   }
 }
 
+export async function summarizeRun(manifest: string, o: { scenario: string; run: string; out: string }): Promise<void> {
+  const study = await loadStudy(manifest);
+  const { summarizeRun: summarize } = await import("../study/runSummary.js");
+  const { text, analysis } = await summarize(study, o.scenario, o.run);
+  mkdirSync(dirname(resolve(o.out)), { recursive: true });
+  const temp = `${o.out}.sojourn-tmp-${process.pid}`;
+  writeFileSync(temp, text);
+  renameSync(temp, o.out);
+  say(`wrote ${o.out}: run ${o.run} of scenario ${o.scenario}, ${analysis.input.rows} rows, input sha256 ${analysis.input.sha256}`);
+}
+
 export async function verify(dir: string, o: { inputs?: string }): Promise<void> {
   const v = await verifyReport(dir, o);
   for (const l of v.lines) say(`${l.ok ? "ok      " : "FAILED  "}${l.item}: ${l.detail}`);
@@ -84,4 +107,27 @@ export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; qui
   const r = await publishStudy(study, { out: join(dir, "report"), force: true, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
   say(`Demo study written to ${resolve(dir)} (manifest ${manifest})`);
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
+}
+
+export async function init(runsDir: string, o: { out?: string; force?: boolean }): Promise<void> {
+  const { initStudy } = await import("../init/initStudy.js");
+  const { relative } = await import("node:path");
+  const r = await initStudy(runsDir, { out: o.out, force: o.force ?? false, onSkip: (s) => process.stderr.write(`  skipped ${s.display}: ${s.reason}\n`) });
+  const rel = relative(process.cwd(), r.manifest);
+  const shown = o.out ?? (rel.startsWith("..") ? r.manifest : rel);
+  const runs = r.scan.scenarios.reduce((n, s) => n + s.runs.length, 0);
+  say(`Read ${runs} run file(s) in ${r.scan.scenarios.length} scenario(s): ${r.scan.scenarios.map((s) => `${s.name} (${s.runs.length})`).join(", ")}`);
+  if (r.scan.skipped.length > 0) say(`Skipped ${r.scan.skipped.length} file(s); the reasons are above and at the top of the manifest.`);
+  say("Series found (rows read, what the rows carry, guessed kind):");
+  const width = Math.max(...r.scan.series.map((s) => s.name.length));
+  for (const s of r.scan.series) {
+    const carries = [s.valued > 0 ? "values" : "", s.withEntity > 0 ? "entities" : ""].filter((x) => x !== "").join("+") || "-";
+    say(`  ${s.name.padEnd(width)}  ${String(s.rows).padStart(9)}  ${carries.padEnd(15)} ${s.kind}`);
+  }
+  for (const p of r.scan.pairs) say(`  entity events "${p.start}" -> "${p.end}": a level and a duration between them`);
+  say(`Wrote ${shown}: a starter manifest. Every value in it is a guess with a comment. Check:`);
+  for (const c of r.checks) say(`  - ${c}`);
+  say("Then:");
+  say(`  sojourn check ${shown}`);
+  say(`  sojourn report ${shown} --out report`);
 }

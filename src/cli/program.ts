@@ -9,6 +9,11 @@ function number(value: string): number {
   return x;
 }
 
+function count(value: string): number {
+  if (!/^\s*\d+\s*$/.test(value) || Number(value) < 1) throw new InvalidArgumentError("expected a whole number of at least 1.");
+  return Number(value);
+}
+
 /** The command line: each command parses its flags and calls one library function. */
 export function program(): Command {
   const p = new Command("sojourn")
@@ -17,6 +22,13 @@ export function program(): Command {
     .option("--debug", "show a stack trace when something fails (any command)")
     .exitOverride()
     .showHelpAfterError("(run with --help for usage)");
+
+  p.command("init")
+    .description("scan a folder of run files and write a starter manifest, with a comment on every guess")
+    .argument("<runs_dir>", "the folder of run files: one subfolder per scenario, or the files of one scenario")
+    .option("--out <manifest>", "the manifest to write (default: study.yaml beside the runs folder)")
+    .option("--force", "replace the manifest if it exists")
+    .action(commands.init);
 
   p.command("report")
     .description("compute every statistic of a study and write results.json, calculation tables, report.html (and report.pdf)")
@@ -27,13 +39,24 @@ export function program(): Command {
     .option("--chrome <path>", "the Chromium or Chrome executable for the PDF (else $SOJOURN_CHROME, then usual places)")
     .option("--force", "replace --out even if it is not an earlier Sojourn report")
     .option("--quiet", "print no progress")
+    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; 1: no worker)", count)
+    .option("--from-summaries <folder>", "take each run from <folder>/<scenario>/<run>.json (written by summarize-run) instead of its run file")
     .action(commands.report);
 
   p.command("check")
     .description("validate the manifest and read every run file without writing anything; print the plan")
     .argument("<manifest>", "the study manifest")
     .option("--json", "print the plan as JSON for scripts")
+    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; 1: no worker)", count)
     .action(commands.check);
+
+  p.command("summarize-run")
+    .description("analyse one run and write its results, tables and input digest to a summary file, for a report built elsewhere (report --from-summaries)")
+    .argument("<manifest>", "the study manifest")
+    .requiredOption("--scenario <name>", "scenario name")
+    .requiredOption("--run <id>", "run id (file name without extensions)")
+    .requiredOption("--out <file>", "the summary file to write (by convention <folder>/<scenario>/<run>.json)")
+    .action(commands.summarizeRun);
 
   p.command("at")
     .description("time average of a level (or utilization) measure of one run from the window start up to a time, with its arithmetic")

@@ -17,6 +17,10 @@ export interface PublishOptions {
   /** The report's date (ISO); default now, or SOURCE_DATE_EPOCH when set. */
   generatedAt?: string;
   onProgress?: (message: string) => void;
+  /** Worker threads for the runs (see `RunStudyOptions.workers`). */
+  workers?: number;
+  /** Take the runs from per-run summaries in this folder (see `RunStudyOptions.fromSummaries`). */
+  fromSummaries?: string;
 }
 
 export interface Published {
@@ -48,7 +52,7 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
   const progress = options.onProgress ?? (() => {});
   const staged = new StagedDir(options.out, options.force);
   try {
-    const { outcome, tableFiles } = await runStudy(study, { onProgress: progress });
+    const { outcome, tableFiles } = await runStudy(study, { onProgress: progress, workers: options.workers, fromSummaries: options.fromSummaries });
     const outputs: StudyRecord["outputs"] = [];
     const put = (file: string, data: string) => {
       staged.write(file, data);

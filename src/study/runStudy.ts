@@ -1,13 +1,17 @@
+import { readFileSync } from "node:fs";
 import { batchMeansInterval, observationBatches } from "../stats/batchMeans.js";
 import type { Study } from "../manifest/types.js";
 import type { MeasureOutput } from "../measures/accumulator.js";
-import { analyzeRun, type RunAnalysis } from "./analyzeRun.js";
+import type { RunAnalysis, RunPlan } from "./analyzeRun.js";
 import { compareScenarios } from "./compare.js";
 import { consistencyChecks } from "./consistency.js";
 import type { LevelTrace, ObservationSample, Results, ScenarioResult, StudyOutcome, Warning } from "./outcome.js";
 import { summarizeMeasure } from "./summaries.js";
 import { intervalTable, intervalTablePath, runTablePath, type TableFile, tableFile } from "./tables.js";
 import { resolveWarmup } from "./warmup.js";
+import { runAnalyzer, workerCount } from "./pool.js";
+import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
+import * as summaryMessages from "../messages/summary.js";
 
 export interface StudyRun {
   outcome: StudyOutcome;
@@ -17,6 +21,16 @@ export interface StudyRun {
 
 export interface RunStudyOptions {
   onProgress?: (message: string) => void;
+  /**
+   * Worker threads for the runs (default: `SOJOURN_WORKERS`, else the available cores, at most
+   * the number of runs); 1 analyses every run in this thread. The results do not depend on it.
+   */
+  workers?: number;
+  /**
+   * Take each run's analysis from `<folder>/<scenario>/<run>.json` (written by
+   * `sojourn summarize-run`) instead of reading its run file (docs/distributed.md).
+   */
+  fromSummaries?: string;
 }
 
 /** Largest number of observation values kept per scenario and measure for the histogram. */
@@ -26,7 +40,8 @@ const SAMPLE_LIMIT = 20_000;
  * Runs a whole study:
  *
  *   Study ─┬─ per scenario ─┬─ warm-up (fixed, or MSER-5 from a first pass)
- *          │                ├─ per run: analyzeRun (one pass over the file, every measure)
+ *          │                ├─ per run: analyzeRun (one pass over the file, every measure),
+ *          │                │  runs of all scenarios shared among worker threads (pool.ts)
  *          │                ├─ batch means inside each run (when asked)
  *          │                └─ per measure: across-run summaries with their interval arithmetic
  *          ├─ comparisons between scenarios (Bonferroni over all of them)
@@ -57,25 +72,38 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
   const totalRuns = study.scenarios.reduce((s, sc) => s + sc.runs.length, 0);
   let done = 0;
 
+  let analyze = runAnalyzer(workerCount(totalRuns, options.workers));
+  if (options.fromSummaries !== undefined) {
+    const mser = study.scenarios.find((sc) => sc.warmup.type === "mser-5");
+    if (mser !== undefined) throw summaryMessages.summaryNeedsFixedWarmup(mser.name);
+    analyze = summariesAnalyzer(options.fromSummaries, readIfThere);
+  }
+
+  // Runs of consecutive scenarios go to the workers in one batch, so the workers stay busy
+  // across scenario boundaries. An MSER-5 warm-up reads its scenario's runs first: the batch
+  // before it is analysed first, so an input error is reported in the same order as one by one.
+  const warmups = [];
+  const all: RunAnalysis[] = [];
+  let pending: RunPlan[] = [];
+  const flush = async () => {
+    all.push(...(await analyze(pending, (i, a) => progress(`read run ${++done}/${totalRuns}: ${pending[i].scenario.name} / ${pending[i].run.id} (${a.input.rows} rows)`))));
+    pending = [];
+  };
   for (const scenario of study.scenarios) {
-    const warmup = await resolveWarmup(study, scenario);
+    if (scenario.warmup.type === "mser-5" && pending.length > 0) await flush();
+    const warmup = await resolveWarmup(study, scenario, analyze);
+    warmups.push(warmup);
+    pending.push(...scenarioPlans(study, scenario, warmup.time));
+  }
+  if (pending.length > 0) await flush();
+
+  let first = 0;
+  for (const [s, scenario] of study.scenarios.entries()) {
+    const warmup = warmups[s];
     for (const message of warmup.warnings) outcome.warnings.push({ scenario: scenario.name, run: null, measure: null, message });
     const batches = scenario.analysis.type === "batch-means" ? scenario.analysis.batches : null;
-    const analyses: RunAnalysis[] = [];
-    for (const [i, run] of scenario.runs.entries()) {
-      const a = await analyzeRun({
-        scenario,
-        run,
-        warmup: warmup.time,
-        measures: scenario.measures,
-        tables: study.tables,
-        trace: i === 0,
-        batches,
-        slice: null,
-      });
-      analyses.push(a);
-      progress(`read run ${++done}/${totalRuns}: ${scenario.name} / ${run.id} (${a.input.rows} rows)`);
-    }
+    const analyses = all.slice(first, first + scenario.runs.length);
+    first += scenario.runs.length;
 
     const sc: ScenarioResult = { name: scenario.name, runs: analyses.map((a) => a.result), summary: {} };
     if (scenario.warmup.type !== "none") sc.warmup = warmup.time;
@@ -114,6 +142,15 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
   if (comparisons.length > 0) outcome.results.comparisons = comparisons;
   outcome.tables = tableFiles.map((f) => f.record);
   return { outcome, tableFiles };
+}
+
+function readIfThere(path: string): string | null {
+  try {
+    return readFileSync(path, "utf8");
+  } catch (e) {
+    if ((e as { code?: unknown }).code === "ENOENT") return null;
+    throw e;
+  }
 }
 
 function warmupAsWritten(w: Study["warmup"]): Results["warmup"] {

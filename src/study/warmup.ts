@@ -1,7 +1,8 @@
 import { mser } from "../stats/mser5.js";
 import { fsum } from "../stats/fsum.js";
 import type { Scenario, Study } from "../manifest/types.js";
-import { analyzeRun } from "./analyzeRun.js";
+import type { AnalyzeRuns } from "./pool.js";
+import { inProcess } from "./pool.js";
 
 /** The warm-up of a scenario once resolved, with the estimate behind it when one was made. */
 export interface ResolvedWarmup {
@@ -19,27 +20,23 @@ export interface ResolvedWarmup {
  * MSER-5 on that sequence; warm-up = start + 5·d·s. Observation measure: MSER-5 on each run's
  * observations in time order; warm-up = the latest time of a first kept observation.
  */
-export async function resolveWarmup(study: Study, scenario: Scenario): Promise<ResolvedWarmup> {
+export async function resolveWarmup(study: Study, scenario: Scenario, analyze: AnalyzeRuns = inProcess): Promise<ResolvedWarmup> {
   const w = scenario.warmup;
   if (w.type === "none") return { time: null, estimate: null, warnings: [] };
   if (w.type === "fixed") return { time: w.time, estimate: null, warnings: [] };
   const measure = scenario.measures.find((m) => m.name === w.measure)!;
   const isLevel = measure.kind === "level" || measure.kind === "utilization";
-  const perRun = [];
-  for (const run of scenario.runs) {
-    perRun.push(
-      await analyzeRun({
-        scenario,
-        run,
-        warmup: null,
-        measures: [measure],
-        tables: { maxRows: 1, edgeRows: 0 },
-        trace: false,
-        batches: null,
-        slice: isLevel ? w.slice : null,
-      }).then((a) => ({ run, out: a.outputs.get(measure.name)! })),
-    );
-  }
+  const plans = scenario.runs.map((run) => ({
+    scenario,
+    run,
+    warmup: null,
+    measures: [measure],
+    tables: { maxRows: 1, edgeRows: 0 },
+    trace: false,
+    batches: null,
+    slice: isLevel ? w.slice : null,
+  }));
+  const perRun = (await analyze(plans)).map((a, i) => ({ run: scenario.runs[i], out: a.outputs.get(measure.name)! }));
   const warnings: string[] = [];
   const start = Math.min(...scenario.runs.map((r) => r.start));
   if (isLevel) {

@@ -1,0 +1,210 @@
+// The scale benchmark (docs/performance.md): `npm run bench` builds, then runs this.
+//
+//   1. one run of about 10 million rows, three measures, default settings: `sojourn report`
+//      against a one-pass awk program computing the same three numbers, side by side;
+//   2. peak memory (RSS) of that report at two file lengths;
+//   3. the same run gzip-compressed;
+//   4. 16 runs of about 600 000 rows with 1 and 2 worker threads (results compared byte for byte);
+//   5. the ferry demo (16 runs x 6 measures): HTML, and HTML + PDF when Chromium is there.
+//
+// Data is invented by the demo's seeded queue simulation and written once to $SOJOURN_BENCH_DIR
+// (default /tmp/sojourn-bench), never into the repository. REPEAT=n repeats each timing (default 3;
+// the fastest is reported, the machine may be shared). QUICK=1 uses files a tenth as long.
+/* global console, URL */
+import { execFileSync, spawnSync } from "node:child_process";
+import { createReadStream, createWriteStream, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { availableParallelism, cpus } from "node:os";
+import { join, resolve } from "node:path";
+import process from "node:process";
+import { pipeline } from "node:stream/promises";
+import { createGzip } from "node:zlib";
+import { fileURLToPath } from "node:url";
+
+const root = resolve(fileURLToPath(new URL("..", import.meta.url)));
+const cli = join(root, "dist/cli/main.js");
+const { simulateQueue } = await import(join(root, "dist/demo/queue.js"));
+const { writeRunCsv } = await import(join(root, "dist/demo/ferry.js"));
+
+const dir = process.env.SOJOURN_BENCH_DIR ?? "/tmp/sojourn-bench";
+const REPEAT = Number(process.env.REPEAT ?? 3);
+const scale = process.env.QUICK ? 0.1 : 1;
+mkdirSync(dir, { recursive: true });
+const env = { ...process.env, SOURCE_DATE_EPOCH: "1780000000" };
+delete env.SOJOURN_WORKERS;
+const lines = [];
+const out = (line = "") => {
+  console.log(line);
+  lines.push(line);
+};
+
+/** About 4.5 rows per time unit at 0.9 arrivals per minute, 2 servers (utilization 0.9). */
+const model = (horizon, seed) => ({ arrivalRate: 0.9, serviceRate: 0.5, servers: 2, horizon, seed, decimals: 4 });
+
+async function runFile(path, horizon, seed) {
+  if (existsSync(path)) return;
+  const tmp = `${path}.tmp`;
+  await writeRunCsv(tmp, simulateQueue(model(horizon, seed)));
+  execFileSync("mv", [tmp, path]);
+}
+
+function manifest(name, runs, end) {
+  const path = join(dir, name);
+  writeFileSync(
+    path,
+    [
+      "version: 1",
+      `title: Scale benchmark ${name}`,
+      "time_unit: min",
+      "scenarios:",
+      "  - name: long",
+      `    end: ${end}`,
+      `    runs: [${runs.join(", ")}]`,
+      "measures:",
+      "  - {name: queue_len, kind: level, series: queue}",
+      "  - {name: wait, kind: observation, series: wait}",
+      "  - {name: departures, kind: count, series: depart}",
+      "",
+    ].join("\n"),
+  );
+  return path;
+}
+
+/** Wall seconds of a command (fastest of REPEAT), its CPU seconds (user + system) then, and its output. */
+function timed(cmd, args, repeat = REPEAT) {
+  let best = Infinity;
+  let cpu = NaN;
+  let last = null;
+  const withTime = existsSync("/usr/bin/time");
+  for (let i = 0; i < repeat; i++) {
+    const t0 = process.hrtime.bigint();
+    last = withTime ? spawnSync("/usr/bin/time", ["-f", "CPU %U %S", cmd, ...args], { env, encoding: "utf8", maxBuffer: 1 << 26 }) : spawnSync(cmd, args, { env, encoding: "utf8", maxBuffer: 1 << 26 });
+    const s = Number(process.hrtime.bigint() - t0) / 1e9;
+    if (last.status !== 0) throw new Error(`${cmd} ${args.join(" ")} failed:\n${last.stderr}`);
+    if (s < best) {
+      best = s;
+      const m = /CPU ([\d.]+) ([\d.]+)\s*$/.exec(last.stderr);
+      cpu = m ? Number(m[1]) + Number(m[2]) : NaN;
+    }
+  }
+  return { seconds: best, cpu, stdout: last.stdout };
+}
+
+/** Peak RSS in MB of a command: /usr/bin/time -v when present, else the child's own figure. */
+function peakRss(args) {
+  if (existsSync("/usr/bin/time")) {
+    const r = spawnSync("/usr/bin/time", ["-v", process.execPath, ...args], { env, encoding: "utf8" });
+    const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(r.stderr);
+    if (r.status === 0 && m) return Number(m[1]) / 1024;
+  }
+  const code = `process.argv = [process.argv[0], ${JSON.stringify(cli)}, ...process.argv.slice(1)];
+process.on("exit", () => process.stderr.write("RSS " + process.resourceUsage().maxRSS + "\\n"));
+await import(${JSON.stringify(cli)});`;
+  const r = spawnSync(process.execPath, ["--input-type=module", "-e", code, ...args.slice(1)], { env, encoding: "utf8" });
+  const m = /RSS (\d+)/.exec(r.stderr);
+  return m ? Number(m[1]) / 1024 : NaN;
+}
+
+const report = (m, outDir, extra = []) => [cli, "report", m, "--out", outDir, "--force", "--quiet", ...extra];
+const mb = (p) => statSync(p).size / 1e6;
+const f2 = (x) => x.toFixed(2);
+
+out(`# Sojourn benchmark, ${new Date().toISOString().slice(0, 10)}`);
+out();
+out(`Machine: ${cpus()[0]?.model ?? "?"}, ${availableParallelism()} cores available, Node ${process.version}; fastest of ${REPEAT} tries; the machine may be shared with other jobs.`);
+out();
+
+// --- 1. one long run -------------------------------------------------------------------------
+const H10 = Math.round(2_220_000 * scale);
+const H5 = Math.round(H10 / 2);
+const big10 = join(dir, `long-${H10}.csv`);
+const big5 = join(dir, `long-${H5}.csv`);
+console.error("generating data (once) ...");
+await runFile(big10, H10, 7);
+await runFile(big5, H5, 7);
+if (!existsSync(`${big10}.gz`)) await pipeline(createReadStream(big10), createGzip(), createWriteStream(`${big10}.gz`));
+const m10 = manifest("long10.yaml", [big10], H10);
+const m5 = manifest("long5.yaml", [big5], H5);
+const mgz = manifest("long10gz.yaml", [`${big10}.gz`], H10);
+const rows10 = Number(execFileSync("wc", ["-l", big10], { encoding: "utf8" }).split(" ")[0]) - 1;
+
+const AWK = `BEGIN { FS = ","; pt = 0; pv = 0 }
+NR == 1 { next }
+$1 + 0 > END_T { next }
+$2 == "queue" { area += pv * ($1 - pt); pt = $1 + 0; pv = $3 + 0; next }
+$2 == "wait" { s += $3; n++; next }
+$2 == "depart" { c++ }
+END { area += pv * (END_T - pt); printf "%.17g %.17g %d\\n", area / END_T, s / n, c }`;
+writeFileSync(join(dir, "three.awk"), AWK + "\n");
+const awk = timed("awk", ["-v", `END_T=${H10}`, "-f", join(dir, "three.awk"), big10]);
+const sj = timed(process.execPath, report(m10, join(dir, "out10")));
+const r10 = JSON.parse(readFileSync(join(dir, "out10/results.json"), "utf8")).scenarios[0].runs[0].measures;
+out(`## One run: ${rows10.toLocaleString("en")} rows, ${f2(mb(big10))} MB of CSV, 3 measures`);
+out();
+out("| program | wall time (s) | CPU time (s) | level time average | observation mean | count |");
+out("|---|---|---|---|---|---|");
+const [aL, aO, aC] = awk.stdout.trim().split(" ");
+out(`| awk (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
+out(`| sojourn report (results, tables, HTML) | ${f2(sj.seconds)} | ${f2(sj.cpu)} | ${r10.queue_len.value} | ${r10.wait.value} | ${r10.departures.value} |`);
+out();
+out(`Ratio sojourn / awk: ${f2(sj.seconds / awk.seconds)} (target at most 1, stretch 0.5).`);
+out();
+
+// --- 2. memory at two lengths --------------------------------------------------------------
+const rss5 = peakRss(report(m5, join(dir, "out5")));
+const rss10 = peakRss(report(m10, join(dir, "out10")));
+out("## Peak memory (RSS) of `sojourn report`");
+out();
+out("| file | rows | MB | peak RSS (MB) |");
+out("|---|---|---|---|");
+out(`| ${big5.split("/").pop()} | ${(Number(execFileSync("wc", ["-l", big5], { encoding: "utf8" }).split(" ")[0]) - 1).toLocaleString("en")} | ${f2(mb(big5))} | ${rss5.toFixed(0)} |`);
+out(`| ${big10.split("/").pop()} | ${rows10.toLocaleString("en")} | ${f2(mb(big10))} | ${rss10.toFixed(0)} |`);
+out();
+
+// --- 3. gzip -----------------------------------------------------------------------------
+const gz = timed(process.execPath, report(mgz, join(dir, "outgz")));
+out("## gzip input");
+out();
+out(`${f2(mb(`${big10}.gz`))} MB gzip: ${f2(gz.seconds)} s against ${f2(sj.seconds)} s for the plain CSV: ratio ${f2(gz.seconds / sj.seconds)} (target at most 1.5).`);
+out();
+
+// --- 4. many runs on worker threads -------------------------------------------------------
+const HM = Math.round(133_000 * scale);
+const many = [];
+for (let k = 1; k <= 16; k++) {
+  const p = join(dir, `rep-${HM}-${String(k).padStart(2, "0")}.csv`);
+  await runFile(p, HM, 100 + k);
+  many.push(p);
+}
+const mm = manifest("many.yaml", many, HM);
+const manyRows = many.reduce((n, p) => n + statSync(p).size, 0);
+const w1 = timed(process.execPath, report(mm, join(dir, "many1"), ["--workers", "1"]));
+const w2 = timed(process.execPath, report(mm, join(dir, "many2"), ["--workers", "2"]));
+const same = spawnSync("diff", ["-r", "-x", "record.json", join(dir, "many1"), join(dir, "many2")]).status === 0;
+out(`## 16 runs (${f2(manyRows / 1e6)} MB in all), worker threads`);
+out();
+out("| workers | wall time (s) | CPU time (s) |");
+out("|---|---|---|");
+out(`| 1 (in process) | ${f2(w1.seconds)} | ${f2(w1.cpu)} |`);
+out(`| 2 | ${f2(w2.seconds)} | ${f2(w2.cpu)} |`);
+out();
+out(`Speed-up ${f2(w1.seconds / w2.seconds)} (target at least 1.7); results.json, tables and report.html identical: ${same ? "yes" : "NO"}.`);
+out();
+
+// --- 5. the ferry demo's report ------------------------------------------------------------
+const demoDir = join(dir, "ferry");
+if (!existsSync(join(demoDir, "ferry-study.yaml"))) execFileSync(process.execPath, [cli, "demo", demoDir, "--quiet"], { env });
+const ferry = join(demoDir, "ferry-study.yaml");
+const html = timed(process.execPath, report(ferry, join(dir, "ferry-html")));
+out("## Ferry demo (16 runs x 6 measures)");
+out();
+out(`HTML: ${f2(html.seconds)} s (target under 3 s).`);
+const chromium = ["/usr/bin/chromium", "/usr/bin/chromium-browser"].find((p) => existsSync(p));
+if (chromium !== undefined) {
+  const pdf = timed(process.execPath, report(ferry, join(dir, "ferry-pdf"), ["--pdf", "--chrome", chromium]));
+  out(`HTML + PDF: ${f2(pdf.seconds)} s (target under 15 s).`);
+} else out("HTML + PDF: skipped, no Chromium at /usr/bin/chromium.");
+out();
+
+writeFileSync(join(dir, "results.md"), lines.join("\n") + "\n");
+console.error(`figures also written to ${join(dir, "results.md")}`);
+for (const d of readdirSync(dir)) if (d.endsWith(".tmp")) rmSync(join(dir, d));

@@ -1,0 +1,118 @@
+/**
+ * Runs of a study analysed on worker threads, results in a fixed order.
+ *
+ *   plans[0..n) ──▶ queue ──▶ worker 1 ─┐
+ *                        └──▶ worker 2 ─┴─▶ results[i] = analysis of plans[i]
+ *
+ * Each run is one job (`analyzeRun` in `runWorker.js`); results are stored at their plan's index,
+ * so whatever the number of workers or the order in which they finish, the caller sees the same
+ * array and the study's bytes do not change. With one worker, or when the worker entry is not a
+ * built `.js` file next to this module (under a TypeScript test runner), runs are analysed in
+ * this thread, one after another.
+ *
+ * An input error in a worker comes back as the same `UserError` (message and exit status); the
+ * pool then stops handing out runs and rejects with the error of the earliest failed run, so the
+ * message is the one the in-process path would give.
+ */
+import { availableParallelism } from "node:os";
+import { existsSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { Worker } from "node:worker_threads";
+import { UserError } from "../messages/error.js";
+import { analyzeRun, type RunAnalysis, type RunPlan } from "./analyzeRun.js";
+
+/** Analyses plans and gives their results in plan order; `onDone` hears of each run as it ends. */
+export type AnalyzeRuns = (plans: RunPlan[], onDone?: (index: number, a: RunAnalysis) => void) => Promise<RunAnalysis[]>;
+
+/** What a worker sends back for one job. */
+export type WorkerReply =
+  | { ok: true; analysis: RunAnalysis }
+  | { ok: false; user: boolean; message: string; exitCode: 1 | 2; stack?: string };
+
+const WORKER_FILE = new URL("./runWorker.js", import.meta.url);
+
+/** Whether worker threads can be used: the built worker entry exists next to this module. */
+export function workersAvailable(): boolean {
+  return import.meta.url.endsWith(".js") && existsSync(fileURLToPath(WORKER_FILE));
+}
+
+/**
+ * The number of workers to use: `requested` (the `--workers` flag), else `SOJOURN_WORKERS`, else
+ * the machine's available cores; never more than the runs to analyse, never less than 1.
+ */
+export function workerCount(runs: number, requested?: number): number {
+  let n = requested;
+  if (n === undefined) {
+    const env = process.env.SOJOURN_WORKERS;
+    if (env !== undefined && /^\d+$/.test(env.trim())) n = Number(env);
+  }
+  if (n === undefined || !(n >= 1)) n = availableParallelism();
+  return Math.max(1, Math.min(Math.floor(n), runs));
+}
+
+/** Analyses the plans one after another in this thread. */
+export const inProcess: AnalyzeRuns = async (plans, onDone) => {
+  const out: RunAnalysis[] = [];
+  for (const [i, plan] of plans.entries()) {
+    const a = await analyzeRun(plan);
+    out.push(a);
+    onDone?.(i, a);
+  }
+  return out;
+};
+
+/** The analysis function for up to `workers` threads (in process when 1 or when unavailable). */
+export function runAnalyzer(workers: number): AnalyzeRuns {
+  if (workers <= 1 || !workersAvailable()) return inProcess;
+  return (plans, onDone) => (plans.length <= 1 ? inProcess(plans, onDone) : onWorkers(plans, Math.min(workers, plans.length), onDone));
+}
+
+async function onWorkers(plans: RunPlan[], workers: number, onDone?: (index: number, a: RunAnalysis) => void): Promise<RunAnalysis[]> {
+  const results: RunAnalysis[] = new Array(plans.length);
+  const failures: { index: number; error: Error }[] = [];
+  let next = 0;
+  const threads: Worker[] = [];
+
+  const serve = (worker: Worker): Promise<void> =>
+    new Promise((resolve, reject) => {
+      let current = -1;
+      const give = () => {
+        if (failures.length > 0 || next >= plans.length) {
+          resolve();
+          return;
+        }
+        current = next++;
+        worker.postMessage(plans[current]);
+      };
+      worker.on("message", (reply: WorkerReply) => {
+        if (reply.ok) {
+          results[current] = reply.analysis;
+          onDone?.(current, reply.analysis);
+        } else {
+          const e = reply.user ? new UserError(reply.message, reply.exitCode) : new Error(reply.message);
+          if (!reply.user && reply.stack !== undefined) e.stack = reply.stack;
+          failures.push({ index: current, error: e });
+        }
+        give();
+      });
+      worker.on("error", reject);
+      worker.on("exit", (code) => {
+        if (current >= 0 && results[current] === undefined && failures.every((f) => f.index !== current)) {
+          reject(new Error(`a worker thread stopped (exit code ${code}) while analysing run ${plans[current].run.file}`));
+        }
+      });
+      give();
+    });
+
+  try {
+    for (let w = 0; w < workers; w++) threads.push(new Worker(WORKER_FILE));
+    await Promise.all(threads.map(serve));
+  } finally {
+    await Promise.all(threads.map((t) => t.terminate()));
+  }
+  if (failures.length > 0) {
+    failures.sort((a, b) => a.index - b.index);
+    throw failures[0].error;
+  }
+  return results;
+}

@@ -1,0 +1,175 @@
+/**
+ * One run's analysis as a small file, so that a study can be analysed where its runs are and
+ * reported elsewhere (docs/distributed.md):
+ *
+ *   run file ──analyzeRun──▶ RunAnalysis ──encodeSummary──▶ <scenario>/<run>.json
+ *   <scenario>/<run>.json ──decodeSummary (digests checked)──▶ RunAnalysis ──▶ runStudy as usual
+ *
+ * The file holds everything `runStudy` takes from a run: the run's results, its input record
+ * (with the SHA-256 of the run file), the calculation tables, the chart trace, and the observation
+ * values (for the histogram sample, batch means and quantiles), these as base64 of little-endian
+ * doubles so that every bit survives. It also holds a digest of the plan it was made with (the
+ * scenario's measures, window, warm-up, columns and table limits) and a digest of itself.
+ */
+import { createHash } from "node:crypto";
+import type { Study } from "../manifest/types.js";
+import * as msg from "../messages/summary.js";
+import * as studyMessages from "../messages/study.js";
+import { analyzeRun, type RunAnalysis, type RunPlan } from "./analyzeRun.js";
+import { resolveWarmup } from "./warmup.js";
+import type { AnalyzeRuns } from "./pool.js";
+import { safeName } from "./tables.js";
+
+export const SUMMARY_FORMAT = "sojourn-run-summary/1";
+
+interface SummaryFile {
+  format: string;
+  scenario: string;
+  run: string;
+  file: string;
+  input_sha256: string;
+  plan_sha256: string;
+  analysis: unknown;
+  digest?: string;
+}
+
+function sha256(text: string): string {
+  return createHash("sha256").update(text).digest("hex");
+}
+
+/** `<scenario>/<run>.json` inside a summaries folder (names made safe as for the tables). */
+export function summaryPath(scenario: string, run: string): string {
+  return `${safeName(scenario)}/${safeName(run)}.json`;
+}
+
+/** The plans of one scenario's runs as `runStudy` makes them. */
+export function scenarioPlans(study: Study, scenario: Study["scenarios"][number], warmup: number | null): RunPlan[] {
+  const batches = scenario.analysis.type === "batch-means" ? scenario.analysis.batches : null;
+  return scenario.runs.map((run, i) => ({ scenario, run, warmup, measures: scenario.measures, tables: study.tables, trace: i === 0, batches, slice: null }));
+}
+
+/**
+ * A digest of what a plan computes: everything but the run file's absolute path (a summary made
+ * on another machine, with the data in another folder, still matches).
+ */
+export function planDigest(plan: RunPlan): string {
+  const { scenario, run } = plan;
+  const what = {
+    scenario: { name: scenario.name, measures: scenario.measures, warmup: scenario.warmup, analysis: scenario.analysis, columns: scenario.columns },
+    run: { id: run.id, file: run.file, start: run.start, end: run.end },
+    warmup: plan.warmup,
+    measures: plan.measures,
+    tables: plan.tables,
+    trace: plan.trace,
+    batches: plan.batches,
+    slice: plan.slice,
+  };
+  return sha256(JSON.stringify(what));
+}
+
+function replacer(_key: string, value: unknown): unknown {
+  if (value instanceof Float64Array) {
+    const bytes = Buffer.from(value.buffer, value.byteOffset, value.byteLength);
+    return { $f64: (isLittleEndian ? bytes : swapped(bytes)).toString("base64") };
+  }
+  if (value instanceof Map) return { $map: [...value.entries()] };
+  return value;
+}
+
+function reviver(_key: string, value: unknown): unknown {
+  if (value !== null && typeof value === "object" && !Array.isArray(value)) {
+    const o = value as Record<string, unknown>;
+    if (typeof o.$f64 === "string") {
+      const bytes = Buffer.from(o.$f64, "base64");
+      const own = new Uint8Array(isLittleEndian ? bytes : swapped(bytes));
+      return new Float64Array(own.buffer, 0, own.length / 8);
+    }
+    if (Array.isArray(o.$map)) return new Map(o.$map as [unknown, unknown][]);
+  }
+  return value;
+}
+
+const isLittleEndian = new Uint8Array(new Float64Array([1]).buffer)[7] === 0x3f;
+
+function swapped(bytes: Buffer): Buffer {
+  const copy = Buffer.from(bytes);
+  copy.swap64();
+  return copy;
+}
+
+/** The summary file's text for one analysed run. */
+export function encodeSummary(plan: RunPlan, a: RunAnalysis): string {
+  const body: SummaryFile = {
+    format: SUMMARY_FORMAT,
+    scenario: plan.scenario.name,
+    run: plan.run.id,
+    file: plan.run.file,
+    input_sha256: a.input.sha256,
+    plan_sha256: planDigest(plan),
+    analysis: a,
+  };
+  const text = JSON.stringify(body, replacer);
+  body.digest = sha256(text);
+  return JSON.stringify(body, replacer) + "\n";
+}
+
+/**
+ * The analysis of a summary file, after checking its own digest, that it is of the run the plan
+ * names (scenario, id, file) and that it was made with the same plan. `display` names the file
+ * in messages.
+ */
+export function decodeSummary(text: string, plan: RunPlan, display: string): RunAnalysis {
+  let parsed: SummaryFile;
+  try {
+    parsed = JSON.parse(text, reviver) as SummaryFile;
+  } catch (e) {
+    throw msg.summaryUnreadable(display, `not JSON: ${(e as Error).message}`);
+  }
+  if (parsed === null || typeof parsed !== "object" || parsed.format !== SUMMARY_FORMAT) {
+    throw msg.summaryUnreadable(display, `"format" is not "${SUMMARY_FORMAT}"`);
+  }
+  const { digest, ...rest } = parsed;
+  if (typeof digest !== "string" || sha256(JSON.stringify(rest, replacer)) !== digest) throw msg.summaryTampered(display);
+  const expect: [string, string, string][] = [
+    ["scenario", parsed.scenario, plan.scenario.name],
+    ["run id", parsed.run, plan.run.id],
+    ["run file", parsed.file, plan.run.file],
+  ];
+  for (const [what, found, expected] of expect) if (found !== expected) throw msg.summaryOtherRun(display, what, JSON.stringify(found), JSON.stringify(expected));
+  if (parsed.plan_sha256 !== planDigest(plan)) throw msg.summaryOtherSettings(display, plan.scenario.name, plan.run.id);
+  const a = parsed.analysis as RunAnalysis;
+  if (a.input.sha256 !== parsed.input_sha256 || a.result.sha256 !== parsed.input_sha256) throw msg.summaryTampered(display);
+  return a;
+}
+
+/**
+ * An `AnalyzeRuns` that reads each run's summary from `folder` (`<scenario>/<run>.json`) instead
+ * of the run file. `read` gives a file's text, or null when there is none.
+ */
+export function summariesAnalyzer(folder: string, read: (path: string) => string | null): AnalyzeRuns {
+  return async (plans, onDone) =>
+    plans.map((plan, i) => {
+      const path = `${folder.replace(/[\\/]+$/, "")}/${summaryPath(plan.scenario.name, plan.run.id)}`;
+      const text = read(path);
+      if (text === null) throw msg.summaryMissing(path, plan.scenario.name, plan.run.id);
+      const a = decodeSummary(text, plan, path);
+      onDone?.(i, a);
+      return a;
+    });
+}
+
+/**
+ * Analyses one run of a study exactly as `runStudy` would (same plan) and returns its summary
+ * file's text. A scenario with an MSER-5 warm-up is refused: its warm-up needs all its runs.
+ */
+export async function summarizeRun(study: Study, scenarioName: string, runId: string): Promise<{ text: string; analysis: RunAnalysis }> {
+  const scenario = study.scenarios.find((s) => s.name === scenarioName);
+  if (scenario === undefined) throw studyMessages.unknownName("scenario", scenarioName, study.scenarios.map((s) => s.name));
+  const index = scenario.runs.findIndex((r) => r.id === runId);
+  if (index < 0) throw studyMessages.unknownName(`run in scenario "${scenarioName}"`, runId, scenario.runs.map((r) => r.id));
+  if (scenario.warmup.type === "mser-5") throw msg.summaryNeedsFixedWarmup(scenario.name);
+  const warmup = await resolveWarmup(study, scenario);
+  const plan = scenarioPlans(study, scenario, warmup.time)[index];
+  const analysis = await analyzeRun(plan);
+  return { text: encodeSummary(plan, analysis), analysis };
+}

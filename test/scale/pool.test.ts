@@ -1,0 +1,169 @@
+import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
+import { join, relative } from "node:path";
+import { beforeAll, describe, expect, it } from "vitest";
+import { writeRunCsv } from "../../src/demo/ferry.js";
+import { simulateQueue } from "../../src/demo/queue.js";
+import * as summaryMessages from "../../src/messages/summary.js";
+import { workerCount, workersAvailable } from "../../src/study/pool.js";
+import { sojourn } from "../helpers/cli.js";
+import { tempFolder } from "../helpers/tempStudy.js";
+
+/** Every file under `dir` (relative path -> bytes), record.json left out (it names the run's Node and paths). */
+function folderBytes(dir: string): Map<string, Buffer> {
+  const out = new Map<string, Buffer>();
+  const walk = (d: string) => {
+    for (const name of readdirSync(d).sort()) {
+      const p = join(d, name);
+      if (statSync(p).isDirectory()) walk(p);
+      else if (name !== "record.json") out.set(relative(dir, p), readFileSync(p));
+    }
+  };
+  walk(dir);
+  return out;
+}
+
+function expectSameFolders(a: string, b: string): void {
+  const x = folderBytes(a);
+  const y = folderBytes(b);
+  expect([...y.keys()]).toEqual([...x.keys()]);
+  for (const [k, v] of x) expect(y.get(k)!.equals(v), k).toBe(true);
+}
+
+let dir: string;
+let manifest: string;
+const RUNS = ["rep-01", "rep-02", "rep-03"];
+const SCENARIOS = [
+  { name: "two-booths", servers: 2 },
+  { name: "three-booths", servers: 3 },
+];
+
+/** A small study of the demo's shape (six measures, a comparison), invented by the seeded queue. */
+beforeAll(async () => {
+  dir = tempFolder({});
+  for (const sc of SCENARIOS) {
+    mkdirSync(join(dir, "runs", sc.name), { recursive: true });
+    for (const [k, run] of RUNS.entries()) {
+      const model = { arrivalRate: 0.9, serviceRate: 0.5, servers: sc.servers, horizon: 300, seed: 1000 + k, decimals: 3 };
+      await writeRunCsv(join(dir, "runs", sc.name, `${run}.csv`), simulateQueue(model));
+    }
+  }
+  manifest = join(dir, "study.yaml");
+  writeFileSync(
+    manifest,
+    `version: 1
+title: Pool and summaries
+warmup: 20
+scenarios:
+  - {name: two-booths, end: 300, runs: "runs/two-booths/*.csv", measures: {booth_use: {capacity: 2}}}
+  - {name: three-booths, end: 300, runs: "runs/three-booths/*.csv", measures: {booth_use: {capacity: 3}}}
+measures:
+  - {name: lane_queue, kind: level, series: queue, at_least: [1, 5]}
+  - {name: booth_use, kind: utilization, series: busy, capacity: 2}
+  - {name: check_wait, kind: observation, series: wait, within: [5, 15]}
+  - {name: vehicles_done, kind: count, series: depart}
+  - {name: in_terminal, kind: level, from: {enter: arrive, leave: depart}}
+  - {name: time_in_terminal, kind: observation, from: {start: arrive, end: depart}}
+compare:
+  - {measure: check_wait, scenarios: [two-booths, three-booths], method: paired}
+`,
+  );
+});
+
+describe("workerCount and the in-process fallback", () => {
+  it("workerCount(runs, n) takes the flag, then SOJOURN_WORKERS, then the cores; never more than the runs, never less than 1", () => {
+    expect(workerCount(16, 2)).toBe(2);
+    expect(workerCount(1, 2)).toBe(1);
+    expect(workerCount(16, 40)).toBe(16);
+    const before = process.env.SOJOURN_WORKERS;
+    process.env.SOJOURN_WORKERS = "3";
+    try {
+      expect(workerCount(16)).toBe(3);
+      expect(workerCount(16, 1)).toBe(1);
+    } finally {
+      if (before === undefined) delete process.env.SOJOURN_WORKERS;
+      else process.env.SOJOURN_WORKERS = before;
+    }
+    expect(workerCount(16)).toBeGreaterThanOrEqual(1);
+  });
+
+  it("workersAvailable() is false when the module is a TypeScript source (the pool then runs in process)", () => {
+    expect(workersAvailable()).toBe(false);
+  });
+});
+
+describe("sojourn report --workers (built command line)", () => {
+  it("1 and 2 workers give byte-identical results.json, calculation tables and report.html", () => {
+    const one = join(dir, "r1");
+    const two = join(dir, "r2");
+    expect(sojourn(["report", manifest, "--out", one, "--workers", "1", "--quiet"]).status).toBe(0);
+    expect(sojourn(["report", manifest, "--out", two, "--workers", "2", "--quiet"]).status).toBe(0);
+    expectSameFolders(one, two);
+    expect(existsSync(join(two, "tables"))).toBe(true);
+  });
+
+  it("an input error found by a worker gives the same message and status as in process", () => {
+    const bad = join(dir, "runs", "three-booths", "rep-02.csv");
+    const text = readFileSync(bad, "utf8");
+    try {
+      writeFileSync(bad, text.replace(/\n([0-9.]+),queue,/, "\n$1,queue,x"));
+      const a = sojourn(["check", manifest, "--workers", "1"]);
+      const b = sojourn(["check", manifest, "--workers", "2"]);
+      expect(a.status).toBe(1);
+      expect(b.status).toBe(1);
+      expect(b.stderr).toBe(a.stderr);
+      expect(a.stderr).toContain("rep-02.csv:");
+    } finally {
+      writeFileSync(bad, text);
+    }
+  });
+
+  it("--workers 0 is a usage error (status 2)", () => {
+    expect(sojourn(["report", manifest, "--out", join(dir, "r0"), "--workers", "0"]).status).toBe(2);
+  });
+});
+
+describe("sojourn summarize-run and report --from-summaries (built command line)", () => {
+  it("a report built from per-run summaries equals the report built from the run files, byte for byte", () => {
+    const sums = join(dir, "summaries");
+    for (const sc of ["two-booths", "three-booths"]) {
+      for (const run of RUNS) {
+        const r = sojourn(["summarize-run", manifest, "--scenario", sc, "--run", run, "--out", join(sums, sc, `${run}.json`)]);
+        expect(r.status, r.stderr).toBe(0);
+      }
+    }
+    const raw = join(dir, "raw");
+    const fromSums = join(dir, "from-summaries");
+    expect(sojourn(["report", manifest, "--out", raw, "--workers", "1", "--quiet"]).status).toBe(0);
+    const r = sojourn(["report", manifest, "--out", fromSums, "--from-summaries", sums, "--quiet"]);
+    expect(r.status, r.stderr).toBe(0);
+    expect(readFileSync(join(fromSums, "results.json"), "utf8")).toBe(readFileSync(join(raw, "results.json"), "utf8"));
+    expectSameFolders(raw, fromSums);
+    const record = (d: string) => JSON.parse(readFileSync(join(d, "record.json"), "utf8")).inputs;
+    expect(record(fromSums)).toEqual(record(raw));
+  });
+
+  it("a changed summary, a summary of another run and a missing summary are refused with their messages", () => {
+    const sums = join(dir, "summaries");
+    const file = join(sums, "two-booths", "rep-01.json");
+    const good = readFileSync(file, "utf8");
+    const out = join(dir, "refused");
+    try {
+      writeFileSync(file, good.replace(/"rows":(\d+)/, (_m, n: string) => `"rows":${Number(n) + 1}`));
+      let r = sojourn(["report", manifest, "--out", out, "--from-summaries", sums, "--quiet"]);
+      expect(r.status).toBe(1);
+      expect(r.stderr).toContain(summaryMessages.summaryTampered(file).message.split("\n")[0]);
+
+      writeFileSync(file, readFileSync(join(sums, "two-booths", "rep-02.json")));
+      r = sojourn(["report", manifest, "--out", out, "--from-summaries", sums, "--quiet"]);
+      expect(r.status).toBe(1);
+      expect(r.stderr).toContain(summaryMessages.summaryOtherRun(file, "run id", '"rep-02"', '"rep-01"').message.split("\n")[0]);
+
+      r = sojourn(["report", manifest, "--out", out, "--from-summaries", join(dir, "nowhere"), "--quiet"]);
+      expect(r.status).toBe(1);
+      expect(r.stderr).toContain("no summary of run \"rep-01\" of scenario \"two-booths\"");
+      expect(existsSync(out)).toBe(false);
+    } finally {
+      writeFileSync(file, good);
+    }
+  });
+});
