@@ -1,4 +1,5 @@
-import { quantilePosition, quantileSorted, shareAtMost } from "../stats/quantile.js";
+import { interpolate7, quantilePosition } from "../stats/quantile.js";
+import { countAtMost, selectInPlace } from "../stats/select.js";
 import { type Cell, TableBuilder, type BuiltTable } from "./table.js";
 
 export const QUANTILE_COLUMNS = [
@@ -11,7 +12,10 @@ export const WITHIN_COLUMNS = ["threshold", "at_most", "n", "share"];
  * observation measure, each with a calculation table: for every p the sorted observations around
  * its position and the interpolation written out; for every x the count of values at most x.
  *
- * The values are sorted once, in a copy (a Float64Array sorts numerically).
+ * The order statistics are found by selection (Floyd and Rivest 1975) in one copy of the values,
+ * taking the quantiles in increasing order so that each selection searches only what is left:
+ * expected time linear in n, instead of sorting all n values; the results are the same order
+ * statistics a sort would give.
  */
 export function observationExtras(
   values: Float64Array,
@@ -21,9 +25,20 @@ export function observationExtras(
 ): { quantiles?: Record<string, number | null>; within?: Record<string, number | null>; tables: { suffix: string; table: BuiltTable }[] } {
   const out: ReturnType<typeof observationExtras> = { tables: [] };
   if (quantiles.length === 0 && within.length === 0) return out;
-  const sorted = Float64Array.from(values).sort();
-  const n = sorted.length;
+  const work = Float64Array.from(values);
+  const n = work.length;
   if (quantiles.length > 0) {
+    // The order statistics each p needs, selected in increasing order of position.
+    const order = new Map<number, number>();
+    if (n > 0) {
+      const ranks = [...new Set(quantiles.flatMap((p) => { const q = quantilePosition(n, p); return [q.lo, q.hi]; }))].sort((a, b) => a - b);
+      let left = 0;
+      for (const k of ranks) {
+        selectInPlace(work, k, left, n - 1);
+        order.set(k, work[k]);
+        left = k;
+      }
+    }
     const q: Record<string, number | null> = {};
     const t = new TableBuilder(QUANTILE_COLUMNS, table.maxRows, table.edgeRows);
     for (const p of quantiles) {
@@ -33,10 +48,10 @@ export function observationExtras(
         continue;
       }
       const pos = quantilePosition(n, p);
-      const x = quantileSorted(sorted, p);
+      const lo = order.get(pos.lo)!;
+      const hi = order.get(pos.hi)!;
+      const x = interpolate7(lo, hi, pos.fraction);
       q[String(p)] = x;
-      const lo = sorted[pos.lo];
-      const hi = sorted[pos.hi];
       const row: Cell[] = [
         p, n, pos.h, pos.lo + 1, pos.hi + 1, lo, hi, pos.fraction, x,
         `h = (${n} - 1) * ${p} = ${pos.h}; x(${pos.lo + 1}) + (x(${pos.hi + 1}) - x(${pos.lo + 1})) * ${pos.fraction} = ${lo} + (${hi} - ${lo}) * ${pos.fraction} = ${x}`,
@@ -50,9 +65,10 @@ export function observationExtras(
     const w: Record<string, number | null> = {};
     const t = new TableBuilder(WITHIN_COLUMNS, table.maxRows, table.edgeRows);
     for (const x of within) {
-      const share = n === 0 ? null : shareAtMost(sorted, x);
+      const atMost = countAtMost(values, x);
+      const share = n === 0 ? null : atMost / n;
       w[String(x)] = share;
-      t.add([x, share === null ? 0 : Math.round(share * n), n, share]);
+      t.add([x, atMost, n, share]);
     }
     out.within = w;
     out.tables.push({ suffix: "within", table: t.build() });

@@ -24,8 +24,15 @@ export class TableBuilder {
   private readonly head: Cell[][] = [];
   private checkpoints: Cell[][] = [];
   private stride = 1;
-  /** Ring of the latest rows once the head is full. */
-  private readonly ring: Cell[][] = [];
+  /**
+   * Ring of the latest rows once the table overflows, in typed storage so that keeping a row
+   * copies doubles without boxing them: numbers go to `ringNumbers`; a text or empty cell sets
+   * its flag in `ringIsOther` and goes to `ringOther`.
+   */
+  private readonly ringNumbers: Float64Array;
+  private readonly ringIsOther: Uint8Array;
+  private readonly ringOther: Cell[];
+  private ringSize = 0;
   private ringNext = 0;
   private total = 0;
   private readonly checkpointBudget: number;
@@ -40,6 +47,10 @@ export class TableBuilder {
   ) {
     if (edgeRows * 2 >= maxRows) this.edgeRows = Math.floor(maxRows / 4);
     this.checkpointBudget = Math.max(1, maxRows - 2 * this.edgeRows);
+    const cells = this.edgeRows * columns.length;
+    this.ringNumbers = new Float64Array(cells);
+    this.ringIsOther = new Uint8Array(cells);
+    this.ringOther = new Array<Cell>(cells).fill(null);
   }
 
   /** Adds one row (its values are copied; the caller may reuse the array). */
@@ -73,13 +84,34 @@ export class TableBuilder {
 
   private keepTail(row: readonly Cell[]): void {
     if (this.edgeRows === 0) return;
-    if (this.ring.length < this.edgeRows) {
-      this.ring.push(row.slice());
-    } else {
-      const slot = this.ring[this.ringNext];
-      for (let j = 0; j < row.length; j++) slot[j] = row[j];
-      this.ringNext = (this.ringNext + 1) % this.edgeRows;
+    const width = this.columns.length;
+    let k = this.ringNext * width;
+    for (let j = 0; j < width; j++, k++) {
+      const c = row[j];
+      if (typeof c === "number") {
+        this.ringNumbers[k] = c;
+        this.ringIsOther[k] = 0;
+      } else {
+        this.ringIsOther[k] = 1;
+        this.ringOther[k] = c;
+      }
     }
+    this.ringNext = this.ringNext + 1 === this.edgeRows ? 0 : this.ringNext + 1;
+    if (this.ringSize < this.edgeRows) this.ringSize++;
+  }
+
+  /** The ring's rows, oldest first. */
+  private tail(): Cell[][] {
+    const width = this.columns.length;
+    const rows: Cell[][] = [];
+    const first = this.ringSize < this.edgeRows ? 0 : this.ringNext;
+    for (let r = 0; r < this.ringSize; r++) {
+      const slot = (first + r) % this.edgeRows;
+      const row: Cell[] = new Array(width);
+      for (let j = 0, k = slot * width; j < width; j++, k++) row[j] = this.ringIsOther[k] ? this.ringOther[k] : this.ringNumbers[k];
+      rows.push(row);
+    }
+    return rows;
   }
 
   private addCheckpoint(row: Cell[]): void {
@@ -98,7 +130,7 @@ export class TableBuilder {
     if (!this.overflowed) {
       return { columns: this.columns, rowsTotal: this.total, rows: [...this.head, ...this.middle], shortened: false };
     }
-    const tail = [...this.ring.slice(this.ringNext), ...this.ring.slice(0, this.ringNext)];
+    const tail = this.tail();
     const firstTail = tail.length > 0 ? (tail[0][0] as number) : Infinity;
     const rows = [...this.head];
     for (const r of this.checkpoints) {

@@ -45,9 +45,18 @@ export function quantilePosition(n: number, p: number): QuantilePosition {
  */
 export function quantileSorted(sorted: ArrayLike<number>, p: number): number {
   const { lo, hi, fraction } = quantilePosition(sorted.length, p);
-  const low = sorted[lo];
+  return interpolate7(sorted[lo], sorted[hi], fraction);
+}
+
+/**
+ * The type 7 interpolation between the order statistics around a quantile's position:
+ * low + (high − low)·fraction, and exactly `low` when the fraction is 0.
+ *
+ * Example: `interpolate7(2, 3, 0.5)` gives 2.5.
+ */
+export function interpolate7(low: number, high: number, fraction: number): number {
   if (fraction === 0) return low;
-  return low + (sorted[hi] - low) * fraction;
+  return low + (high - low) * fraction;
 }
 
 /**
