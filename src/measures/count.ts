@@ -2,7 +2,7 @@ import type { CountMeasure } from "../manifest/types.js";
 import type { CountRunStats } from "../study/outcome.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import type { MeasureSetup } from "./setup.js";
-import { type Cell, TableBuilder } from "./table.js";
+import { TableBuilder } from "./table.js";
 import { windowDuration } from "./window.js";
 
 export const COUNT_COLUMNS = ["index", "time", "running_count"];
@@ -12,7 +12,8 @@ export class Count implements MeasureAccumulator {
   readonly reads: SeriesRead[];
   private n = 0;
   private readonly table: TableBuilder;
-  private readonly cells: Cell[] = new Array(3);
+  /** Reused for every row; numbers only so doubles are stored unboxed. */
+  private readonly cells: number[] = new Array<number>(3).fill(0);
 
   constructor(
     measure: CountMeasure,

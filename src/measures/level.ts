@@ -9,7 +9,7 @@ import { LevelStats } from "./levelStats.js";
 import { levelShareTables } from "./levelTables.js";
 import type { MeasureSetup } from "./setup.js";
 import { SliceAreas, wholeSlices } from "./slices.js";
-import { type Cell, TableBuilder } from "./table.js";
+import { TableBuilder } from "./table.js";
 import { TraceBuilder } from "./trace.js";
 
 export const LEVEL_COLUMNS = ["index", "value", "from", "to", "duration", "area", "running_area", "running_mean"];
@@ -22,7 +22,8 @@ export class LevelSinks implements IntervalSink {
   readonly stats: LevelStats;
   readonly table: TableBuilder;
   private readonly running = new Adder();
-  private readonly cells: Cell[] = new Array(LEVEL_COLUMNS.length);
+  /** Reused for every row; numbers only (NaN for an empty cell) so doubles are stored unboxed. */
+  private readonly cells: number[] = new Array<number>(LEVEL_COLUMNS.length).fill(0);
   private readonly trace: TraceBuilder | null;
   readonly batches: SliceAreas | null;
   readonly slices: SliceAreas | null;
@@ -52,7 +53,7 @@ export class LevelSinks implements IntervalSink {
     this.running.add(area);
     const runningArea = this.running.value();
     const elapsed = to - this.setup.window.collectFrom;
-    const runningMean = elapsed > 0 ? runningArea / elapsed : null;
+    const runningMean = elapsed > 0 ? runningArea / elapsed : NaN;
     const r = this.cells;
     r[0] = ++this.index;
     r[1] = value;
@@ -63,7 +64,7 @@ export class LevelSinks implements IntervalSink {
     r[6] = runningArea;
     r[7] = runningMean;
     this.table.add(r);
-    if (this.trace !== null) this.trace.add(from, value, runningMean ?? value);
+    if (this.trace !== null) this.trace.add(from, value, elapsed > 0 ? runningMean : value);
     if (this.batches !== null) this.batches.interval(from, to, value);
     if (this.slices !== null) this.slices.interval(from, to, value);
   }

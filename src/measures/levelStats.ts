@@ -6,21 +6,26 @@ import type { IntervalSink } from "./intervals.js";
  *
  * - area = sum(v_i * d_i), compensated (Neumaier 1974);
  * - mean = area / T, the time average;
- * - sd = sqrt(sum(d_i * (v_i - mean)^2) / T), the time-weighted standard deviation, from
- *   compensated sums of d*(v-K) and d*(v-K)^2 shifted by K, the first value, so that a large
- *   constant offset does not cancel away the digits (Chan, Golub and LeVeque 1983, shifted data);
+ * - sd = sqrt(sum(d_i * (v_i - mean)^2) / T), the time-weighted standard deviation, by West's
+ *   weighted update of the mean and the sum of squared deviations (West 1979, "Updating mean and
+ *   variance estimates: an improved method", Communications of the ACM 22(9)), each step adding
+ *   d * delta^2 * W / (W + d) for the weight W before it and delta = v - running mean: every term
+ *   is >= 0 and no two nearly equal numbers are subtracted, so nothing cancels. (Sums of d*(v-K)
+ *   and d*(v-K)^2 shifted by the first value K cancelled when K was far from the rest: a level 0
+ *   on [c, c] and 7 from then on got sd 1.2e-7 instead of 0.);
  * - min and max over intervals of positive duration; final value at end;
  * - the share of time with level >= k for each threshold k (issue 8), prorated like the area;
  * - time at each distinct value while there are at most `maxDistinct` of them.
  *
- * Example: value 2 on [0, 3] and 5 on [3, 4] gives area 21, mean 5.25, sd sqrt(27/16).
+ * Example: value 2 on [0, 3] and 5 on [3, 4] gives area 11, mean 2.75, sd sqrt(27/16).
  */
 export class LevelStats implements IntervalSink {
   readonly area = new Adder();
   private readonly duration = new Adder();
-  private readonly shifted = new Adder();
-  private readonly shiftedSq = new Adder();
-  private shift = NaN;
+  /** West's running weight (time), weighted mean and sum of d * squared deviations. */
+  private weight = 0;
+  private runningMean = 0;
+  private readonly squares = new Adder();
   min = Infinity;
   max = -Infinity;
   private readonly atLeast: Adder[];
@@ -37,16 +42,17 @@ export class LevelStats implements IntervalSink {
 
   interval(from: number, to: number, value: number): void {
     const d = to - from;
-    if (Number.isNaN(this.shift)) this.shift = value;
     if (d > 0) {
       if (value < this.min) this.min = value;
       if (value > this.max) this.max = value;
+      const before = this.weight;
+      this.weight += d;
+      const delta = value - this.runningMean;
+      this.runningMean += delta * (d / this.weight); // exactly `value` on the first interval
+      this.squares.add(d * delta * delta * (before / this.weight));
     }
     this.area.add(value * d);
     this.duration.add(d);
-    const dv = value - this.shift;
-    this.shifted.add(d * dv);
-    this.shiftedSq.add(d * dv * dv);
     for (let i = 0; i < this.thresholds.length; i++) {
       if (value >= this.thresholds[i] && d > 0) {
         this.atLeast[i].add(d);
@@ -71,8 +77,7 @@ export class LevelStats implements IntervalSink {
   result(T: number): LevelFigures {
     const area = this.area.value();
     const mean = area / T;
-    const m1 = this.shifted.value() / T;
-    const variance = Math.max(0, this.shiftedSq.value() / T - m1 * m1);
+    const variance = Math.max(0, this.squares.value() / T);
     const timeAtLeast: Record<string, number> = {};
     const atLeastDetail = this.thresholds.map((k, i) => ({ threshold: k, intervals: this.atLeastIntervals[i], time: this.atLeast[i].value() }));
     for (const a of atLeastDetail) timeAtLeast[String(a.threshold)] = a.time / T;

@@ -57,7 +57,8 @@ export class SeriesObservation implements MeasureAccumulator {
   private readonly obs = new Observations();
   private readonly running = new Adder();
   private readonly table: TableBuilder;
-  private readonly cells: Cell[] = new Array(OBSERVATION_COLUMNS.length);
+  /** Reused for every row; numbers only so doubles are stored unboxed. */
+  private readonly cells: number[] = new Array<number>(OBSERVATION_COLUMNS.length).fill(0);
 
   constructor(
     private readonly measure: ObservationMeasure & { source: { type: "series" } },

@@ -1,6 +1,10 @@
 /**
  * Calculation tables that stay useful at any length.
  *
+ * A cell is a number, a text, or empty (null). Producers may also write NaN for an empty cell,
+ * which lets them keep a row array of plain numbers (stored unboxed, no allocation per row);
+ * `build` turns NaN into null.
+ *
  * A table with at most `maxRows` rows is kept whole. A longer one keeps its first `edgeRows`
  * rows, its last `edgeRows` rows, and checkpoint rows in between: every row whose index is a
  * multiple of a stride, the stride doubling whenever the checkpoints would exceed their budget
@@ -128,7 +132,7 @@ export class TableBuilder {
 
   build(): BuiltTable {
     if (!this.overflowed) {
-      return { columns: this.columns, rowsTotal: this.total, rows: [...this.head, ...this.middle], shortened: false };
+      return { columns: this.columns, rowsTotal: this.total, rows: emptyForNaN([...this.head, ...this.middle]), shortened: false };
     }
     const tail = this.tail();
     const firstTail = tail.length > 0 ? (tail[0][0] as number) : Infinity;
@@ -138,8 +142,13 @@ export class TableBuilder {
       if (index > this.edgeRows && index < firstTail) rows.push(r);
     }
     rows.push(...tail);
-    return { columns: this.columns, rowsTotal: this.total, rows, shortened: true };
+    return { columns: this.columns, rowsTotal: this.total, rows: emptyForNaN(rows), shortened: true };
   }
+}
+
+/** NaN cells become empty (null) cells. */
+function emptyForNaN(rows: Cell[][]): Cell[][] {
+  return rows.map((r) => (r.some((c) => c !== c) ? r.map((c) => (c !== c ? null : c)) : r));
 }
 
 /** One CSV cell: numbers in shortest round-trip form, text quoted when it needs to be (RFC 4180). */

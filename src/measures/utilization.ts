@@ -8,7 +8,7 @@ import { LevelStats } from "./levelStats.js";
 import { levelShareTables } from "./levelTables.js";
 import type { MeasureSetup } from "./setup.js";
 import { SliceAreas, wholeSlices } from "./slices.js";
-import { type Cell, TableBuilder } from "./table.js";
+import { TableBuilder } from "./table.js";
 import { TraceBuilder } from "./trace.js";
 
 export const UTILIZATION_COLUMNS = [
@@ -40,7 +40,8 @@ export class Utilization implements MeasureAccumulator {
   private readonly busyArea = new Adder();
   private readonly capacityArea = new Adder();
   private readonly table: TableBuilder;
-  private readonly cells: Cell[] = new Array(UTILIZATION_COLUMNS.length);
+  /** Reused for every row; numbers only (NaN for an empty cell) so doubles are stored unboxed. */
+  private readonly cells: number[] = new Array<number>(UTILIZATION_COLUMNS.length).fill(0);
   private readonly trace: TraceBuilder | null;
   private readonly batchBusy: SliceAreas | null = null;
   private readonly batchCapacity: SliceAreas | null = null;
@@ -113,8 +114,8 @@ export class Utilization implements MeasureAccumulator {
     r[7] = capArea;
     r[8] = runningArea;
     r[9] = runningCap;
-    r[10] = elapsed > 0 ? runningArea / elapsed : null;
-    r[11] = runningCap !== 0 ? runningArea / runningCap : null;
+    r[10] = elapsed > 0 ? runningArea / elapsed : NaN;
+    r[11] = runningCap !== 0 ? runningArea / runningCap : NaN;
     this.table.add(r);
     if (this.trace !== null) this.trace.add(from, busy, elapsed > 0 ? runningArea / elapsed : busy);
     if (this.batchBusy !== null) {
