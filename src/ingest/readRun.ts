@@ -7,7 +7,7 @@
  * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
  * end, and one entry per distinct series.
  */
-import { createHash } from "node:crypto";
+import { startDigest } from "./digest.js";
 import { createReadStream } from "node:fs";
 import { createGunzip } from "node:zlib";
 import type { ColumnMap } from "../manifest/types.js";
@@ -89,7 +89,7 @@ export async function readRun(opts: ReadOptions): Promise<ReadReport> {
       ? new CsvParser(table, display, opts.columns)
       : new JsonLinesParser(table, display, opts.columns);
   const feeder = new ChunkFeeder(parser);
-  const hash = createHash("sha256");
+  const hash = startDigest(opts.path);
   let bytes = 0;
 
   const feed = (chunk: Buffer): void => {
@@ -114,7 +114,7 @@ export async function readRun(opts: ReadOptions): Promise<ReadReport> {
     } else {
       const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
       raw.on("data", (chunk: Buffer | string) => {
-        hash.update(chunk);
+        hash.update(chunk as Buffer);
         bytes += chunk.length;
       });
       raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
@@ -129,14 +129,23 @@ export async function readRun(opts: ReadOptions): Promise<ReadReport> {
       }
     }
   } catch (e) {
+    hash.cancel();
     if (e === failure || e instanceof UserError) throw e;
     throw sourceProblem(e, display, format.format, format.gzip, bytes);
   } finally {
     raw.destroy();
   }
-  if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
-  feeder.finish();
-  return { bytes, sha256: hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
+  if (bytes === 0) {
+    hash.cancel();
+    throw ingestMessages.emptyFile(display, format.format);
+  }
+  try {
+    feeder.finish();
+  } catch (e) {
+    hash.cancel();
+    throw e;
+  }
+  return { bytes, sha256: await hash.result(), rows: table.rows, seriesRows: table.counts() };
 }
 
 /** The user's message for an error of the file system or of gunzip. */
