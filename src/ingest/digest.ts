@@ -10,8 +10,11 @@ import { existsSync, statSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { Worker, isMainThread } from "node:worker_threads";
 
-/** Files at least this large are hashed on a worker thread (when one can be started). */
-export const PARALLEL_DIGEST_BYTES = 32 * 1024 * 1024;
+/**
+ * Files at least this large are hashed on a worker thread (when one can be started);
+ * `SOJOURN_PARALLEL_DIGEST_BYTES` overrides it (the tests use it to exercise the worker).
+ */
+export const PARALLEL_DIGEST_BYTES = Number(process.env.SOJOURN_PARALLEL_DIGEST_BYTES) || 32 * 1024 * 1024;
 
 const WORKER_FILE = new URL("./digestWorker.js", import.meta.url);
 
@@ -38,7 +41,7 @@ function workerAvailable(): boolean {
 }
 
 export function startDigest(path: string): Digest {
-  let size = 0;
+  let size: number;
   try {
     size = statSync(path).size;
   } catch {

@@ -183,3 +183,21 @@ describe("sojourn verify", () => {
     expect(r.status).toBe(0);
   });
 });
+
+describe("run file digests", () => {
+  it("a digest computed on a second thread equals the SHA-256 of the file (FIPS 180-4 via node:crypto)", async () => {
+    const { createHash } = await import("node:crypto");
+    const { spawnSync } = await import("node:child_process");
+    const dir = shop();
+    const main = new URL("../../dist/cli/main.js", import.meta.url).pathname;
+    const r = spawnSync(process.execPath, [main, "report", join(dir, "study.yaml"), "--out", join(dir, "out"), "--quiet", "--workers", "1"], {
+      encoding: "utf8",
+      env: { ...process.env, SOJOURN_PARALLEL_DIGEST_BYTES: "1" },
+    });
+    expect(r.status).toBe(0);
+    const results = JSON.parse(readFileSync(join(dir, "out", "results.json"), "utf8"));
+    for (const sc of results.scenarios) {
+      for (const run of sc.runs) expect(run.sha256).toBe(createHash("sha256").update(readFileSync(join(dir, run.file))).digest("hex"));
+    }
+  });
+});
