@@ -3,11 +3,11 @@ import * as msg from "../messages/study.js";
 import type { LevelMeasure } from "../manifest/types.js";
 import type { LevelRunStats } from "../study/outcome.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
-import { EntityIds, EventBuffer } from "./events.js";
 import { type IntervalSink, LevelTracker } from "./intervals.js";
 import { LevelStats } from "./levelStats.js";
 import { levelShareTables } from "./levelTables.js";
 import type { MeasureSetup } from "./setup.js";
+import { EntityVisits } from "./visits.js";
 import { SliceAreas, wholeSlices } from "./slices.js";
 import { TableBuilder } from "./table.js";
 import { TraceBuilder } from "./trace.js";
@@ -125,55 +125,46 @@ export class SeriesLevel implements MeasureAccumulator {
   }
 }
 
-const ENTER = 0;
-const LEAVE = 1;
-
 /**
  * The number of entities that have had event `enter` and not yet event `leave` (contract
  * section 2), plus `initial`. Events are merged across the two series in time order.
  */
 export class EntityLevel implements MeasureAccumulator {
   readonly reads: SeriesRead[];
-  private readonly events = new EventBuffer();
-  private readonly ids = new EntityIds();
+  private readonly visits: EntityVisits;
 
   constructor(
     private readonly measure: LevelMeasure & { source: { type: "entities" } },
     private readonly setup: MeasureSetup,
   ) {
-    this.reads = [
-      { series: measure.source.enter, entity: true },
-      { series: measure.source.leave, entity: true },
-    ];
+    this.visits = new EntityVisits(measure.name, measure.source.enter, measure.source.leave, setup.file);
+    this.reads = this.visits.reads;
   }
 
   row(slot: number, time: number, _value: number, entity: string | undefined, line: number): void {
-    if (entity === undefined) throw msg.rowWithoutEntity(this.setup.file, line, this.reads[slot].series, this.measure.name);
-    this.events.add(time, slot === 0 ? ENTER : LEAVE, 0, this.ids.id(entity), line);
+    this.visits.row(slot, time, entity, line);
   }
 
   finish(): MeasureOutput {
     const { setup, measure } = this;
+    const c = setup.window.collectFrom;
     const sinks = new LevelSinks(setup, measure.atLeast);
-    const tracker = new LevelTracker(measure.initial, setup.window.collectFrom, setup.window.end as number, sinks);
-    const openSince = new Float64Array(this.ids.size).fill(-1);
+    const tracker = new LevelTracker(measure.initial, c, setup.window.end as number, sinks);
     let inside = 0;
     let entered = 0;
     let left = 0;
-    this.events.replay((time, kind, _v, id, line) => {
-      if (kind === ENTER) {
-        if (openSince[id] >= 0) throw msg.duplicateEnter(setup.file, line, this.ids.name(id), measure.source.enter, measure.name, openSince[id]);
-        openSince[id] = line;
+    this.visits.replay(
+      (time) => {
         inside++;
-        if (time >= setup.window.collectFrom) entered++;
-      } else {
-        if (openSince[id] < 0) throw msg.leaveWithoutEnter(setup.file, line, this.ids.name(id), measure.source.leave, measure.name, measure.source.enter);
-        openSince[id] = -1;
+        if (time >= c) entered++;
+        tracker.change(time, measure.initial + inside);
+      },
+      (time) => {
         inside--;
-        if (time >= setup.window.collectFrom) left++;
-      }
-      tracker.change(time, measure.initial + inside);
-    });
+        if (time >= c) left++;
+        tracker.change(time, measure.initial + inside);
+      },
+    );
     return sinks.output(tracker.finish(), { entered, left, inside_at_end: inside });
   }
 }

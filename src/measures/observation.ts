@@ -4,8 +4,8 @@ import * as msg from "../messages/study.js";
 import type { ObservationMeasure } from "../manifest/types.js";
 import type { ObservationRunStats } from "../study/outcome.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
-import { EntityIds, EventBuffer } from "./events.js";
 import type { MeasureSetup } from "./setup.js";
+import { EntityVisits } from "./visits.js";
 import { type Cell, TableBuilder } from "./table.js";
 import { observationExtras } from "./quantiles.js";
 
@@ -88,9 +88,6 @@ export class SeriesObservation implements MeasureAccumulator {
   }
 }
 
-const START = 0;
-const END = 1;
-
 /**
  * For each entity, time of its `end` event minus time of its `start` event, recorded at the end
  * event's time (contract section 2). Entities still open at the window's end are censored:
@@ -98,60 +95,45 @@ const END = 1;
  */
 export class EntityObservation implements MeasureAccumulator {
   readonly reads: SeriesRead[];
-  private readonly events = new EventBuffer();
-  private readonly ids = new EntityIds();
+  private readonly visits: EntityVisits;
 
   constructor(
     private readonly measure: ObservationMeasure & { source: { type: "entities" } },
     private readonly setup: MeasureSetup,
   ) {
-    this.reads = [
-      { series: measure.source.start, entity: true },
-      { series: measure.source.end, entity: true },
-    ];
+    this.visits = new EntityVisits(measure.name, measure.source.start, measure.source.end, setup.file);
+    this.reads = this.visits.reads;
   }
 
   row(slot: number, time: number, _value: number, entity: string | undefined, line: number): void {
-    if (entity === undefined) throw msg.rowWithoutEntity(this.setup.file, line, this.reads[slot].series, this.measure.name);
-    this.events.add(time, slot === 0 ? START : END, 0, this.ids.id(entity), line);
+    this.visits.row(slot, time, entity, line);
   }
 
   finish(): MeasureOutput {
     const { measure, setup } = this;
     const c = setup.window.collectFrom;
-    const startTime = new Float64Array(this.ids.size).fill(NaN);
-    const startLine = new Float64Array(this.ids.size);
     const obs = new Observations();
     const running = new Adder();
     const table = new TableBuilder(ENTITY_OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
     const row: Cell[] = new Array(ENTITY_OBSERVATION_COLUMNS.length);
-    let open = 0;
-    this.events.replay((time, kind, _v, id, line) => {
-      if (kind === START) {
-        if (startTime[id] === startTime[id]) throw msg.duplicateEnter(setup.file, line, this.ids.name(id), measure.source.start, measure.name, startLine[id]);
-        startTime[id] = time;
-        startLine[id] = line;
-        open++;
-        return;
-      }
-      const began = startTime[id];
-      if (began !== began) throw msg.leaveWithoutEnter(setup.file, line, this.ids.name(id), measure.source.end, measure.name, measure.source.start);
-      startTime[id] = NaN;
-      open--;
-      if (time < c) return;
-      const value = time - began;
-      obs.push(time, value);
-      running.add(value);
-      const sum = running.value();
-      row[0] = obs.n;
-      row[1] = time;
-      row[2] = this.ids.name(id);
-      row[3] = began;
-      row[4] = value;
-      row[5] = sum;
-      row[6] = sum / obs.n;
-      table.add(row);
-    });
+    const open = this.visits.replay(
+      () => {},
+      (time, id, began) => {
+        if (time < c) return;
+        const value = time - began;
+        obs.push(time, value);
+        running.add(value);
+        const sum = running.value();
+        row[0] = obs.n;
+        row[1] = time;
+        row[2] = this.visits.name(id);
+        row[3] = began;
+        row[4] = value;
+        row[5] = sum;
+        row[6] = sum / obs.n;
+        table.add(row);
+      },
+    );
     return observationOutput(measure, setup, obs, table, { censored: open });
   }
 }
