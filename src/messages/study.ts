@@ -57,3 +57,17 @@ export const unknownName = (what: string, name: string, known: string[]) =>
   new UserError(
     `There is no ${what} named "${name}".\n  What to do: use one of: ${known.map((k) => `"${k}"`).join(", ")}.`,
   );
+
+/** A run figure came out beyond the range of double numbers (about ±1.8e308). */
+export const runFigureOverflow = (file: string, measure: string, figure: string) =>
+  located(
+    { file },
+    `measure "${measure}": its ${figure} is too large to compute (beyond about 1.8e308): the values or times of this run, or the window, are too large`,
+    "write the values or the times in a larger unit (thousands instead of units, hours instead of seconds), or check the file and the window end for a misplaced exponent.",
+  );
+
+/** An across-run figure came out beyond the range of double numbers. */
+export const summaryFigureOverflow = (scenario: string, measure: string, figure: string) =>
+  new UserError(
+    `Scenario "${scenario}", measure "${measure}": the across-run ${figure} is too large to compute (beyond about 1.8e308), because the runs' values differ by too much.\n  What to do: write the values in a larger unit, or check the runs for a misplaced exponent.`,
+  );

@@ -5,6 +5,8 @@ import type { MeasureSetup } from "../measures/setup.js";
 import { makeWindow, type RunWindow } from "../measures/window.js";
 import type { Measure, RunRef, Scenario, TableOptions } from "../manifest/types.js";
 import type { InputRecord, RunResult } from "./outcome.js";
+import { nonFinitePath } from "./finite.js";
+import * as studyMessages from "../messages/study.js";
 
 /** What to compute for one run. */
 export interface RunPlan {
@@ -100,6 +102,8 @@ export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
       });
     }
     const out = acc.finish();
+    const overflow = nonFinitePath(out.stats);
+    if (overflow !== null) throw studyMessages.runFigureOverflow(run.file, m.name, overflow);
     for (const w of out.warnings) warnings.push({ measure: m.name, message: w });
     outputs.set(m.name, out);
     measures[m.name] = out.stats;

@@ -2,6 +2,8 @@ import { intervalArithmetic } from "../stats/interval.js";
 import { runsNeeded } from "../stats/runsNeeded.js";
 import type { Measure } from "../manifest/types.js";
 import type { IntervalArithmetic, RunResult, Summary } from "./outcome.js";
+import { nonFinitePath } from "./finite.js";
+import * as studyMessages from "../messages/study.js";
 
 /** The contract's summary fields taken from the interval arithmetic. */
 export function summaryOf(a: Omit<IntervalArithmetic, "scenario" | "measure" | "figure">): Summary {
@@ -32,6 +34,8 @@ export function summarizeMeasure(
   const intervals: IntervalArithmetic[] = [];
   const interval = (figure: string, pick: (r: RunResult) => unknown): Summary => {
     const a = intervalArithmetic(figureValues(runs, pick), confidence);
+    const overflow = nonFinitePath(summaryOf(a));
+    if (overflow !== null) throw studyMessages.summaryFigureOverflow(scenario, measure.name, figure === "value" ? overflow : `${figure} ${overflow}`);
     intervals.push({ scenario, measure: measure.name, figure, ...a });
     return summaryOf(a);
   };

@@ -1,0 +1,687 @@
+/**
+ * The bad-input catalogue as data: every kind of bad input Sojourn knows, with a small invented
+ * study that shows it, the command to run, the exit status and the catalogue message it must
+ * print. `catalogue.test.ts` runs each case through the built command line, checks it, and
+ * checks that `docs/bad-input.md` shows exactly the output of the run (and rewrites the page with
+ * `SOJOURN_WRITE_DOCS=1`).
+ *
+ * Sources: CONTRACT.md section 5 (an input error exits with status 1, names the file and the
+ * line or manifest key path, says what to do, shows no stack trace; a usage error exits with 2),
+ * sections 1 and 3 for what counts as bad, and the message catalogue `src/messages/*.ts` for the
+ * words.
+ */
+import { chmodSync } from "node:fs";
+import { join } from "node:path";
+import { gzipSync } from "node:zlib";
+import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
+import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
+import * as outputMessages from "../../src/messages/output.js";
+import * as studyMessages from "../../src/messages/study.js";
+
+export interface BadInputCase {
+  /** Anchor of the entry in docs/bad-input.md. */
+  id: string;
+  /** Heading of the entry. */
+  title: string;
+  /** What the bad input is, in one or two sentences (Markdown). */
+  what: string;
+  /** Files of the study folder; `study.yaml` is the manifest. Buffers are written as bytes. */
+  files: Record<string, string | Buffer>;
+  /** The files shown as the example in the doc, in this order. */
+  show: string[];
+  /** Command-line arguments, run in the study folder. */
+  args: string[];
+  /** Expected exit status. */
+  status: 0 | 1 | 2;
+  /** The catalogue message expected on standard error (status 1), built from `src/messages`. */
+  message?: () => UserError;
+  /** When the whole message cannot be rebuilt in the test: the text it must start with. */
+  startsWith?: () => string;
+  /** The place the message must name: `file:line`, `file` or `file:line:column (at path)`. */
+  place?: string;
+  /** For status 0 or 2: texts the output (stdout + stderr) must contain. */
+  contains?: string[];
+  /** Prepares the folder after the files are written (permissions, folders). */
+  setup?: (dir: string) => void;
+  /** Run the command as an unprivileged user when the tests run as root (file permissions). */
+  unprivileged?: boolean;
+  /**
+   * Also run with `--debug` and expect the stack trace. One entry per message catalogue is
+   * enough: one top-level handler prints every error (src/cli/program.ts).
+   */
+  debug?: boolean;
+  /** After the command: files of the study folder that must exist with this content (null: must not exist). */
+  afterwards?: Record<string, string | null>;
+  /** Environment variables for the command. */
+  env?: Record<string, string>;
+}
+
+const STUDY = "study.yaml";
+
+/** A manifest with one scenario over `runs/*.csv` and the given measure lines. */
+function manifest(measures: string, scenario = "{name: morning, end: 10, runs: runs/*.csv}", top = ""): string {
+  return `title: Bakery counter\ntime_unit: min\n${top}scenarios:\n  - ${scenario}\nmeasures:\n${measures}`;
+}
+const QUEUE = "  - {name: queue, kind: level, series: queue}\n";
+const ENTITIES = "  - {name: in_shop, kind: level, from: {enter: arrive, leave: leave}}\n";
+const GOOD_CSV = "time,series,value,entity\n0,queue,2,\n3,queue,5,\n";
+
+/** 1-based line and column of the first occurrence of `needle` in `text`. */
+export function positionOf(text: string, needle: string): { line: number; column: number } {
+  const index = text.indexOf(needle);
+  if (index < 0) throw new Error(`test setup: ${JSON.stringify(needle)} not found`);
+  const before = text.slice(0, index);
+  return { line: before.split("\n").length, column: index - before.lastIndexOf("\n") };
+}
+
+/** The manifest place of `needle` (its line and column) with a key path. */
+function at(text: string, needle: string, path: string): Place {
+  return { file: STUDY, ...positionOf(text, needle), path };
+}
+
+const check = ["check", STUDY];
+
+// --- the manifests with positions, kept as constants so the expected places are found in them --
+const M_YAML = manifest(QUEUE).replace("{name: queue, kind: level, series: queue}", "{name: queue, kind: level, series: queue");
+const M_UNKNOWN = manifest("  - {name: queue, kind: level, seires: queue}\n");
+const M_TYPE = manifest(QUEUE, "{name: morning, end: ten, runs: runs/*.csv}");
+const M_WARMUP = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv}", "warmup: 10\n");
+const M_CAPACITY = manifest("  - {name: oven, kind: utilization, series: busy, capacity: 0}\n");
+const M_GLOB = manifest(QUEUE, "{name: morning, end: 10, runs: runs/afternoon/*.csv}");
+const M_TWINS = manifest(QUEUE, "{name: morning, end: 10, runs: [runs/a/day-1.csv, runs/b/day-1.csv.gz]}");
+const M_NORUNS = manifest(QUEUE, "{name: morning, end: 10, runs: []}");
+const M_CONFIDENCE = manifest(QUEUE, undefined, "confidence: 95\n");
+const M_MISSING = manifest(QUEUE, "{name: morning, end: 10, runs: [runs/day-1.csv, runs/day-9.csv]}");
+const M_DUPKEY = manifest(QUEUE, "{name: morning, end: 10, end: 12, runs: runs/*.csv}");
+const M_NOEND = manifest(QUEUE, "{name: morning, runs: runs/*.csv}");
+const M_ENDSTART = manifest(QUEUE, "{name: morning, start: 10, end: 5, runs: runs/*.csv}");
+const M_EXT = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*}");
+const M_MISSKEY = manifest("  - {name: queue, series: queue}\n");
+const M_KIND = manifest("  - {name: queue, kind: levle, series: queue}\n");
+const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue}\n");
+const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
+
+function gzipCut(text: string): Buffer {
+  const z = gzipSync(Buffer.from(text));
+  return z.subarray(0, Math.floor(z.length / 2));
+}
+function gzipFlipped(text: string): Buffer {
+  const z = Buffer.from(gzipSync(Buffer.from(text)));
+  for (let i = 12; i < z.length - 8; i++) z[i] ^= 0x5a; // damage the deflate data, keep the header
+  return z;
+}
+const LONG_TEXT = Array.from({ length: 400 }, (_, i) => `${4 + i / 10},queue,${i % 7},`).join("\n") + "\n";
+
+export const CASES: BadInputCase[] = [
+  // --- files --------------------------------------------------------------------------------
+  {
+    id: "manifest-missing",
+    debug: true,
+    title: "The manifest does not exist",
+    what: "The path given to the command names no file.",
+    files: {},
+    show: [],
+    args: ["check", "studdy.yaml"],
+    status: 1,
+    message: () => manifestMessages.manifestNotFound("studdy.yaml"),
+    place: "studdy.yaml",
+  },
+  {
+    id: "run-file-missing",
+    title: "A run file named in the manifest does not exist",
+    what: "A plain path (no glob characters) in a scenario's `runs:` names no file.",
+    files: { [STUDY]: M_MISSING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.runFileMissing(at(M_MISSING, "runs/day-9.csv", "scenarios[0].runs[1]"), "runs/day-9.csv", "").message.split(" (looked")[0],
+  },
+  {
+    id: "run-file-unreadable",
+    title: "A run file cannot be read",
+    what: "The file exists but the user running Sojourn may not read it (here: its permissions are `000`).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.unreadableFile("runs/day-1.csv", "EACCES"),
+    place: "runs/day-1.csv",
+    setup: (dir) => chmodSync(join(dir, "runs/day-1.csv"), 0),
+    unprivileged: true,
+  },
+  {
+    id: "empty-file",
+    debug: true,
+    title: "An empty run file",
+    what: "A run file of 0 bytes: a CSV file needs at least its header row.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.emptyFile("runs/day-1.csv", "csv"),
+    place: "runs/day-1.csv",
+  },
+  {
+    id: "unsupported-extension",
+    title: "A run file with an extension Sojourn does not read",
+    what: "A glob such as `runs/*` also matches a file that is not a run file (`notes.txt`).",
+    files: { [STUDY]: M_EXT, "runs/day-1.csv": GOOD_CSV, "runs/notes.txt": "baked 40 loaves\n" },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.unsupportedRunFile(at(M_EXT, "runs/*", "scenarios[0].runs"), "runs/notes.txt", RUN_EXTENSIONS),
+  },
+  // --- CSV ----------------------------------------------------------------------------------
+  {
+    id: "missing-column",
+    title: "A missing header or a missing required column",
+    what: "The first line is taken as the header; here the file has no header at all, so neither `time` nor `series` is found.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "0,queue,2\n3,queue,5\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.missingColumns("runs/day-1.csv", [{ role: "time", name: "time" }, { role: "series", name: "series" }], ["0", "queue", "2"]),
+    place: "runs/day-1.csv:1",
+  },
+  {
+    id: "missing-entity-column",
+    title: "No entity column for an entity-derived measure",
+    what: "A measure with `from:` follows entities, but the file has no `entity` column.",
+    files: { [STUDY]: manifest(ENTITIES), "runs/day-1.csv": "time,series\n1,arrive\n2,leave\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.missingEntityColumn("runs/day-1.csv", "entity", ["time", "series"], ["arrive", "leave"]),
+    place: "runs/day-1.csv:1",
+  },
+  {
+    id: "unterminated-quote",
+    title: "An unterminated quote",
+    what: "A quoted CSV field is opened and never closed, so the rest of the file is inside it.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": 'time,series,value\n0,queue,2\n3,"queue,5\n4,queue,1\n' },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.unterminatedQuote("runs/day-1.csv", 3),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "text-after-quote",
+    title: "Text after a closing quote",
+    what: 'A field such as `"queue"x`: something other than a comma follows the closing quote.',
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": 'time,series,value\n0,"queue"x,2\n' },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.textAfterQuote("runs/day-1.csv", 2),
+    place: "runs/day-1.csv:2",
+  },
+  {
+    id: "short-row",
+    title: "A row cut short",
+    what: "A row ends before its series column (the run stopped while writing, or a comma is missing).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.tooFewFields("runs/day-1.csv", 3, 1, 2),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "empty-time",
+    title: "An empty time cell",
+    what: "A row without its simulation time.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n,queue,5\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.missingTime("runs/day-1.csv", 3),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "empty-series",
+    title: "An empty series cell",
+    what: "A row that belongs to no series.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,,5\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.emptySeries("runs/day-1.csv", 3),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "not-a-number",
+    debug: true,
+    title: "A time or value that is not a number",
+    what: "Text where a number belongs (here a time written with a unit).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3min,queue,5\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.notANumber("runs/day-1.csv", 3, "time", "3min"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "nan",
+    title: "NaN as a value",
+    what: "A model that divided 0 by 0 and wrote the result.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,NaN\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.notANumber("runs/day-1.csv", 3, "value", "NaN"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "infinite",
+    title: "An infinite time",
+    what: "`Infinity` (or `inf`) is not a time on a simulation clock.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\nInfinity,queue,0\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.notANumber("runs/day-1.csv", 3, "time", "Infinity"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "overflow",
+    title: "A number too large for a double",
+    what: "`1e999` is a valid decimal, but beyond the largest double (about 1.8e308): it would become infinite.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,1e999\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.notANumber("runs/day-1.csv", 3, "value", "1e999"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "time-decreases",
+    title: "Time decreasing within a series",
+    what: "Within one series, rows must be in time order (different series may interleave freely).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n5,queue,3\n2,sold,\n4,queue,1\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.timeDecreased("runs/day-1.csv", 5, "queue", 5, 4, 3),
+    place: "runs/day-1.csv:5",
+  },
+  // --- JSON Lines and gzip ------------------------------------------------------------------
+  {
+    id: "truncated-json",
+    debug: true,
+    title: "A truncated JSON line",
+    what: "The last line of a JSON Lines file is cut short (the run stopped while writing).",
+    files: { [STUDY]: manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.jsonl}"), "runs/day-1.jsonl": '{"time": 0, "series": "queue", "value": 2}\n{"time": 3, "series": "qu' },
+    show: ["runs/day-1.jsonl"],
+    args: check,
+    status: 1,
+    startsWith: () => ingestMessages.badJson("runs/day-1.jsonl", 2, "").message.split(" (")[0],
+    place: "runs/day-1.jsonl:2",
+  },
+  {
+    id: "json-not-object",
+    title: "A JSON line that is not an object",
+    what: "A line holds an array (or a number, or a text) instead of an object.",
+    files: { [STUDY]: manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.jsonl}"), "runs/day-1.jsonl": '{"time": 0, "series": "queue", "value": 2}\n[3, "queue", 5]\n' },
+    show: ["runs/day-1.jsonl"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.notAnObject("runs/day-1.jsonl", 2, "an array"),
+    place: "runs/day-1.jsonl:2",
+  },
+  {
+    id: "json-wrong-type",
+    title: "A JSON key of the wrong type",
+    what: 'A key of the wrong JSON type, such as `"time": true`. (A number written as a JSON string, `"time": "3"`, is accepted.)',
+    files: { [STUDY]: manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.jsonl}"), "runs/day-1.jsonl": '{"time": 0, "series": "queue", "value": 2}\n{"time": true, "series": "queue", "value": 5}\n' },
+    show: ["runs/day-1.jsonl"],
+    args: check,
+    status: 1,
+    startsWith: () => "runs/day-1.jsonl:2: `time` (the time) is",
+    place: "runs/day-1.jsonl:2",
+  },
+  {
+    id: "corrupt-gzip",
+    debug: true,
+    title: "A corrupt gzip file",
+    what: "The compressed data of a `.csv.gz` file is damaged.",
+    files: { [STUDY]: manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv.gz}"), "runs/day-1.csv.gz": gzipFlipped(GOOD_CSV + LONG_TEXT) },
+    show: [],
+    args: check,
+    status: 1,
+    startsWith: () => ingestMessages.corruptGzip("runs/day-1.csv.gz", "").message.split(" (")[0],
+    place: "runs/day-1.csv.gz",
+  },
+  {
+    id: "truncated-gzip",
+    title: "A gzip file cut short",
+    what: "Only the first half of a `.csv.gz` file was copied.",
+    files: { [STUDY]: manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv.gz}"), "runs/day-1.csv.gz": gzipCut(GOOD_CSV + LONG_TEXT) },
+    show: [],
+    args: check,
+    status: 1,
+    startsWith: () => ingestMessages.corruptGzip("runs/day-1.csv.gz", "").message.split(" (")[0],
+    place: "runs/day-1.csv.gz",
+  },
+  // --- rows that break a measure's rules ------------------------------------------------------
+  {
+    id: "level-without-value",
+    title: "A level row without a value",
+    what: "Each row of a level's series gives the new level, so it needs a value.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.levelRowWithoutValue("runs/day-1.csv", 3, "queue", "queue"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "observation-without-value",
+    title: "An observation row without a value",
+    what: "Each row of an observation series is one observation, so it needs a value.",
+    files: { [STUDY]: manifest("  - {name: wait, kind: observation, series: wait}\n"), "runs/day-1.csv": "time,series,value\n1,wait,2.5\n3,wait,\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.observationRowWithoutValue("runs/day-1.csv", 3, "wait", "wait"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "row-without-entity",
+    title: "An entity-derived measure row without an entity id",
+    what: "A measure with `from:` pairs events by entity; a row of its series with an empty entity cannot be paired.",
+    files: { [STUDY]: manifest(ENTITIES), "runs/day-1.csv": "time,series,value,entity\n1,arrive,,c1\n2,arrive,,\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.rowWithoutEntity("runs/day-1.csv", 3, "arrive", "in_shop"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "leave-without-enter",
+    debug: true,
+    title: "A leave event without an enter",
+    what: "An entity leaves that never entered (or left already).",
+    files: { [STUDY]: manifest(ENTITIES), "runs/day-1.csv": "time,series,value,entity\n1,arrive,,c1\n2,leave,,c2\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.leaveWithoutEnter("runs/day-1.csv", 3, "c2", "leave", "in_shop", "arrive"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "duplicate-start",
+    title: "A duplicate entity start",
+    what: "An entity enters again before it left: two visits under one id.",
+    files: { [STUDY]: manifest(ENTITIES), "runs/day-1.csv": "time,series,value,entity\n1,arrive,,c1\n2,arrive,,c1\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.duplicateEnter("runs/day-1.csv", 3, "c1", "arrive", "in_shop", 2),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "capacity-area-zero",
+    title: "A capacity series that is zero over the whole window",
+    what: "Utilization divides by the capacity's area; a capacity series that stays 0 leaves nothing to divide by.",
+    files: {
+      [STUDY]: manifest("  - {name: oven, kind: utilization, series: busy, capacity: open_ovens}\n"),
+      "runs/day-1.csv": "time,series,value\n0,open_ovens,0\n1,busy,0\n",
+    },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.capacityNotPositive("runs/day-1.csv", "oven"),
+    place: "runs/day-1.csv",
+  },
+  {
+    id: "figure-overflow",
+    title: "Numbers so large that a figure overflows",
+    what: "Each number is finite, but a level of `1e308` held for 10 time units has an area beyond the largest double (about 1.8e308). Results never hold `Infinity` (JSON would write it as `null`), so this is an input error.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,1e308\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.runFigureOverflow("runs/day-1.csv", "queue", "value"),
+    place: "runs/day-1.csv",
+  },
+  // --- not errors ---------------------------------------------------------------------------
+  {
+    id: "rows-after-end",
+    title: "Rows outside the window (not an error)",
+    what: "Rows after the window's `end` are left out and counted; the count is printed by `check` and kept in the report's input audit (`left_out.after_end`).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n11,queue,1\n12,queue,0\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 0,
+    contains: ["4 rows (2 after end, 0 before collection, 0 of unread series)"],
+  },
+  {
+    id: "series-never-appears",
+    title: "A measure whose series never appears (a warning per run)",
+    what: "A measure reads a series no row of the run belongs to (often a misspelt name). Each run without it gets a warning; the level stays at its `initial` value.",
+    files: { [STUDY]: manifest("  - {name: queue, kind: level, series: queu}\n"), "runs/day-1.csv": GOOD_CSV, "runs/day-2.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 0,
+    contains: [
+      '2 warning(s):',
+      'morning / day-1 / queue: series "queu" never appears in runs/day-1.csv',
+      'morning / day-2 / queue: series "queu" never appears in runs/day-2.csv',
+    ],
+  },
+  // --- the manifest -------------------------------------------------------------------------
+  {
+    id: "invalid-yaml",
+    title: "Invalid YAML",
+    what: "A flow mapping `{...}` that is never closed.",
+    files: { [STUDY]: M_YAML, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => "study.yaml:",
+  },
+  {
+    id: "duplicate-key",
+    title: "A key written twice",
+    what: "The same key twice in one mapping; YAML would otherwise silently keep one.",
+    files: { [STUDY]: M_DUPKEY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.duplicateKey({ file: STUDY, ...positionOf(M_DUPKEY, "end: 12") }, "end"),
+  },
+  {
+    id: "unknown-key",
+    debug: true,
+    title: "An unknown key (with a did-you-mean)",
+    what: "A misspelt key; Sojourn suggests the nearest allowed key.",
+    files: { [STUDY]: M_UNKNOWN, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.unknownKey(at(M_UNKNOWN, "seires", "measures[0].seires"), "seires", "a level measure", [], "series").message.split(" in ")[0],
+    contains: ['Did you mean "series"?'],
+  },
+  {
+    id: "not-allowed-value",
+    title: "A value outside the allowed set (with a did-you-mean)",
+    what: "A misspelt `kind`.",
+    files: { [STUDY]: M_KIND, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.notAllowedValue(at(M_KIND, "levle", "measures[0].kind"), "levle", ["level", "utilization", "observation", "count"], "level"),
+  },
+  {
+    id: "missing-key",
+    title: "A required key is missing",
+    what: "A measure without its `kind`.",
+    files: { [STUDY]: M_MISSKEY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.missingKey(at(M_MISSKEY, "{name: queue", "measures[0].kind"), "kind", "a measure", null).message.split("\n")[0],
+  },
+  {
+    id: "wrong-type",
+    title: "A value of the wrong type",
+    what: "Text where a number belongs.",
+    files: { [STUDY]: M_TYPE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongType(at(M_TYPE, "ten", "scenarios[0].end"), "a number", 'a text ("ten")', null, false).message.split("\n")[0],
+  },
+  {
+    id: "duplicate-name",
+    title: "Two measures with one name",
+    what: "Names identify measures in the report and in `results.json`, so they must differ.",
+    files: { [STUDY]: M_DUPNAME, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.duplicateName(at(M_DUPNAME, "queue, kind: count", "measures[1].name"), "measure", "queue", 6),
+  },
+  {
+    id: "confidence-out-of-range",
+    title: "An out-of-range confidence",
+    what: "`confidence: 95` where a level between 0 and 1 is meant.",
+    files: { [STUDY]: M_CONFIDENCE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.confidenceOutOfRange(at(M_CONFIDENCE, "95", "confidence"), 95),
+  },
+  {
+    id: "no-end",
+    title: "A level measure without a window end",
+    what: "A time average needs the length of time it is taken over.",
+    files: { [STUDY]: M_NOEND, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => "study.yaml:",
+    contains: ['the level measure "queue" needs a window end'],
+  },
+  {
+    id: "end-not-after-start",
+    title: "A window that ends before it starts",
+    what: "`end` at or before `start`.",
+    files: { [STUDY]: M_ENDSTART, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => "study.yaml:",
+    contains: ['the window of scenario "morning" ends at 5, which is not after its start 10'],
+  },
+  {
+    id: "warmup-past-end",
+    title: "Warm-up at or past the end",
+    what: "A warm-up that leaves nothing to collect.",
+    files: { [STUDY]: M_WARMUP, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.warmupPastEnd(at(M_WARMUP, "10", "warmup"), "morning", "day-1", 10, 10),
+  },
+  {
+    id: "capacity-not-positive",
+    title: "Capacity of 0 or less",
+    what: "A utilization against no units at all.",
+    files: { [STUDY]: M_CAPACITY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => "study.yaml:6:",
+  },
+  {
+    id: "glob-matches-nothing",
+    title: "A glob matching nothing",
+    what: "A pattern in `runs:` that matches no file.",
+    files: { [STUDY]: M_GLOB, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.globMatchedNothing(at(M_GLOB, "runs/afternoon", "scenarios[0].runs"), "runs/afternoon/*.csv", "").message.split(" in the folder")[0],
+  },
+  {
+    id: "duplicate-run-id",
+    title: "Two runs with the same id in one scenario",
+    what: "A run's id is its file name without extensions; `runs/a/day-1.csv` and `runs/b/day-1.csv.gz` are both `day-1`.",
+    files: { [STUDY]: M_TWINS, "runs/a/day-1.csv": GOOD_CSV, "runs/b/day-1.csv.gz": gzipSync(GOOD_CSV) },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.duplicateRunId(at(M_TWINS, "runs/b/day-1.csv.gz", "scenarios[0].runs[1]"), "morning", "day-1", "runs/a/day-1.csv", "runs/b/day-1.csv.gz"),
+  },
+  {
+    id: "no-runs",
+    title: "A scenario with no runs",
+    what: "`runs: []`.",
+    files: { [STUDY]: M_NORUNS },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => "study.yaml:4:",
+    contains: ["(at scenarios[0].runs)"],
+  },
+  {
+    id: "unknown-override",
+    title: "An override for a measure that does not exist",
+    what: "A scenario's `measures:` names a misspelt measure.",
+    files: { [STUDY]: M_OVERRIDE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => "study.yaml:4:",
+    contains: ['there is no measure named "queeu"', 'Did you mean "queue"?'],
+  },
+  // --- output and PDF -----------------------------------------------------------------------
+  {
+    id: "out-not-ours",
+    debug: true,
+    title: "An output folder that holds the user's own files",
+    what: "`--out` names a folder that is not empty and not an earlier Sojourn report. Sojourn refuses, so no file of the user's is lost; `--force` replaces the folder.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "thesis/chapter-1.md": "# Queues\n" },
+    show: [],
+    args: ["report", STUDY, "--out", "thesis", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outNotOurs("thesis"),
+    afterwards: { "thesis/chapter-1.md": "# Queues\n", "thesis/results.json": null },
+    place: "thesis",
+  },
+  {
+    id: "pdf-no-browser",
+    debug: true,
+    title: "A PDF asked for with no browser",
+    what: "`--pdf` needs a Chromium-family browser; here the one named does not exist. The HTML report is written all the same.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--pdf", "--chrome", "/opt/no-such-browser/chromium", "--quiet"],
+    status: 1,
+    message: () => reportMessages.browserMissing("/opt/no-such-browser/chromium", "--chrome"),
+    afterwards: { "report/report.pdf": null },
+  },
+  // --- usage ------------------------------------------------------------------------------
+  {
+    id: "unknown-flag",
+    title: "An unknown flag (usage error)",
+    what: "A flag the command does not have. Usage errors exit with status 2.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["check", STUDY, "--jsno"],
+    status: 2,
+    contains: ["unknown option '--jsno'", "(Did you mean --json?)"],
+  },
+  {
+    id: "bad-flag-value",
+    title: "A flag value that is not a number (usage error)",
+    what: "`sojourn at ... --time` takes a number.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["at", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--time", "soon"],
+    status: 2,
+    contains: ["option '--time <t>' argument 'soon' is invalid. expected a number."],
+  },
+];
