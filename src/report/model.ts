@@ -367,7 +367,7 @@ const METHODS: Omit<MethodNote, "id">[] = [
     term: "Time-weighted standard deviation",
     formula: "s_T = √( Σ dᵢ·(vᵢ − ȳ)² / T )",
     text: "The spread of the level over time: each squared deviation from the time average is weighted by how long it lasted. Minimum and maximum are taken over intervals of positive duration.",
-    source: "Definition by the same time weighting as the time average; see Little (1961).",
+    source: "The same time weighting as the time average; accumulated by West's weighted update: West, D. H. D. (1979). Updating mean and variance estimates: an improved method. Communications of the ACM 22(9), 532–535.",
   },
   {
     term: "Utilization",
@@ -378,8 +378,8 @@ const METHODS: Omit<MethodNote, "id">[] = [
   {
     term: "Mean and sample standard deviation",
     formula: "x̄ = Σ xᵢ / n,  s = √( Σ (xᵢ − x̄)² / (n − 1) )",
-    text: "Used for observations within a run and for run values across runs. The divisor n − 1 makes s² unbiased for the variance; it is computed in one pass by Welford's update.",
-    source: "Welford, B. P. (1962). Note on a method for calculating corrected sums of squares and products. Technometrics 4(3), 419–420.",
+    text: "Used for observations within a run and for run values across runs. The divisor n − 1 makes s² unbiased for the variance. Within a run it is computed in two passes over the stored observations with the correction term of Chan, Golub and LeVeque; across runs the sums are exactly rounded, so the order of the runs changes nothing.",
+    source: "Chan, T. F., Golub, G. H., LeVeque, R. J. (1983). Algorithms for computing the sample variance: analysis and recommendations. The American Statistician 37(3), 242–247.",
   },
   {
     term: "Count and rate",
@@ -780,6 +780,16 @@ function runTable(
     observation: ["value", "sd", "n", "min", "max"],
     count: ["value", "rate"],
   };
+  // Entity-derived measures: what the engine counted about the entities themselves.
+  const entityFields: [string, string][] = [
+    ["censored", "censored (still open at the end)"],
+    ["entered", "entered"],
+    ["left", "left"],
+    ["inside_at_end", "inside at the end"],
+  ];
+  const present = entityFields.filter(([f]) => scenarios.some((sr) => sr.runs.some((r) => typeof r.measures[name]?.[f] === "number")));
+  cols[kind] = [...cols[kind], ...present.map(([, label]) => label)];
+  fields[kind] = [...fields[kind], ...present.map(([f]) => f)];
   const extraKeys: { group: string; key: string }[] = [];
   for (const sr of scenarios) for (const r of sr.runs) {
     const st = r.measures[name];
