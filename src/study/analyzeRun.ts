@@ -7,6 +7,7 @@ import type { Measure, RunRef, Scenario, TableOptions } from "../manifest/types.
 import type { InputRecord, RunResult } from "./outcome.js";
 import { nonFinitePath } from "./finite.js";
 import * as studyMessages from "../messages/study.js";
+import { runTablePath, type TableFile, tableFile } from "./tables.js";
 
 /** What to compute for one run. */
 export interface RunPlan {
@@ -30,6 +31,23 @@ export interface RunAnalysis {
   window: RunWindow;
   outputs: Map<string, MeasureOutput>;
   warnings: { measure: string | null; message: string }[];
+  /**
+   * The run's calculation tables as files (CSV text and digest), made where the run was analysed
+   * so that a worker thread formats them; absent when the analysis came from a run summary.
+   */
+  tableFiles?: TableFile[];
+}
+
+/** The calculation tables of one analysed run as files, in measure order. */
+export function runTableFiles(scenario: string, a: Pick<RunAnalysis, "result" | "outputs">, measures: Measure[]): TableFile[] {
+  const files: TableFile[] = [];
+  for (const m of measures) {
+    for (const t of a.outputs.get(m.name)!.tables) {
+      const where = { scenario, run: a.result.id, measure: m.name, kind: t.suffix || m.kind };
+      files.push(tableFile(where, runTablePath(scenario, a.result.id, m.name, t.suffix), t.table));
+    }
+  }
+  return files;
 }
 
 /**
@@ -130,5 +148,5 @@ export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
     measures,
   };
   if (window.warmup !== null) result.warmup = window.warmup;
-  return { result, input, window, outputs, warnings };
+  return { result, input, window, outputs, warnings, tableFiles: runTableFiles(scenario.name, { result, outputs }, plan.measures) };
 }

@@ -2,12 +2,12 @@ import { readFileSync } from "node:fs";
 import { batchMeansInterval, observationBatches } from "../stats/batchMeans.js";
 import type { Study } from "../manifest/types.js";
 import type { MeasureOutput } from "../measures/accumulator.js";
-import type { RunAnalysis, RunPlan } from "./analyzeRun.js";
+import { type RunAnalysis, type RunPlan, runTableFiles } from "./analyzeRun.js";
 import { compareScenarios } from "./compare.js";
 import { consistencyChecks } from "./consistency.js";
 import type { LevelTrace, ObservationSample, Results, ScenarioResult, StudyOutcome, Warning } from "./outcome.js";
 import { summarizeMeasure } from "./summaries.js";
-import { intervalTable, intervalTablePath, runTablePath, type TableFile, tableFile } from "./tables.js";
+import { intervalTable, intervalTablePath, type TableFile, tableFile } from "./tables.js";
 import { resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
 import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
@@ -113,12 +113,9 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     for (const a of analyses) {
       outcome.inputs.push(a.input);
       for (const w of a.warnings) outcome.warnings.push({ scenario: scenario.name, run: a.result.id, measure: w.measure, message: w.message });
+      tableFiles.push(...(a.tableFiles ?? runTableFiles(scenario.name, a, scenario.measures)));
       for (const m of scenario.measures) {
         const out = a.outputs.get(m.name)!;
-        for (const t of out.tables) {
-          const f = tableFile({ scenario: scenario.name, run: a.result.id, measure: m.name, kind: t.suffix || m.kind }, runTablePath(scenario.name, a.result.id, m.name, t.suffix), t.table);
-          tableFiles.push(f);
-        }
         if (batches !== null) addBatchMeans(a, m.name, batches, study.confidence, outcome.warnings, scenario.name);
         if (out.trace !== undefined) outcome.traces.push(traceOf(scenario.name, a, m.name, out.trace));
       }

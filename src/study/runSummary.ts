@@ -106,7 +106,8 @@ export function encodeSummary(plan: RunPlan, a: RunAnalysis): string {
     file: plan.run.file,
     input_sha256: a.input.sha256,
     plan_sha256: planDigest(plan),
-    analysis: a,
+    // The table files are made again from the tables when the report is built.
+    analysis: { ...a, tableFiles: undefined },
   };
   const text = JSON.stringify(body, replacer);
   body.digest = sha256(text);
