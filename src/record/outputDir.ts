@@ -35,6 +35,7 @@ export class StagedDir {
     }
     this.temp = join(dirname(this.final), `.${basename(this.final)}.sojourn-tmp-${process.pid}`);
     try {
+      removeStale(this.final);
       rmSync(this.temp, { recursive: true, force: true });
       mkdirSync(this.temp, { recursive: true });
     } catch (e) {
@@ -82,5 +83,34 @@ export class StagedDir {
   private release(): void {
     process.off("SIGINT", this.onSignal);
     process.off("SIGTERM", this.onSignal);
+  }
+}
+
+/** True when a process with this id is running. */
+function alive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === "EPERM";
+  }
+}
+
+/**
+ * Removes the temporary folders that earlier runs for the same DIR left behind when they were
+ * killed outright (SIGKILL, power loss): those whose process no longer runs. DIR itself was never
+ * touched by them.
+ */
+function removeStale(final: string): void {
+  const parent = dirname(final);
+  const prefix = `.${basename(final)}.sojourn-`;
+  if (!existsSync(parent)) return;
+  for (const name of readdirSync(parent)) {
+    if (!name.startsWith(prefix)) continue;
+    const m = /^(tmp|old)-(\d+)$/.exec(name.slice(prefix.length));
+    if (m === null || Number(m[2]) === process.pid || alive(Number(m[2]))) continue;
+    // An "old" folder whose process died between its two renames holds the earlier report: put it back.
+    if (m[1] === "old" && !existsSync(final)) renameSync(join(parent, name), final);
+    else rmSync(join(parent, name), { recursive: true, force: true });
   }
 }
