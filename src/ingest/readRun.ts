@@ -5,9 +5,11 @@
  *                      └─► [gunzip] ─► ChunkFeeder ─► CsvParser | JsonLinesParser ─► SeriesTable ─► onRow
  *
  * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
- * end, and one entry per distinct series.
+ * end, and one entry per distinct series. A large file read from the main thread is parsed on a
+ * second thread while this one feeds the measures (`pipeline.ts`).
  */
-import { startDigest } from "./digest.js";
+import { createHash } from "node:crypto";
+import { pipelineWanted, readRunPipelined } from "./pipeline.js";
 import { createReadStream } from "node:fs";
 import { createGunzip } from "node:zlib";
 import type { ColumnMap } from "../manifest/types.js";
@@ -78,6 +80,12 @@ class SourceError extends Error {
  * // -> { bytes: 48, rows: 3, seriesRows: { queue: 2, sold: 1 }, sha256: "..." }
  */
 export async function readRun(opts: ReadOptions): Promise<ReadReport> {
+  if (opts.chunkSize === undefined && pipelineWanted(opts.path)) return readRunPipelined(opts);
+  return readRunHere(opts);
+}
+
+/** `readRun` in this thread: read, parse and hand every row to `onRow`. */
+export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   const { display } = opts;
   const format = runFormat(opts.path);
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
@@ -89,7 +97,7 @@ export async function readRun(opts: ReadOptions): Promise<ReadReport> {
       ? new CsvParser(table, display, opts.columns)
       : new JsonLinesParser(table, display, opts.columns);
   const feeder = new ChunkFeeder(parser);
-  const hash = startDigest(opts.path);
+  const hash = createHash("sha256");
   let bytes = 0;
 
   const feed = (chunk: Buffer): void => {
@@ -129,23 +137,14 @@ export async function readRun(opts: ReadOptions): Promise<ReadReport> {
       }
     }
   } catch (e) {
-    hash.cancel();
     if (e === failure || e instanceof UserError) throw e;
     throw sourceProblem(e, display, format.format, format.gzip, bytes);
   } finally {
     raw.destroy();
   }
-  if (bytes === 0) {
-    hash.cancel();
-    throw ingestMessages.emptyFile(display, format.format);
-  }
-  try {
-    feeder.finish();
-  } catch (e) {
-    hash.cancel();
-    throw e;
-  }
-  return { bytes, sha256: await hash.result(), rows: table.rows, seriesRows: table.counts() };
+  if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
+  feeder.finish();
+  return { bytes, sha256: hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
 }
 
 /** The user's message for an error of the file system or of gunzip. */

@@ -1,9 +1,15 @@
+import { spawnSync } from "node:child_process";
+import { createHash } from "node:crypto";
 import { existsSync, readFileSync, writeFileSync, mkdirSync, readdirSync } from "node:fs";
+import { fileURLToPath } from "node:url";
 import { join } from "node:path";
 import { describe, expect, it } from "vitest";
 import { sojourn } from "../helpers/cli.js";
 import { csv, tempFolder } from "../helpers/tempStudy.js";
 import * as outputMessages from "../../src/messages/output.js";
+import { writeFerryStudy } from "../../src/demo/ferry.js";
+
+const MAIN_JS = fileURLToPath(new URL("../../dist/cli/main.js", import.meta.url));
 
 const manifest = `title: Bike repair shop
 time_unit: h
@@ -184,20 +190,49 @@ describe("sojourn verify", () => {
   });
 });
 
-describe("run file digests", () => {
-  it("a digest computed on a second thread equals the SHA-256 of the file (FIPS 180-4 via node:crypto)", async () => {
-    const { createHash } = await import("node:crypto");
-    const { spawnSync } = await import("node:child_process");
-    const dir = shop();
-    const main = new URL("../../dist/cli/main.js", import.meta.url).pathname;
-    const r = spawnSync(process.execPath, [main, "report", join(dir, "study.yaml"), "--out", join(dir, "out"), "--quiet", "--workers", "1"], {
+describe("reading a run file on two threads (pipeline.ts)", () => {
+  const run = (dir: string, out: string, parallel: boolean, args: string[] = []) =>
+    spawnSync(process.execPath, [MAIN_JS, "report", join(dir, "study.yaml"), "--out", join(dir, out), "--quiet", "--workers", "1", ...args], {
       encoding: "utf8",
-      env: { ...process.env, SOJOURN_PARALLEL_DIGEST_BYTES: "1" },
+      // SOJOURN_PARALLEL_BYTES=1 sends every file through the reader thread; a huge value keeps all in one thread
+      env: { ...process.env, SOURCE_DATE_EPOCH: "1780000000", SOJOURN_PARALLEL_BYTES: parallel ? "1" : "1000000000000" },
     });
-    expect(r.status).toBe(0);
-    const results = JSON.parse(readFileSync(join(dir, "out", "results.json"), "utf8"));
-    for (const sc of results.scenarios) {
-      for (const run of sc.runs) expect(run.sha256).toBe(createHash("sha256").update(readFileSync(join(dir, run.file))).digest("hex"));
+
+  it("gives byte-identical results and tables, and the file's SHA-256 (FIPS 180-4 via node:crypto)", () => {
+    const dir = shop();
+    expect(run(dir, "one", false).status).toBe(0);
+    expect(run(dir, "two", true).status).toBe(0);
+    const a = readFileSync(join(dir, "one", "results.json"), "utf8");
+    expect(readFileSync(join(dir, "two", "results.json"), "utf8")).toBe(a);
+    const recA = JSON.parse(readFileSync(join(dir, "one", "record.json"), "utf8"));
+    const recB = JSON.parse(readFileSync(join(dir, "two", "record.json"), "utf8"));
+    expect(recB.outputs).toEqual(recA.outputs);
+    for (const sc of JSON.parse(a).scenarios) {
+      for (const r of sc.runs) expect(r.sha256).toBe(createHash("sha256").update(readFileSync(join(dir, r.file))).digest("hex"));
     }
+  });
+
+  it("gives the same results for entity-derived measures (the invented ferry demo study)", async () => {
+    const dir = tempFolder({});
+    const manifestPath = await writeFerryStudy(dir);
+    const runWith = (out: string, parallel: boolean) =>
+      spawnSync(process.execPath, [MAIN_JS, "report", manifestPath, "--out", join(dir, out), "--quiet", "--workers", "1"], {
+        encoding: "utf8",
+        env: { ...process.env, SOURCE_DATE_EPOCH: "1780000000", SOJOURN_PARALLEL_BYTES: parallel ? "1" : "1000000000000" },
+      });
+    expect(runWith("one", false).status).toBe(0);
+    expect(runWith("two", true).status).toBe(0);
+    expect(readFileSync(join(dir, "two", "results.json"), "utf8")).toBe(readFileSync(join(dir, "one", "results.json"), "utf8"));
+  });
+
+  it("reports an input error with the same message, file and line", () => {
+    const dir = shop();
+    writeFileSync(join(dir, "runs", "two", "day-2.csv"), "time,series,value\n0,waiting,1\n3,waiting,2\n2,waiting,4\n");
+    const a = run(dir, "one", false);
+    const b = run(dir, "two", true);
+    expect(a.status).toBe(1);
+    expect(b.status).toBe(1);
+    expect(b.stderr).toBe(a.stderr);
+    expect(a.stderr).toContain("runs/two/day-2.csv:4");
   });
 });

@@ -1,0 +1,95 @@
+/**
+ * Reading one large run file on two threads:
+ *
+ *   worker thread: read ─► [gunzip] ─► parse ─► checks ─► batches of rows (typed arrays) ─┐
+ *   main thread:                                         onRow ◄── each batch, in order ◄─┘
+ *
+ * The worker does everything `readRunHere` does (SHA-256, row counts, every input check) and
+ * sends the rows of requested series in batches; the main thread feeds them to the measures while
+ * the worker parses on. At most MAX_IN_FLIGHT batches wait at a time (the worker sleeps on a
+ * shared counter), so memory stays bounded whatever the file's length. Rows reach `onRow` in file
+ * order and an input error arrives after the rows before it, exactly as when reading in one thread.
+ */
+import { existsSync, statSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { Worker, isMainThread } from "node:worker_threads";
+import { UserError } from "../messages/error.js";
+import type { ReadOptions, ReadReport } from "./readRun.js";
+
+/**
+ * Files at least this large are parsed on a second thread; `SOJOURN_PARALLEL_BYTES` overrides it
+ * (the tests use it to exercise the worker on small files).
+ */
+export const PARALLEL_BYTES = Number(process.env.SOJOURN_PARALLEL_BYTES) || 32 * 1024 * 1024;
+
+export const BATCH_ROWS = 1 << 16;
+export const MAX_IN_FLIGHT = 8;
+
+const WORKER_FILE = new URL("./readWorker.js", import.meta.url);
+
+/** One batch of rows as the worker sends it. */
+export interface RowBatch {
+  type: "rows";
+  n: number;
+  series: Int32Array;
+  time: Float64Array;
+  value: Float64Array;
+  line: Float64Array;
+  entities: (string | undefined)[] | null;
+}
+
+export type WorkerMessage =
+  | RowBatch
+  | { type: "done"; report: ReadReport }
+  | { type: "error"; user: boolean; message: string; exitCode: 1 | 2; stack?: string };
+
+/** Whether this file is worth a second thread: large, read from the main thread, worker built. */
+export function pipelineWanted(path: string): boolean {
+  if (!isMainThread || !import.meta.url.endsWith(".js") || !existsSync(fileURLToPath(WORKER_FILE))) return false;
+  try {
+    return statSync(path).size >= PARALLEL_BYTES;
+  } catch {
+    return false; // the reader reports the problem with the file
+  }
+}
+
+export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
+  const control = new SharedArrayBuffer(4);
+  const inFlight = new Int32Array(control);
+  const { path, display, columns, series } = opts;
+  const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series }, control } });
+  return new Promise<ReadReport>((resolve, reject) => {
+    let settled = false;
+    const finish = (error: unknown, report?: ReadReport) => {
+      if (settled) return;
+      settled = true;
+      void worker.terminate();
+      if (error !== null) reject(error);
+      else resolve(report!);
+    };
+    worker.on("message", (m: WorkerMessage) => {
+      if (settled) return;
+      if (m.type === "rows") {
+        const { onRow } = opts;
+        const { series: s, time, value, line, entities } = m;
+        try {
+          if (entities === null) for (let k = 0; k < m.n; k++) onRow(s[k], time[k], value[k], undefined, line[k]);
+          else for (let k = 0; k < m.n; k++) onRow(s[k], time[k], value[k], entities[k], line[k]);
+        } catch (e) {
+          finish(e);
+          return;
+        }
+        Atomics.sub(inFlight, 0, 1);
+        Atomics.notify(inFlight, 0);
+      } else if (m.type === "done") {
+        finish(null, m.report);
+      } else {
+        const e = m.user ? new UserError(m.message, m.exitCode) : new Error(m.message);
+        if (!m.user && m.stack !== undefined) e.stack = m.stack;
+        finish(e);
+      }
+    });
+    worker.on("error", (e) => finish(e));
+    worker.on("exit", (code) => finish(new Error(`the run file reader thread stopped (exit code ${code}) while reading ${display}`)));
+  });
+}
