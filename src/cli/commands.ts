@@ -3,13 +3,9 @@ import { dirname, join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
 import { UserError } from "../messages/index.js";
-import { demoDirUsable, writeFerryStudy } from "../demo/ferry.js";
-import { publishStudy } from "../record/publish.js";
-import { verifyReport } from "../record/verify.js";
-import { timeAverageAt } from "../study/at.js";
-import { fullTable } from "../study/fullTable.js";
-import { runStudy } from "../study/runStudy.js";
-import { studyPlan, planText } from "./plan.js";
+
+// Each command loads what it needs when it runs, so that starting the command line stays quick.
+const publishing = () => import("../record/publish.js");
 
 let status = 0;
 /** The exit status a command asked for without throwing (verify's verdict). */
@@ -26,6 +22,7 @@ export async function report(
 ): Promise<void> {
   const study = await loadStudy(manifest);
   const started = Date.now();
+  const { publishStudy } = await publishing();
   const r = await publishStudy(study, {
     out: o.out,
     force: o.force ?? false,
@@ -49,6 +46,7 @@ function summarize(dir: string, warnings: number, ms: number, pdfPages: number |
 
 export async function check(manifest: string, o: { json?: boolean; workers?: number }): Promise<void> {
   const study = await loadStudy(manifest);
+  const [{ runStudy }, { studyPlan, planText }] = await Promise.all([import("../study/runStudy.js"), import("./plan.js")]);
   const { outcome } = await runStudy(study, { workers: o.workers });
   const plan = studyPlan(study, outcome);
   if (o.json) say(JSON.stringify(plan, null, 2));
@@ -57,6 +55,7 @@ export async function check(manifest: string, o: { json?: boolean; workers?: num
 
 export async function at(manifest: string, o: { scenario: string; run: string; measure: string; time: number; json?: boolean }): Promise<void> {
   const study = await loadStudy(manifest);
+  const { timeAverageAt } = await import("../study/at.js");
   const r = await timeAverageAt(study, o, o.time);
   if (o.json) say(JSON.stringify(r.result));
   else for (const line of r.lines) say(line);
@@ -64,6 +63,7 @@ export async function at(manifest: string, o: { scenario: string; run: string; m
 
 export async function table(manifest: string, o: { scenario: string; run: string; measure: string; out?: string }): Promise<void> {
   const study = await loadStudy(manifest);
+  const { fullTable } = await import("../study/fullTable.js");
   const tables = await fullTable(study, o);
   if (o.out === undefined) {
     process.stdout.write(tables[0].csv);
@@ -88,6 +88,7 @@ export async function summarizeRun(manifest: string, o: { scenario: string; run:
 }
 
 export async function verify(dir: string, o: { inputs?: string }): Promise<void> {
+  const { verifyReport } = await import("../record/verify.js");
   const v = await verifyReport(dir, o);
   for (const l of v.lines) say(`${l.ok ? "ok      " : "FAILED  "}${l.item}: ${l.detail}`);
   const failed = v.lines.filter((l) => !l.ok).length;
@@ -96,6 +97,7 @@ export async function verify(dir: string, o: { inputs?: string }): Promise<void>
 }
 
 export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean }): Promise<void> {
+  const [{ demoDirUsable, writeFerryStudy }, { publishStudy }] = await Promise.all([import("../demo/ferry.js"), publishing()]);
   if (!demoDirUsable(dir)) {
     throw new UserError(`${dir}: the folder exists and is not an earlier demo folder.\n  What to do: choose a new or empty folder for the demo.`);
   }

@@ -1,6 +1,4 @@
 import type { Study } from "../manifest/types.js";
-import { buildReportModel } from "../report/model.js";
-import { renderHtml } from "../report/html.js";
 import { runStudy } from "../study/runStudy.js";
 import { sha256 } from "../study/tables.js";
 import { makeRecord, type StudyRecord } from "./record.js";
@@ -52,7 +50,11 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
   const progress = options.onProgress ?? (() => {});
   const staged = new StagedDir(options.out, options.force);
   try {
-    const { outcome, tableFiles } = await runStudy(study, { onProgress: progress, workers: options.workers, fromSummaries: options.fromSummaries });
+    const computed = runStudy(study, { onProgress: progress, workers: options.workers, fromSummaries: options.fromSummaries });
+    // The report's modules (templates, chart renderer) load while the runs are read.
+    const reportModules = Promise.all([import("../report/model.js"), import("../report/html.js")]);
+    const { outcome, tableFiles } = await computed;
+    const [{ buildReportModel }, { renderHtml }] = await reportModules;
     const outputs: StudyRecord["outputs"] = [];
     const put = (file: string, data: string) => {
       staged.write(file, data);
