@@ -22,3 +22,9 @@ export class Random {
     return -Math.log(1 - this.next()) / rate;
   }
 }
+
+/** The generator as a function giving uniform numbers on [0, 1). */
+export function uniform(seed: number): () => number {
+  const r = new Random(seed);
+  return () => r.next();
+}

@@ -251,6 +251,11 @@ export function evenSample(values: number[], max: number = MAX_HISTOGRAM_VALUES)
   return out;
 }
 
+/** One facet row per scenario, in the study's order, labelled above the row. */
+function scenarioRows(scenarios: string[]) {
+  return { row: { field: "scenario", type: "nominal" as const, sort: scenarios, title: null, header: { labelAngle: 0, labelAlign: "left" as const, labelAnchor: "start" as const, labelOrient: "top" as const } } };
+}
+
 /** Histogram of observation values, one row per scenario, shared bins. */
 export function histogramChart(
   rows: { scenario: string; value: number }[],
@@ -261,7 +266,7 @@ export function histogramChart(
   return {
     $schema: SCHEMA,
     data: { values: rows },
-    facet: { row: { field: "scenario", type: "nominal", sort: scenarios, title: null, header: { labelAngle: 0, labelAlign: "left", labelAnchor: "start", labelOrient: "top" } } },
+    facet: scenarioRows(scenarios),
     spacing: 10,
     spec: {
       width: WIDTH,
@@ -428,7 +433,7 @@ export function timeAtValueChart(
   return {
     $schema: SCHEMA,
     data: { values: rows },
-    facet: { row: { field: "scenario", type: "nominal", sort: scenarios, title: null, header: { labelAngle: 0, labelAlign: "left", labelAnchor: "start", labelOrient: "top" } } },
+    facet: scenarioRows(scenarios),
     spacing: 10,
     spec: {
       width: WIDTH,

@@ -1,4 +1,4 @@
-import type { IntervalSteps } from "../stats/interval.js";
+import type { IntervalSteps, IntervalSummary } from "../stats/interval.js";
 
 /**
  * What a study run produces: `results.json` (typed as `Results`) plus everything the report and
@@ -56,13 +56,7 @@ export interface RunResult {
 }
 
 /** Across-run summary of one figure. Interval fields are null with fewer than two runs. */
-export interface Summary {
-  n: number;
-  mean: number | null;
-  sd: number | null;
-  half_width: number | null;
-  ci_low: number | null;
-  ci_high: number | null;
+export interface Summary extends IntervalSummary {
   [extra: string]: unknown;
 }
 

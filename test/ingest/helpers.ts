@@ -1,4 +1,5 @@
 /** Shared pieces of the ingest tests: a scratch folder, run files written in each layout, a recording sink. */
+import { uniform } from "../../src/demo/random.js";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
@@ -65,14 +66,5 @@ export async function rejection(p: Promise<unknown>): Promise<UserError> {
   throw new Error("expected a UserError, but the call succeeded");
 }
 
-/** Deterministic pseudo-random numbers in [0, 1) (mulberry32). */
-export function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Deterministic pseudo-random numbers in [0, 1) (the demo generator's mulberry32). */
+export const seeded = uniform;

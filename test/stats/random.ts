@@ -3,18 +3,10 @@
  * domain) and standard normals by the Box–Muller transform (Box and Muller 1958, "A Note on the
  * Generation of Random Normal Deviates", Annals of Mathematical Statistics 29(2), 610–611).
  */
+import { uniform as demoUniform } from "../../src/demo/random.js";
 
-/** Uniform numbers in [0, 1) from a 32-bit seed. */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+/** Uniform numbers in [0, 1) from a 32-bit seed (the demo generator's mulberry32). */
+export const mulberry32 = demoUniform;
 
 /** Standard normal numbers (mean 0, sd 1) from a uniform source, two per Box–Muller pair. */
 export function normals(uniform: () => number): () => number {
