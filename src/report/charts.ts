@@ -61,7 +61,7 @@ export interface IntervalPoint {
 /** Mean and confidence interval of one measure, one row per scenario. */
 export function intervalChart(points: IntervalPoint[], valueTitle: string): TopLevelSpec {
   const order = points.map((p) => p.scenario);
-  const y = { field: "scenario", type: "nominal", sort: order, title: null } as const;
+  const y = { field: "scenario", type: "nominal", scale: { domain: order }, title: null } as const;
   const x = { field: "mean", type: "quantitative", title: valueTitle, scale: { zero: false } } as const;
   return {
     $schema: SCHEMA,
@@ -106,7 +106,7 @@ export interface RunPoint {
 
 /** Each run's value as a dot on its scenario's row, with the scenario mean as a bar. */
 export function runsChart(points: RunPoint[], scenarios: string[], valueTitle: string): TopLevelSpec {
-  const y = { field: "scenario", type: "nominal", sort: scenarios, title: null } as const;
+  const y = { field: "scenario", type: "nominal", scale: { domain: scenarios }, title: null } as const;
   return {
     $schema: SCHEMA,
     width: WIDTH,
@@ -251,9 +251,20 @@ export function evenSample(values: number[], max: number = MAX_HISTOGRAM_VALUES)
   return out;
 }
 
-/** One facet row per scenario, in the study's order, labelled above the row. */
-function scenarioRows(scenarios: string[]) {
-  return { row: { field: "scenario", type: "nominal" as const, sort: scenarios, title: null, header: { labelAngle: 0, labelAlign: "left" as const, labelAnchor: "start" as const, labelOrient: "top" as const } } };
+/**
+ * One facet row per scenario, in the study's order, labelled above the row. The order comes from
+ * a `scenario_order` field (see `withOrder`), never from a list of names: vega looks a sort list
+ * up in a plain object, so a scenario called "constructor" or "toString" would break the chart.
+ * (For the same reason the y scales take the names as their domain, which vega handles safely.)
+ */
+function scenarioRows() {
+  return { row: { field: "scenario", type: "nominal" as const, sort: { field: "scenario_order", op: "min" as const }, title: null, header: { labelAngle: 0, labelAlign: "left" as const, labelAnchor: "start" as const, labelOrient: "top" as const } } };
+}
+
+/** Rows with their scenario's position in the study, for `scenarioRows`. */
+function withOrder<R extends { scenario: string }>(rows: R[], scenarios: string[]): (R & { scenario_order: number })[] {
+  const position = new Map(scenarios.map((name, i) => [name, i]));
+  return rows.map((r) => ({ ...r, scenario_order: position.get(r.scenario) ?? scenarios.length }));
 }
 
 /** Histogram of observation values, one row per scenario, shared bins. */
@@ -265,8 +276,8 @@ export function histogramChart(
 ): TopLevelSpec {
   return {
     $schema: SCHEMA,
-    data: { values: rows },
-    facet: scenarioRows(scenarios),
+    data: { values: withOrder(rows, scenarios) },
+    facet: scenarioRows(),
     spacing: 10,
     spec: {
       width: WIDTH,
@@ -404,7 +415,7 @@ export function ecdfChart(args: {
       encoding: {
         x: { field: "value", type: "quantitative", title: args.valueTitle },
         y: { field: "share", type: "quantitative", title: args.shareTitle, scale: { domain: [0, 1] }, axis: { format: ".0%" } },
-        color: { field: "scenario", type: "nominal", sort: args.scenarios, scale: { domain: args.scenarios, range: colors }, legend: { title: null } },
+        color: { field: "scenario", type: "nominal", scale: { domain: args.scenarios, range: colors }, legend: { title: null } },
       },
     },
   ];
@@ -432,8 +443,8 @@ export function timeAtValueChart(
 ): TopLevelSpec {
   return {
     $schema: SCHEMA,
-    data: { values: rows },
-    facet: scenarioRows(scenarios),
+    data: { values: withOrder(rows, scenarios) },
+    facet: scenarioRows(),
     spacing: 10,
     spec: {
       width: WIDTH,

@@ -110,9 +110,10 @@ export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
 
   const outputs = new Map<string, MeasureOutput>();
   const warnings: RunAnalysis["warnings"] = [];
-  const measures: RunResult["measures"] = {};
+  // Keyed by user-given names: no prototype, so a measure may even be called "__proto__".
+  const measures: RunResult["measures"] = Object.create(null);
   for (const [m, acc] of accumulators) {
-    const missing = acc.reads.filter((r) => report.seriesRows[r.series] === undefined).map((r) => r.series);
+    const missing = acc.reads.filter((r) => !Object.hasOwn(report.seriesRows, r.series)).map((r) => r.series);
     if (missing.length > 0) {
       warnings.push({
         measure: m.name,
@@ -128,7 +129,8 @@ export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
   }
 
   let requested = 0;
-  for (const r of requests) requested += report.seriesRows[r.name] ?? 0;
+  // Own keys only: a series may be called "toString" or "constructor".
+  for (const r of requests) if (Object.hasOwn(report.seriesRows, r.name)) requested += report.seriesRows[r.name];
   const input: InputRecord = {
     scenario: scenario.name,
     run: run.id,
@@ -145,6 +147,9 @@ export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
     sha256: report.sha256,
     start: run.start,
     end: run.end,
+    // Rows read and rows left out (CONTRACT.md section 3: rows after the end are reported).
+    rows: input.rows,
+    left_out: input.left_out,
     measures,
   };
   if (window.warmup !== null) result.warmup = window.warmup;

@@ -105,7 +105,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     const analyses = all.slice(first, first + scenario.runs.length);
     first += scenario.runs.length;
 
-    const sc: ScenarioResult = { name: scenario.name, runs: analyses.map((a) => a.result), summary: {} };
+    const sc: ScenarioResult = { name: scenario.name, runs: analyses.map((a) => a.result), summary: Object.create(null) };
     if (scenario.warmup.type !== "none") sc.warmup = warmup.time;
     if (warmup.estimate !== null) sc.warmup_estimate = warmup.estimate;
     if (batches !== null) sc.analysis = { method: "batch-means", batches };

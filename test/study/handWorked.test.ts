@@ -148,3 +148,40 @@ measures:
     expect(figures(outcome.results, "u").value).toBe(16 / 30);
   });
 });
+
+describe("rows left out are reported in results.json", () => {
+  it("each run carries its rows read and rows left out (CONTRACT.md section 3)", async () => {
+    const file = csv([[0, "queue", 2], [1, "other", 1], [3, "queue", 5], [12, "queue", 3]]);
+    const { outcome } = await studyOf(levelManifest("warmup: 2"), { "runs/r1.csv": file });
+    const run = outcome.results.scenarios[0].runs[0];
+    // computed by hand: 4 rows; t = 12 is after the end; t = 0 is before the warm-up; "other" is read by no measure
+    expect(run.rows).toBe(4);
+    expect(run.left_out).toEqual({ after_end: 1, before_window: 1, unused_series: 1 });
+  });
+});
+
+describe("series named like object properties", () => {
+  it("a series called toString or constructor is counted like any other (regression found by fuzzing)", async () => {
+    const file = csv([[0, "toString", 1], [1, "constructor", 2], [2, "q", 3]]);
+    const m = `title: t\nscenarios:\n  - {name: a, end: 10, runs: [r.csv]}\nmeasures:\n  - {name: t, kind: level, series: toString}\n  - {name: p, kind: level, series: __proto__}\n`;
+    const { outcome } = await studyOf(m, { "r.csv": file });
+    const run = outcome.results.scenarios[0].runs[0];
+    // computed by hand: "constructor" and "q" are read by no measure; "__proto__" never appears
+    expect(run.left_out).toEqual({ after_end: 0, before_window: 0, unused_series: 2 });
+    expect(outcome.warnings.some((w) => w.message.includes('"__proto__" never appears'))).toBe(true);
+    expect(figures(outcome.results, "t").mean).toBe(1);
+  });
+});
+
+describe("measures named like object properties", () => {
+  it("a measure called __proto__ or constructor appears in results like any other (common practice: user names are data)", async () => {
+    const file = csv([[0, "q", 1], [5, "q", 3]]);
+    const m = `title: t\nscenarios:\n  - {name: a, end: 10, runs: [r.csv]}\nmeasures:\n  - {name: __proto__, kind: level, series: q}\n  - {name: constructor, kind: count, series: q}\n`;
+    const { outcome } = await studyOf(m, { "r.csv": file });
+    const json = JSON.parse(JSON.stringify(outcome.results));
+    // computed by hand: 1 on [0,5], 3 on [5,10]: time average 2; two rows
+    expect(Object.keys(json.scenarios[0].runs[0].measures)).toEqual(["__proto__", "constructor"]);
+    expect(json.scenarios[0].runs[0].measures["__proto__"].mean).toBe(2);
+    expect(json.scenarios[0].summary["constructor"].mean).toBe(2);
+  });
+});
