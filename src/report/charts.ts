@@ -267,6 +267,11 @@ function withOrder<R extends { scenario: string }>(rows: R[], scenarios: string[
   return rows.map((r) => ({ ...r, scenario_order: position.get(r.scenario) ?? scenarios.length }));
 }
 
+/** A chart drawn once per scenario, one row each, in the study's order. */
+function facetedByScenario(values: object[], spec: object): TopLevelSpec {
+  return { $schema: SCHEMA, data: { values }, facet: scenarioRows(), spacing: 10, spec, config: config() } as TopLevelSpec;
+}
+
 /** Histogram of observation values, one row per scenario, shared bins. */
 export function histogramChart(
   rows: { scenario: string; value: number }[],
@@ -274,22 +279,15 @@ export function histogramChart(
   valueTitle: string,
   countTitle: string,
 ): TopLevelSpec {
-  return {
-    $schema: SCHEMA,
-    data: { values: withOrder(rows, scenarios) },
-    facet: scenarioRows(),
-    spacing: 10,
-    spec: {
-      width: WIDTH,
-      height: 80,
-      mark: { type: "bar", color: PALETTE.tide, opacity: 0.85, binSpacing: 1 },
-      encoding: {
-        x: { field: "value", type: "quantitative", bin: { maxbins: 30 }, title: valueTitle },
-        y: { aggregate: "count", type: "quantitative", title: countTitle },
-      },
+  return facetedByScenario(withOrder(rows, scenarios), {
+    width: WIDTH,
+    height: 80,
+    mark: { type: "bar", color: PALETTE.tide, opacity: 0.85, binSpacing: 1 },
+    encoding: {
+      x: { field: "value", type: "quantitative", bin: { maxbins: 30 }, title: valueTitle },
+      y: { aggregate: "count", type: "quantitative", title: countTitle },
     },
-    config: config(),
-  } as TopLevelSpec;
+  });
 }
 
 /** Most points the warm-up plot draws per line; longer slice series are sampled evenly for drawing. */
@@ -441,20 +439,13 @@ export function timeAtValueChart(
   valueTitle: string,
   shareTitle: string,
 ): TopLevelSpec {
-  return {
-    $schema: SCHEMA,
-    data: { values: withOrder(rows, scenarios) },
-    facet: scenarioRows(),
-    spacing: 10,
-    spec: {
-      width: WIDTH,
-      height: 90,
-      mark: { type: "bar", color: PALETTE.ochre, opacity: 0.9 },
-      encoding: {
-        x: { field: "value", type: "ordinal", sort: "ascending", title: valueTitle, axis: { labelAngle: 0, labelOverlap: "parity" } },
-        y: { field: "share", type: "quantitative", title: shareTitle, axis: { format: ".0%" } },
-      },
+  return facetedByScenario(withOrder(rows, scenarios), {
+    width: WIDTH,
+    height: 90,
+    mark: { type: "bar", color: PALETTE.ochre, opacity: 0.9 },
+    encoding: {
+      x: { field: "value", type: "ordinal", sort: "ascending", title: valueTitle, axis: { labelAngle: 0, labelOverlap: "parity" } },
+      y: { field: "share", type: "quantitative", title: shareTitle, axis: { format: ".0%" } },
     },
-    config: config(),
-  } as TopLevelSpec;
+  });
 }
