@@ -119,35 +119,46 @@ export class CsvParser implements ChunkParser {
       if (p < end && buf[p] === QUOTE) return QUOTED;
       const role = field < known ? roles[field] : REST;
       if (role === TIME || role === VALUE) {
-        let x = scanDecimal(buf, p, end);
-        q = scanned.end;
-        if (x !== x || (q < end && buf[q] !== COMMA && buf[q] !== LF)) {
-          q = fieldEnd(buf, p, end);
-          if (q === end && !final) return INCOMPLETE;
-          const y = parseDecimalBytes(buf, p, q);
-          if (y === undefined) {
-            const text = buf.toString("utf8", p, q).trim();
-            throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+        let x: number;
+        if (p < end && (buf[p] === COMMA || buf[p] === LF)) {
+          x = NaN; // an empty cell
+          q = p;
+        } else {
+          x = scanDecimal(buf, p, end);
+          q = scanned.end;
+          if (x !== x || (q < end && buf[q] !== COMMA && buf[q] !== LF)) {
+            q = fieldEnd(buf, p, end);
+            if (q === end && !final) return INCOMPLETE;
+            const y = parseDecimalBytes(buf, p, q);
+            if (y === undefined) {
+              const text = buf.toString("utf8", p, q).trim();
+              throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+            }
+            x = y;
           }
-          x = y;
         }
         if (role === TIME) time = x;
         else value = x;
       } else if (role === SERIES) {
-        // Find the field's end and hash its bytes in the same pass (see `hashBytes`).
-        let h = 0;
-        q = p;
-        while (q < end) {
-          const c = buf[q];
-          if (c === COMMA || c === LF) break;
-          h = (Math.imul(h, 31) + c) | 0;
-          q++;
-        }
-        if (q === end && !final) return INCOMPLETE;
-        entry = this.table.lookupBytes(buf, p, q, h);
-        if (entry === null) {
-          if ((q === end || buf[q] === LF) && isBlank(buf, rowStart, q)) return this.blankRow(q, end);
-          throw ingestMessages.emptySeries(this.display, this.line);
+        // The usual case: the cell is exactly a name seen before (`matchKnown`); else find the
+        // field's end, hashing its bytes in the same pass (see `hashBytes`).
+        entry = this.table.matchKnown(buf, p, end);
+        if (entry !== null) q = this.table.matchedEnd;
+        else {
+          let h = 0;
+          q = p;
+          while (q < end) {
+            const c = buf[q];
+            if (c === COMMA || c === LF) break;
+            h = (Math.imul(h, 31) + c) | 0;
+            q++;
+          }
+          if (q === end && !final) return INCOMPLETE;
+          entry = this.table.lookupBytes(buf, p, q, h);
+          if (entry === null) {
+            if ((q === end || buf[q] === LF) && isBlank(buf, rowStart, q)) return this.blankRow(q, end);
+            throw ingestMessages.emptySeries(this.display, this.line);
+          }
         }
       } else if (role === REST) {
         q = p;

@@ -8,8 +8,9 @@
  * Fast path (Clinger 1990, "How to read floating point numbers accurately"): when the decimal
  * digits form an integer mantissa m < 2^53 and the scale is 10^k with |k| <= 22, both m and 10^|k|
  * are exact doubles, so one IEEE multiplication or division rounds m * 10^k correctly. Example:
- * `"12.375"` -> m = 12375, k = -3, 12375 / 1000 = 12.375. Anything else goes to `Number()` on the
- * text, after the grammar is checked.
+ * `"12.375"` -> m = 12375, k = -3, 12375 / 1000 = 12.375. A wide path (`wideDecimal`) takes the
+ * 16-18 digit mantissas that doubles printed in full have, with an exact residual check. Anything
+ * else goes to `Number()` on the text, after the grammar is checked.
  */
 
 const POW10 = [
@@ -44,23 +45,43 @@ export function scanDecimal(buf: Uint8Array, p: number, lim: number): number {
       p++;
     } else if (c === 43) p++;
   }
+  // Digits gather in `a`, a small integer (kept within int32 arithmetic), nine at a time; each
+  // full group of nine moves into the double `m`. That keeps the per-digit work on integers.
   let m = 0;
-  let digits = 0;
+  let a = 0;
+  let inA = 0;
+  let digits: number;
   let fraction = 0;
+  const intStart = p;
   while (p < lim && (c = buf[p] - 48) >= 0 && c <= 9) {
-    m = m * 10 + c;
+    if (inA === 9) {
+      m = m * 1e9 + a;
+      a = 0;
+      inA = 0;
+    }
+    a = a * 10 + c;
+    inA++;
     p++;
-    digits++;
   }
+  digits = p - intStart;
   if (p < lim && buf[p] === 46) {
     p++;
+    const fractionStart = p;
     while (p < lim && (c = buf[p] - 48) >= 0 && c <= 9) {
-      m = m * 10 + c;
+      if (inA === 9) {
+        m = m * 1e9 + a;
+        a = 0;
+        inA = 0;
+      }
+      a = a * 10 + c;
+      inA++;
       p++;
-      digits++;
-      fraction++;
     }
+    fraction = p - fractionStart;
+    digits += fraction;
   }
+  const prefix = m;
+  m = m * POW10[inA] + a;
   if (digits === 0) return NaN;
   let exponent = 0;
   if (p < lim && (buf[p] | 32) === 101) {
@@ -84,9 +105,15 @@ export function scanDecimal(buf: Uint8Array, p: number, lim: number): number {
   }
   while (p < lim && ((c = buf[p]) === SPACE || c === TAB || c === CR)) p++;
   scanned.end = p;
-  // m only grows digit by digit (rounding is monotone), so m < 2^53 at the end means every step was exact.
-  if (m >= TWO_53) return NaN;
   const k = exponent - fraction;
+  // m only grows (rounding is monotone), so m < 2^53 at the end means every step was exact.
+  if (m >= TWO_53) {
+    // 16 to 18 digits, as a double printed in full has: the wide path when the digits before the
+    // last group were exact.
+    if (prefix >= TWO_53 || k > 0 || k < -22 || m === Infinity) return NaN;
+    const v = wideDecimal(prefix, inA, a, -k);
+    return negative ? -v : v;
+  }
   let v: number;
   if (k === 0) v = m;
   else if (k > 0 && k <= 22) v = m * POW10[k];
@@ -94,6 +121,74 @@ export function scanDecimal(buf: Uint8Array, p: number, lim: number): number {
   else return NaN;
   return negative ? -v : v;
 }
+
+/** Veltkamp's splitter 2^27 + 1: splits a double into two halves of at most 26 bits. */
+const SPLITTER = 134217729;
+const bits = new Float64Array(1);
+const words = new Uint32Array(bits.buffer);
+/** Index of the word holding the sign, the exponent and the top of the significand. */
+const HIGH = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1 ? 1 : 0;
+
+/**
+ * The exact product a * b as p + e, p = fl(a * b) (Dekker 1971, "A floating-point technique for
+ * extending the available precision", Numerische Mathematik 18; no overflow at these sizes).
+ */
+function twoProduct(a: number, b: number): number {
+  const p = a * b;
+  let c = SPLITTER * a;
+  const ah = c - (c - a);
+  const al = a - ah;
+  c = SPLITTER * b;
+  const bh = c - (c - b);
+  const bl = b - bh;
+  productError = al * bl - (((p - ah * bh) - al * bh) - ah * bl);
+  return p;
+}
+let productError = 0;
+
+/**
+ * The correctly rounded value of the integer M = prefix * 10^inA + a divided by 10^f (0 <= f <= 22),
+ * for M >= 2^53 and prefix < 2^53 (so prefix is exact); NaN when the check below cannot decide.
+ *
+ * M is held exactly as s + t (Dekker's product, then Knuth's two-sum; t is a small integer). The
+ * candidate is x = fl(s / 10^f). x is the nearest double to M / 10^f when |M - x * 10^f| is below
+ * half a unit in the last place of x times 10^f (x not a power of two, so both of its neighbours are
+ * one unit away); else, when the residual is beyond that half on one side, the neighbour of x on
+ * that side may be (its residual is one unit less). Residuals are exact except for one rounding of
+ * relative size 2^-53, so a margin of 2^-40 decides safely; a residual near a half (a tie, or a
+ * doubt), or x a power of two, goes to `Number()`. Digits that long are what a double printed in
+ * full gives.
+ */
+function wideDecimal(prefix: number, inA: number, a: number, f: number): number {
+  const p1 = twoProduct(prefix, POW10[inA]);
+  const e1 = productError;
+  const s = p1 + a;
+  const bb = s - p1;
+  const e2 = p1 - (s - bb) + (a - bb); // Knuth's two-sum: p1 + a = s + e2 exactly
+  const t = e1 + e2; // both integers below 2^40 here: exact
+  if (f === 0) return s + t; // one rounding of the exact M
+  const D = POW10[f];
+  const x = s / D;
+  const p = twoProduct(x, D);
+  const r = s - p + t - productError; // s - p exact (Sterbenz), + t exact (small integers)
+  bits[0] = x;
+  const high = words[HIGH];
+  const exp = (high >>> 20) & 0x7ff;
+  if (((high & 0xfffff) === 0 && words[1 - HIGH] === 0) || exp <= 52) return NaN;
+  words[HIGH] = (exp - 52) << 20;
+  words[1 - HIGH] = 0;
+  const ulp = bits[0];
+  const unit = ulp * D; // ulp(x) * 10^f, exact
+  const near = unit * (0.5 - MARGIN);
+  if (Math.abs(r) < near) return x;
+  // The division rounded s, not M: the answer may be the neighbour on the residual's side.
+  const r2 = r > 0 ? r - unit : r + unit;
+  if (Math.abs(r) > unit * (0.5 + MARGIN) && Math.abs(r2) < near) return r > 0 ? x + ulp : x - ulp;
+  return NaN;
+}
+
+/** Relative doubt allowed for in the residual (its one rounding is 2^-53 at most). */
+const MARGIN = 2 ** -40;
 
 const DECIMAL = /^[ \t]*[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?[ \t]*$/;
 const BLANK = /^[ \t\r]*$/;

@@ -1,6 +1,12 @@
 /**
- * Hands chunks of decompressed bytes to a row parser and keeps the part of a row that runs past a
- * chunk's end for the next one. Also drops a UTF-8 byte-order mark at the start of the data.
+ * Hands bytes to a row parser through one working buffer, and keeps the part of a row that runs
+ * past the bytes at hand for the next fill. Also drops a UTF-8 byte-order mark at the start.
+ *
+ *   working buffer: [ carried part of a row | newly read bytes | free space ]
+ *
+ * A plain file is read straight into the free space (`space` then `filled`: no copy, no buffer per
+ * read); decompressed chunks are copied in (`push`). After each parse the unparsed tail moves to
+ * the front. The buffer grows only when one row is longer than half of it.
  */
 
 /** A parser of rows from bytes. */
@@ -18,60 +24,78 @@ export interface ChunkParser {
 const RETRY_LIMIT = 1 << 16;
 
 export class ChunkFeeder {
-  private carry: Buffer | null = null;
-  private held: Buffer[] = [];
-  private heldBytes = 0;
-  /** Bytes to hold before the carried row is parsed again (0: at the next chunk). */
+  private work: Buffer;
+  /** Bytes held at the front of `work`: the carried tail plus bytes not yet parsed. */
+  private held = 0;
+  /** Length of the carried tail after the last parse. */
+  private carried = 0;
+  /** Bytes to hold beyond the carried tail before it is parsed again (0: at the next fill). */
   private wait = 0;
   private started = false;
 
-  constructor(private readonly parser: ChunkParser) {}
+  /** `size`: the largest number of bytes one fill brings. */
+  constructor(
+    private readonly parser: ChunkParser,
+    private readonly size: number,
+  ) {
+    this.work = Buffer.allocUnsafe(Math.max(2 * size, 64));
+  }
 
-  push(chunk: Buffer): void {
-    if (chunk.length === 0) return;
-    if (this.carry !== null) {
-      this.held.push(chunk);
-      this.heldBytes += chunk.length;
-      if (this.heldBytes < this.wait) return;
-      chunk = this.takeAll();
+  /** Free space of at least `size` bytes to read into; pass the bytes read to `filled`. */
+  space(): Buffer {
+    if (this.work.length - this.held < this.size) {
+      const bigger = Buffer.allocUnsafe(Math.max(2 * this.work.length, this.held + this.size));
+      this.work.copy(bigger, 0, 0, this.held);
+      this.work = bigger;
     }
-    this.run(chunk, false);
+    return this.work.subarray(this.held, this.held + this.size);
+  }
+
+  /** `n` bytes were written at the start of the last `space()`. */
+  filled(n: number): void {
+    if (n === 0) return;
+    this.held += n;
+    if (this.held - this.carried < this.wait) return;
+    this.run(false);
+  }
+
+  /** Copies `chunk` in, `size` bytes at a time. */
+  push(chunk: Buffer): void {
+    for (let at = 0; at < chunk.length; at += this.size) {
+      const part = chunk.subarray(at, at + this.size);
+      part.copy(this.space());
+      this.filled(part.length);
+    }
   }
 
   /** The end of the data: parses what is left and lets the parser check the file as a whole. */
   finish(): void {
-    this.run(this.carry === null ? Buffer.alloc(0) : this.takeAll(), true);
+    this.run(true);
     this.parser.finish();
   }
 
-  private takeAll(): Buffer {
-    const all = Buffer.concat([this.carry as Buffer, ...this.held]);
-    this.carry = null;
-    this.held = [];
-    this.heldBytes = 0;
-    return all;
-  }
-
-  private run(buf: Buffer, final: boolean): void {
+  private run(final: boolean): void {
+    const buf = this.work.subarray(0, this.held);
     let pos = 0;
     if (!this.started) {
       if (buf.length < 3 && !final) {
-        this.keep(buf, 0);
+        this.keep(0);
         return;
       }
       this.started = true;
       if (buf.length >= 3 && buf[0] === 0xef && buf[1] === 0xbb && buf[2] === 0xbf) pos = 3;
     }
     const used = this.parser.parse(buf, pos, final);
-    if (used < buf.length) {
-      if (final) throw new Error(`ingest: the parser left ${buf.length - used} bytes at the end of the data`);
-      this.keep(buf, used);
-    }
+    if (used < buf.length && final) throw new Error(`ingest: the parser left ${buf.length - used} bytes at the end of the data`);
+    this.keep(used);
   }
 
-  private keep(buf: Buffer, from: number): void {
-    const tail = buf.length - from;
-    this.carry = buf.subarray(from);
+  /** Moves the unparsed bytes from `from` on to the front. */
+  private keep(from: number): void {
+    const tail = this.held - from;
+    if (from > 0 && tail > 0) this.work.copyWithin(0, from, this.held);
+    this.held = tail;
+    this.carried = tail;
     this.wait = tail > RETRY_LIMIT ? tail : 0;
   }
 }

@@ -4,6 +4,8 @@
  *   file ──read 1 MiB──┬─► SHA-256 and byte count (bytes as stored)
  *                      └─► [gunzip] ─► ChunkFeeder ─► CsvParser | JsonLinesParser ─► SeriesTable ─► onRow
  *
+ * A plain file is read straight into the feeder's working buffer (no buffer per read).
+ *
  * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
  * end, and one entry per distinct series. A large file read from the main thread is parsed on a
  * second thread while this one feeds the measures (`pipeline.ts`).
@@ -11,6 +13,7 @@
 import { createHash } from "node:crypto";
 import { pipelineWanted, readRunPipelined } from "./pipeline.js";
 import { createReadStream } from "node:fs";
+import { open } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import type { ColumnMap } from "../manifest/types.js";
 import { UserError } from "../messages/error.js";
@@ -96,51 +99,60 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
     format.format === "csv"
       ? new CsvParser(table, display, opts.columns)
       : new JsonLinesParser(table, display, opts.columns);
-  const feeder = new ChunkFeeder(parser);
+  const feeder = new ChunkFeeder(parser, chunkSize);
   const hash = createHash("sha256");
   let bytes = 0;
 
-  const feed = (chunk: Buffer): void => {
-    if (chunk.length <= chunkSize) feeder.push(chunk);
-    else for (let at = 0; at < chunk.length; at += chunkSize) feeder.push(chunk.subarray(at, at + chunkSize));
-  };
-
-  const raw = createReadStream(opts.path, { highWaterMark: chunkSize });
+  // Errors of the parser (input errors) and of `onRow` pass through; the rest are the file's.
   let failure: unknown = null;
+  const parsed = (fill: () => void): void => {
+    try {
+      fill();
+    } catch (e) {
+      failure = e;
+      throw e;
+    }
+  };
   try {
     if (!format.gzip) {
-      for await (const chunk of raw) {
-        hash.update(chunk as Buffer);
-        bytes += (chunk as Buffer).length;
-        try {
-          feed(chunk as Buffer);
-        } catch (e) {
-          failure = e;
-          throw e;
+      const file = await open(opts.path, "r");
+      try {
+        // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
+        let here = Buffer.allocUnsafe(chunkSize);
+        let there = Buffer.allocUnsafe(chunkSize);
+        let next = file.read(here, 0, chunkSize, null);
+        for (;;) {
+          const { bytesRead: n } = await next;
+          if (n === 0) break;
+          const chunk = here.subarray(0, n);
+          [here, there] = [there, here];
+          next = file.read(here, 0, chunkSize, null);
+          hash.update(chunk);
+          bytes += n;
+          parsed(() => feeder.push(chunk));
         }
+        await next.catch(() => {});
+      } finally {
+        await file.close();
       }
     } else {
-      const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
-      raw.on("data", (chunk: Buffer | string) => {
-        hash.update(chunk as Buffer);
-        bytes += chunk.length;
-      });
-      raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
-      raw.pipe(gunzip);
-      for await (const chunk of gunzip) {
-        try {
-          feed(chunk as Buffer);
-        } catch (e) {
-          failure = e;
-          throw e;
-        }
+      const raw = createReadStream(opts.path, { highWaterMark: chunkSize });
+      try {
+        const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
+        raw.on("data", (chunk: Buffer | string) => {
+          hash.update(chunk as Buffer);
+          bytes += chunk.length;
+        });
+        raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
+        raw.pipe(gunzip);
+        for await (const chunk of gunzip) parsed(() => feeder.push(chunk as Buffer));
+      } finally {
+        raw.destroy();
       }
     }
   } catch (e) {
     if (e === failure || e instanceof UserError) throw e;
     throw sourceProblem(e, display, format.format, format.gzip, bytes);
-  } finally {
-    raw.destroy();
   }
   if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
   feeder.finish();

@@ -56,6 +56,13 @@ export class SeriesTable {
   private readonly keyBytes: Buffer[] = [];
   private readonly keyHash: number[] = [];
   private readonly keyEntry: SeriesEntry[] = [];
+  /**
+   * For each first byte, the key starting with it (index + 1); 0 when none, -1 when several.
+   * Keys never start with a space or a tab (cells are trimmed before they become keys).
+   */
+  private readonly byFirstByte = new Int32Array(256);
+  /** Where the cell matched by the last successful `matchKnown` ends (its comma or line feed). */
+  matchedEnd = 0;
 
   constructor(
     private readonly wanted: readonly SeriesWanted[],
@@ -101,9 +108,30 @@ export class SeriesTable {
     this.keyHash.push(h);
     this.keyEntry.push(entry);
     slots[s] = this.keyBytes.length;
+    const first = bytes[0];
+    this.byFirstByte[first] = this.byFirstByte[first] === 0 ? this.keyBytes.length : -1;
     if (this.keyBytes.length * 2 > slots.length) this.grow();
     this.lastKey = this.keyBytes.length - 1;
     return entry;
+  }
+
+  /**
+   * The series whose name is exactly the bytes from `p` up to the next comma or line feed, when
+   * that name was seen before and is the only known one with its first byte; else null (the
+   * caller then finds the cell's end and asks `lookupBytes`). Sets `matchedEnd` on a match.
+   */
+  matchKnown(buf: Buffer, p: number, end: number): SeriesEntry | null {
+    if (p >= end) return null;
+    const k = this.byFirstByte[buf[p]] - 1;
+    if (k < 0) return null;
+    const key = this.keyBytes[k];
+    const stop = p + key.length;
+    if (stop >= end) return null;
+    const c = buf[stop];
+    if (c !== 44 && c !== 10) return null;
+    for (let i = 1; i < key.length; i++) if (key[i] !== buf[p + i]) return null;
+    this.matchedEnd = stop;
+    return this.keyEntry[k];
   }
 
   /** The series of a decoded name (used as is), or null when empty. */
