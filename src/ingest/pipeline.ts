@@ -1,15 +1,19 @@
 /**
  * Reading one large run file on two threads:
  *
- *   worker thread: read ─► [gunzip] ─► parse ─► checks ─► batches of rows (typed arrays) ─┐
- *   main thread:                                         onRow ◄── each batch, in order ◄─┘
+ *   worker thread: read ─┬─► [gunzip] ─► parse ─► checks ─► batches of rows (typed arrays) ─┐
+ *                        └─► copy of the bytes as stored ──────────────────────────────────┐  │
+ *   main thread:                              SHA-256 ◄── each chunk, in order ◄──────────┘  │
+ *                                             onRow ◄──── each batch, in order ◄─────────────┘
  *
- * The worker does everything `readRunHere` does (SHA-256, row counts, every input check) and
- * sends the rows of requested series in batches; the main thread feeds them to the measures while
- * the worker parses on. At most MAX_IN_FLIGHT batches wait at a time (the worker sleeps on a
+ * The worker does everything `readRunHere` does (row counts, every input check) and sends the
+ * rows of requested series in batches, and a copy of each chunk of the file's bytes, which the main
+ * thread hashes (SHA-256) while it waits for rows; the main thread feeds the rows to the measures
+ * while the worker parses on. At most MAX_IN_FLIGHT batches wait at a time (the worker sleeps on a
  * shared counter), so memory stays bounded whatever the file's length. Rows reach `onRow` in file
  * order and an input error arrives after the rows before it, exactly as when reading in one thread.
  */
+import { createHash } from "node:crypto";
 import { existsSync, statSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { Worker, isMainThread } from "node:worker_threads";
@@ -23,7 +27,8 @@ import type { ReadOptions, ReadReport } from "./readRun.js";
 export const PARALLEL_BYTES = Number(process.env.SOJOURN_PARALLEL_BYTES) || 32 * 1024 * 1024;
 
 export const BATCH_ROWS = 1 << 16;
-export const MAX_IN_FLIGHT = 8;
+/** Messages (row batches and chunks of bytes to hash) the reader may have sent and not seen read. */
+export const MAX_IN_FLIGHT = 16;
 
 const WORKER_FILE = new URL("./readWorker.js", import.meta.url);
 
@@ -40,6 +45,7 @@ export interface RowBatch {
 
 export type WorkerMessage =
   | RowBatch
+  | { type: "bytes"; data: Uint8Array }
   | { type: "done"; report: ReadReport }
   | { type: "error"; user: boolean; message: string; exitCode: 1 | 2; stack?: string };
 
@@ -58,6 +64,7 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
   const inFlight = new Int32Array(control);
   const { path, display, columns, series } = opts;
   const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series }, control } });
+  const hash = createHash("sha256");
   return new Promise<ReadReport>((resolve, reject) => {
     let settled = false;
     const finish = (error: unknown, report?: ReadReport) => {
@@ -81,8 +88,12 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
         }
         Atomics.sub(inFlight, 0, 1);
         Atomics.notify(inFlight, 0);
+      } else if (m.type === "bytes") {
+        hash.update(m.data);
+        Atomics.sub(inFlight, 0, 1);
+        Atomics.notify(inFlight, 0);
       } else if (m.type === "done") {
-        finish(null, m.report);
+        finish(null, { ...m.report, sha256: hash.digest("hex") });
       } else {
         const e = m.user ? new UserError(m.message, m.exitCode) : new Error(m.message);
         if (!m.user && m.stack !== undefined) e.stack = m.stack;

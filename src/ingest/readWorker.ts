@@ -23,11 +23,16 @@ function fresh(): RowBatch {
 
 let batch = fresh();
 
-function flush(): void {
-  if (batch.n === 0) return;
+/** Waits until fewer than MAX_IN_FLIGHT messages are unread by the main thread, then counts one more. */
+function reserve(): void {
   let waiting: number;
   while ((waiting = Atomics.load(inFlight, 0)) >= MAX_IN_FLIGHT) Atomics.wait(inFlight, 0, waiting);
   Atomics.add(inFlight, 0, 1);
+}
+
+function flush(): void {
+  if (batch.n === 0) return;
+  reserve();
   if (batch.entities !== null) batch.entities.length = batch.n;
   port.postMessage(batch, [batch.series.buffer, batch.time.buffer, batch.value.buffer, batch.line.buffer] as ArrayBuffer[]);
   batch = fresh();
@@ -38,6 +43,12 @@ const send = (m: WorkerMessage) => port.postMessage(m);
 try {
   const report = await readRunHere({
     ...opts,
+    // The main thread hashes a copy of each chunk: it waits for rows anyway.
+    storedBytes(chunk) {
+      reserve();
+      const copy = new Uint8Array(chunk);
+      port.postMessage({ type: "bytes", data: copy }, [copy.buffer]);
+    },
     onRow(seriesIndex, time, value, entity, line) {
       const b = batch;
       const k = b.n++;
