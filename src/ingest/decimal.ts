@@ -24,7 +24,7 @@ const TAB = 9;
 const CR = 13;
 
 /** Where the last `scanDecimal` stopped: the first byte after the number and its trailing spaces. */
-export const scanned = { end: 0 };
+export const scanned = { end: 0, negative: false };
 
 /**
  * The fast path: reads a decimal from `buf[p..lim)` and returns its value, or NaN when it cannot
@@ -35,39 +35,24 @@ export const scanned = { end: 0 };
  * @example scanDecimal(Buffer.from("-0.25,x"), 0, 7) // -0.25, scanned.end === 5
  */
 export function scanDecimal(buf: Uint8Array, p: number, lim: number): number {
-  let c: number;
-  while (p < lim && ((c = buf[p]) === SPACE || c === TAB)) p++;
+  // Kept small enough for the optimizing compiler to inline it into the row parsers: the rare
+  // parts (leading spaces and signs, exponents, trailing spaces, long mantissas) are helpers.
   let negative = false;
-  if (p < lim) {
-    c = buf[p];
-    if (c === 45) {
-      negative = true;
-      p++;
-    } else if (c === 43) p++;
+  let c = p < lim ? buf[p] : 0;
+  if (c === SPACE || c === TAB || c === 45 || c === 43) {
+    p = skipLead(buf, p, lim);
+    negative = scanned.negative;
   }
   // Digits gather in `a`, a small integer (kept within int32 arithmetic), nine at a time; each
   // full group of nine moves into the double `m`. That keeps the per-digit work on integers.
   let m = 0;
   let a = 0;
   let inA = 0;
-  let digits: number;
-  let fraction = 0;
-  const intStart = p;
-  while (p < lim && (c = buf[p] - 48) >= 0 && c <= 9) {
-    if (inA === 9) {
-      m = m * 1e9 + a;
-      a = 0;
-      inA = 0;
-    }
-    a = a * 10 + c;
-    inA++;
-    p++;
-  }
-  digits = p - intStart;
-  if (p < lim && buf[p] === 46) {
-    p++;
-    const fractionStart = p;
-    while (p < lim && (c = buf[p] - 48) >= 0 && c <= 9) {
+  let dot = -1;
+  const start = p;
+  for (; p < lim; p++) {
+    c = buf[p] - 48;
+    if (c >= 0 && c <= 9) {
       if (inA === 9) {
         m = m * 1e9 + a;
         a = 0;
@@ -75,47 +60,81 @@ export function scanDecimal(buf: Uint8Array, p: number, lim: number): number {
       }
       a = a * 10 + c;
       inA++;
-      p++;
-    }
-    fraction = p - fractionStart;
-    digits += fraction;
+    } else if (c === -2 && dot < 0) dot = p; // "."
+    else break;
   }
+  const fraction = dot < 0 ? 0 : p - dot - 1;
+  if (p - start - (dot < 0 ? 0 : 1) === 0) return NaN;
+  let exponent = 0;
+  if (p < lim) {
+    c = buf[p];
+    if ((c | 32) === 101) {
+      exponent = readExponent(buf, p + 1, lim);
+      if (exponent !== exponent) return NaN;
+      p = scanned.end;
+      c = p < lim ? buf[p] : 0;
+    }
+    if (c === SPACE || c === TAB || c === CR) p = skipTrail(buf, p, lim);
+  }
+  scanned.end = p;
+  return scaled(m, a, inA, exponent - fraction, negative);
+}
+
+/** Skips leading spaces and tabs and one sign; sets `scanned.negative`; returns the position after. */
+function skipLead(buf: Uint8Array, p: number, lim: number): number {
+  let c: number;
+  while (p < lim && ((c = buf[p]) === SPACE || c === TAB)) p++;
+  scanned.negative = false;
+  if (p < lim) {
+    c = buf[p];
+    if (c === 45) {
+      scanned.negative = true;
+      p++;
+    } else if (c === 43) p++;
+  }
+  return p;
+}
+
+/** The exponent digits after "e" at `p`, with their sign; NaN when there are none. Sets `scanned.end`. */
+function readExponent(buf: Uint8Array, p: number, lim: number): number {
+  let negative = false;
+  let c: number;
+  if (p < lim) {
+    c = buf[p];
+    if (c === 45) {
+      negative = true;
+      p++;
+    } else if (c === 43) p++;
+  }
+  const start = p;
+  let exponent = 0;
+  while (p < lim && (c = buf[p] - 48) >= 0 && c <= 9) {
+    exponent = exponent * 10 + c;
+    p++;
+  }
+  scanned.end = p;
+  if (p === start) return NaN;
+  return negative ? -exponent : exponent;
+}
+
+function skipTrail(buf: Uint8Array, p: number, lim: number): number {
+  let c: number;
+  while (p < lim && ((c = buf[p]) === SPACE || c === TAB || c === CR)) p++;
+  return p;
+}
+
+/** The value of the digits (m * 10^inA + a) times 10^k, when one exact step or the wide path gives it. */
+function scaled(m: number, a: number, inA: number, k: number, negative: boolean): number {
   const prefix = m;
   m = m * POW10[inA] + a;
-  if (digits === 0) return NaN;
-  let exponent = 0;
-  if (p < lim && (buf[p] | 32) === 101) {
-    p++;
-    let negativeExponent = false;
-    if (p < lim) {
-      c = buf[p];
-      if (c === 45) {
-        negativeExponent = true;
-        p++;
-      } else if (c === 43) p++;
-    }
-    let exponentDigits = 0;
-    while (p < lim && (c = buf[p] - 48) >= 0 && c <= 9) {
-      exponent = exponent * 10 + c;
-      p++;
-      exponentDigits++;
-    }
-    if (exponentDigits === 0) return NaN;
-    if (negativeExponent) exponent = -exponent;
-  }
-  while (p < lim && ((c = buf[p]) === SPACE || c === TAB || c === CR)) p++;
-  scanned.end = p;
-  const k = exponent - fraction;
+  let v: number;
   // m only grows (rounding is monotone), so m < 2^53 at the end means every step was exact.
   if (m >= TWO_53) {
     // 16 to 18 digits, as a double printed in full has: the wide path when the digits before the
     // last group were exact.
     if (prefix >= TWO_53 || k > 0 || k < -22 || m === Infinity) return NaN;
-    const v = wideDecimal(prefix, inA, a, -k);
-    return negative ? -v : v;
-  }
-  let v: number;
-  if (k === 0) v = m;
+    v = wideDecimal(prefix, inA, a, -k);
+  } else if (k === 0) v = m;
   else if (k > 0 && k <= 22) v = m * POW10[k];
   else if (k < 0 && k >= -22) v = m / POW10[-k];
   else return NaN;
