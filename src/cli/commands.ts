@@ -3,6 +3,7 @@ import { dirname, join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
 import { UserError } from "../messages/index.js";
+import { mark } from "../timing.js";
 
 // Each command loads what it needs when it runs, so that starting the command line stays quick.
 const publishing = () => import("../record/publish.js");
@@ -21,8 +22,10 @@ export async function report(
   o: { out: string; pdf?: boolean; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
 ): Promise<void> {
   const study = await loadStudy(manifest);
+  mark("manifest loaded");
   const started = Date.now();
   const { publishStudy } = await publishing();
+  mark("report modules loaded");
   const r = await publishStudy(study, {
     out: o.out,
     force: o.force ?? false,

@@ -23,6 +23,7 @@ import { ChunkFeeder } from "./feeder.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
 import { RUN_EXTENSIONS, runFormat } from "./runFile.js";
 import { SeriesTable, type RowSink } from "./seriesTable.js";
+import { mark } from "../timing.js";
 
 export type { RowSink } from "./seriesTable.js";
 
@@ -96,6 +97,7 @@ export async function readRun(opts: ReadOptions): Promise<ReadReport> {
 /** `readRun` in this thread: read, parse and hand every row to `onRow`. */
 export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   const { display } = opts;
+  mark(`reading ${display}`);
   const format = runFormat(opts.path);
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
@@ -163,6 +165,7 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   }
   if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
   feeder.finish();
+  mark(`read ${display}`);
   return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
 }
 

@@ -5,6 +5,7 @@ import { makeRecord, type StudyRecord } from "./record.js";
 import { StagedDir } from "./outputDir.js";
 import { toolVersion } from "./version.js";
 import type { StudyOutcome } from "../study/outcome.js";
+import { mark } from "../timing.js";
 
 export interface PublishOptions {
   out: string;
@@ -54,6 +55,7 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
     // The report's modules (templates, chart renderer) load while the runs are read.
     const reportModules = Promise.all([import("../report/model.js"), import("../report/html.js")]);
     const { outcome, tableFiles } = await computed;
+    mark("runs analysed");
     const [{ buildReportModel }, { renderHtml }] = await reportModules;
     const outputs: StudyRecord["outputs"] = [];
     const put = (file: string, data: string) => {
@@ -64,10 +66,13 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
     for (const f of tableFiles) put(f.record.file, f.csv);
     progress(`wrote ${tableFiles.length} calculation tables`);
     const model = buildReportModel(study, outcome, { toolVersion: toolVersion().version, generatedAt: options.generatedAt ?? reportDate() });
+    mark("results and tables written");
     put("report.html", await renderHtml(model));
+    mark("report.html written");
     progress("wrote report.html");
     staged.write("record.json", JSON.stringify(makeRecord(study, staged.final, outcome.inputs, outputs), null, 2) + "\n");
     staged.commit();
+    mark("report folder in place");
     let pdfPages: number | null = null;
     if (options.pdf) {
       const { renderPdf } = await import("../report/pdf.js");
