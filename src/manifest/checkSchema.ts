@@ -2,12 +2,14 @@
  * The structural check: the manifest against `docs/manifest.schema.json` (JSON Schema draft-07),
  * with the first problem turned into a located message a user can act on.
  */
+import { createHash } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { Ajv, type ErrorObject, type ValidateFunction } from "ajv";
 import { manifestMessages } from "../messages/index.js";
 import { closest } from "./didYouMean.js";
 import { formatKeyPath, pointerToKeyPath } from "./keyPath.js";
 import type { ManifestSource } from "./manifestSource.js";
+import { precompiled } from "../precompiled.js";
 import { OVERRIDABLE_KEYS, type StudySpec } from "./spec.js";
 
 const SCHEMA_URL = new URL("../../docs/manifest.schema.json", import.meta.url);
@@ -15,13 +17,21 @@ const SCHEMA_URL = new URL("../../docs/manifest.schema.json", import.meta.url);
 let validator: ValidateFunction | undefined;
 let schemaRoot: SchemaNode = {};
 
-/** The compiled schema, loaded and compiled on first use only. */
+/** The ajv options of the schema check; `scripts/precompile.mjs` compiles with the same. */
+export const AJV_OPTIONS = { allErrors: true, verbose: true, strictNumbers: true, allowUnionTypes: true, strictTypes: false } as const;
+
+/**
+ * The compiled schema, on first use only: the validator `npm run build` compiled into
+ * `dist/manifest/manifestValidator.cjs` when it was made from this very schema text, else
+ * compiled here (from the sources, or after the schema was edited without a rebuild).
+ */
 function validate(): ValidateFunction {
   if (validator === undefined) {
-    const schema = JSON.parse(readFileSync(SCHEMA_URL, "utf8")) as SchemaNode;
-    schemaRoot = schema;
-    const ajv = new Ajv({ allErrors: true, verbose: true, strictNumbers: true, allowUnionTypes: true, strictTypes: false });
-    validator = ajv.compile(schema);
+    const text = readFileSync(SCHEMA_URL, "utf8");
+    schemaRoot = JSON.parse(text) as SchemaNode;
+    const built = precompiled<ValidateFunction & { sourceSha256?: string }>(import.meta.url, "./manifestValidator.cjs");
+    if (built !== null && built.sourceSha256 === createHash("sha256").update(text).digest("hex")) validator = built;
+    else validator = new Ajv(AJV_OPTIONS).compile(schemaRoot);
   }
   return validator;
 }

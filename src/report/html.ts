@@ -6,6 +6,7 @@
  * The templates only place the strings of the view model; handlebars escapes every one of them.
  * Chart SVG is inserted raw: vega escapes text and attribute values when it serialises SVG.
  */
+import { createHash } from "node:crypto";
 import { readFile, readdir } from "node:fs/promises";
 import { fileURLToPath } from "node:url";
 import Handlebars from "handlebars";
@@ -14,6 +15,7 @@ import { parse, View } from "vega";
 import type { TopLevelSpec } from "vega-lite";
 import { reportMessages } from "../messages/index.js";
 import type { Chart, ReportModel } from "./model.js";
+import { precompiled } from "../precompiled.js";
 
 /** The templates folder: `templates/` at the package root, from `src/report/` and `dist/report/` alike. */
 export const TEMPLATES_DIR = new URL("../../templates/", import.meta.url);
@@ -33,17 +35,42 @@ interface Templates {
   css: string;
 }
 
+/** Handlebars options of the report's templates; `scripts/precompile.mjs` compiles with the same. */
+export const TEMPLATE_OPTIONS = { strict: false } as const;
+
+/** The digest that ties precompiled templates to their sources. */
+export function templatesDigest(page: string, partials: readonly (readonly [string, string])[]): string {
+  const hash = createHash("sha256").update(page);
+  for (const [name, text] of partials) hash.update(`\0${name}\0${text}`);
+  return hash.digest("hex");
+}
+
+interface PrecompiledTemplates {
+  sourceSha256: string;
+  page: Parameters<typeof Handlebars.template>[0];
+  partials: Record<string, Parameters<typeof Handlebars.template>[0]>;
+}
+
+/**
+ * The templates: precompiled by `npm run build` into `dist/report/templates.cjs` when that was made
+ * from these very sources, else compiled here.
+ */
 async function loadTemplates(): Promise<Templates> {
   const folder = fileURLToPath(TEMPLATES_DIR);
   try {
     const hb = Handlebars.create();
     const partialsDir = new URL("partials/", TEMPLATES_DIR);
-    for (const name of (await readdir(partialsDir)).filter((n) => n.endsWith(".hbs")).sort()) {
-      hb.registerPartial(name.slice(0, -4), await readFile(new URL(name, partialsDir), "utf8"));
-    }
-    const page = hb.compile(await readFile(new URL("report.hbs", TEMPLATES_DIR), "utf8"), { strict: false });
+    const names = (await readdir(partialsDir)).filter((n) => n.endsWith(".hbs")).sort();
+    const partials = await Promise.all(names.map(async (n) => [n.slice(0, -4), await readFile(new URL(n, partialsDir), "utf8")] as const));
+    const pageText = await readFile(new URL("report.hbs", TEMPLATES_DIR), "utf8");
     const css = await readFile(new URL("report.css", TEMPLATES_DIR), "utf8");
-    return { page, css };
+    const built = precompiled<PrecompiledTemplates>(import.meta.url, "./templates.cjs");
+    if (built !== null && built.sourceSha256 === templatesDigest(pageText, partials)) {
+      for (const [name] of partials) hb.registerPartial(name, hb.template(built.partials[name]));
+      return { page: hb.template(built.page), css };
+    }
+    for (const [name, text] of partials) hb.registerPartial(name, text);
+    return { page: hb.compile(pageText, TEMPLATE_OPTIONS), css };
   } catch (err) {
     throw reportMessages.templatesMissing(folder, (err as Error).message);
   }
