@@ -6,6 +6,7 @@ import { StagedDir } from "./outputDir.js";
 import { toolVersion } from "./version.js";
 import type { StudyOutcome } from "../study/outcome.js";
 import { mark } from "../timing.js";
+import { loadTQuantile } from "../stats/tQuantile.js";
 
 export interface PublishOptions {
   out: string;
@@ -52,8 +53,9 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
   const staged = new StagedDir(options.out, options.force);
   try {
     const computed = runStudy(study, { onProgress: progress, workers: options.workers, fromSummaries: options.fromSummaries });
-    // The report's modules (templates, chart renderer) load while the runs are read.
+    // The report's modules (templates, chart renderer) and the t quantile load while the runs are read.
     const reportModules = Promise.all([import("../report/model.js"), import("../report/html.js")]);
+    setImmediate(loadTQuantile);
     const { outcome, tableFiles } = await computed;
     mark("runs analysed");
     const [{ buildReportModel }, { renderHtml }] = await reportModules;

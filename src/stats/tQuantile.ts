@@ -1,4 +1,16 @@
-import quantile from "@stdlib/stats-base-dists-t-quantile";
+import { createRequire } from "node:module";
+
+type Quantile = (p: number, df: number) => number;
+let quantile: Quantile | null = null;
+
+/**
+ * Loads stdlib's t quantile (a large module tree: about 0.07 s). `tQuantile` loads it on first use;
+ * a command may call this earlier, at a moment when the main thread waits anyway.
+ */
+export function loadTQuantile(): Quantile {
+  quantile ??= createRequire(import.meta.url)("@stdlib/stats-base-dists-t-quantile") as Quantile;
+  return quantile;
+}
 
 /**
  * The quantile of Student's t distribution: the t with P(T ≤ t) = p for T with `df` degrees of
@@ -18,5 +30,5 @@ export function tQuantile(p: number, df: number): number {
   if (!(df > 0 && Number.isFinite(df))) {
     throw new Error(`tQuantile: df must be a finite number greater than 0, got ${df}`);
   }
-  return quantile(p, df);
+  return (quantile ?? loadTQuantile())(p, df);
 }
