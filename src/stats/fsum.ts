@@ -17,7 +17,10 @@
  * whose intermediate partials overflow returns ±Infinity.
  */
 export function fsum(values: ArrayLike<number>): number {
-  const partials: number[] = [];
+  // The partials live in a typed array with a count (no array resizing per term); they are
+  // non-overlapping doubles, so there are at most about 40 of them.
+  let partials = new Float64Array(32);
+  let count = 0;
   let special = 0;
   let hasSpecial = false;
   for (let k = 0; k < values.length; k++) {
@@ -28,25 +31,33 @@ export function fsum(values: ArrayLike<number>): number {
       continue;
     }
     let i = 0;
-    for (let j = 0; j < partials.length; j++) {
+    for (let j = 0; j < count; j++) {
       let y = partials[j];
-      if (Math.abs(x) < Math.abs(y)) [x, y] = [y, x];
+      if (Math.abs(x) < Math.abs(y)) {
+        const t = x;
+        x = y;
+        y = t;
+      }
       const hi = x + y;
       if (!Number.isFinite(hi)) return hi;
       const lo = y - (hi - x);
       if (lo !== 0) partials[i++] = lo;
       x = hi;
     }
-    partials.length = i;
-    partials.push(x);
+    if (i === partials.length) {
+      const bigger = new Float64Array(partials.length * 2);
+      bigger.set(partials);
+      partials = bigger;
+    }
+    partials[i] = x;
+    count = i + 1;
   }
   if (hasSpecial) return special;
-  return roundPartials(partials);
+  return roundPartials(partials, count);
 }
 
 /** Adds non-overlapping partials (increasing magnitude) into one correctly rounded double. */
-function roundPartials(partials: number[]): number {
-  let n = partials.length;
+function roundPartials(partials: Float64Array, n: number): number {
   if (n === 0) return 0;
   let hi = partials[--n];
   let lo = 0;
