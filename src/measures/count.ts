@@ -29,7 +29,7 @@ export class Count implements MeasureAccumulator {
     r[0] = ++this.n;
     r[1] = time;
     r[2] = this.n;
-    this.table.add(r);
+    this.table.addNumbers(r);
   }
 
   finish(): MeasureOutput {

@@ -63,7 +63,7 @@ export class LevelSinks implements IntervalSink {
     r[5] = area;
     r[6] = runningArea;
     r[7] = runningMean;
-    this.table.add(r);
+    this.table.addNumbers(r);
     if (this.trace !== null) this.trace.add(from, value, elapsed > 0 ? runningMean : value);
     if (this.batches !== null) this.batches.interval(from, to, value);
     if (this.slices !== null) this.slices.interval(from, to, value);

@@ -80,7 +80,7 @@ export class SeriesObservation implements MeasureAccumulator {
     r[2] = value;
     r[3] = sum;
     r[4] = sum / this.obs.n;
-    this.table.add(r);
+    this.table.addNumbers(r);
   }
 
   finish(): MeasureOutput {

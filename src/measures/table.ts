@@ -36,6 +36,8 @@ export class TableBuilder {
   private readonly ringNumbers: Float64Array;
   private readonly ringIsOther: Uint8Array;
   private readonly ringOther: Cell[];
+  /** Whether any cell in the ring was ever a text or empty cell (else `ringIsOther` is all 0). */
+  private ringHasOther = false;
   private ringSize = 0;
   private ringNext = 0;
   private total = 0;
@@ -72,7 +74,28 @@ export class TableBuilder {
       this.overflow();
     }
     this.keepTail(row);
-    if (index % this.stride === 0) this.addCheckpoint(row.slice());
+    if (isMultiple(index, this.stride)) this.addCheckpoint(row.slice());
+  }
+
+  /**
+   * `add` for a row of numbers only (NaN for an empty cell): the same table, with less work per
+   * row once the table is long (no per-cell type test in the tail).
+   */
+  addNumbers(row: readonly number[]): void {
+    if (!this.overflowed || this.edgeRows === 0) {
+      this.add(row);
+      return;
+    }
+    const index = this.total++;
+    const width = this.columns.length;
+    const numbers = this.ringNumbers;
+    let k = this.ringNext * width;
+    for (let j = 0; j < width; j++) numbers[k + j] = row[j];
+    if (this.ringHasOther) for (let j = 0; j < width; j++) this.ringIsOther[k + j] = 0;
+    k = this.ringNext + 1;
+    this.ringNext = k === this.edgeRows ? 0 : k;
+    if (this.ringSize < this.edgeRows) this.ringSize++;
+    if (isMultiple(index, this.stride)) this.addCheckpoint(row.slice());
   }
 
   /** First time past maxRows: turn the buffered middle into checkpoints and tail. */
@@ -82,7 +105,7 @@ export class TableBuilder {
     for (let i = 0; i < middle.length; i++) {
       const index = this.edgeRows + i;
       this.keepTail(middle[i]);
-      if (index % this.stride === 0) this.addCheckpoint(middle[i]);
+      if (isMultiple(index, this.stride)) this.addCheckpoint(middle[i]);
     }
   }
 
@@ -98,6 +121,7 @@ export class TableBuilder {
       } else {
         this.ringIsOther[k] = 1;
         this.ringOther[k] = c;
+        this.ringHasOther = true;
       }
     }
     this.ringNext = this.ringNext + 1 === this.edgeRows ? 0 : this.ringNext + 1;
@@ -144,6 +168,11 @@ export class TableBuilder {
     rows.push(...tail);
     return { columns: this.columns, rowsTotal: this.total, rows: emptyForNaN(rows), shortened: true };
   }
+}
+
+/** Whether `index` is a multiple of `stride`, a power of two (a bit test below 2^30). */
+function isMultiple(index: number, stride: number): boolean {
+  return index < 0x40000000 ? (index & (stride - 1)) === 0 : index % stride === 0;
 }
 
 /** NaN cells become empty (null) cells. */

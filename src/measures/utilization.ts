@@ -116,7 +116,7 @@ export class Utilization implements MeasureAccumulator {
     r[9] = runningCap;
     r[10] = elapsed > 0 ? runningArea / elapsed : NaN;
     r[11] = runningCap !== 0 ? runningArea / runningCap : NaN;
-    this.table.add(r);
+    this.table.addNumbers(r);
     if (this.trace !== null) this.trace.add(from, busy, elapsed > 0 ? runningArea / elapsed : busy);
     if (this.batchBusy !== null) {
       this.batchBusy.interval(from, to, busy);

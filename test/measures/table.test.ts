@@ -30,6 +30,27 @@ describe("TableBuilder", () => {
     }
   });
 
+  it("addNumbers keeps exactly the rows add keeps, also after text and empty cells went through the tail", () => {
+    for (const n of [1, 99, 100, 101, 1000, 12345]) {
+      for (const textAt of [-1, 5, Math.floor(n / 2), n - 3]) {
+        const plain = new TableBuilder(["index", "x", "y"], 100, 10);
+        const fast = new TableBuilder(["index", "x", "y"], 100, 10);
+        for (let i = 1; i <= n; i++) {
+          if (i === textAt || i === textAt + 1) {
+            const row = [i, "text", null];
+            plain.add(row);
+            fast.add(row);
+          } else {
+            const row = [i, i * 10, i % 7 === 0 ? NaN : i / 3];
+            plain.add(row);
+            fast.addNumbers(row);
+          }
+        }
+        expect(fast.build(), `n ${n}, text at ${textAt}`).toEqual(plain.build());
+      }
+    }
+  });
+
   it("csvCell quotes text with commas, quotes or edge spaces (RFC 4180) and writes numbers round-trip", () => {
     expect(csvCell('a,"b"')).toBe('"a,""b"""');
     expect(csvCell(" x")).toBe('" x"');
