@@ -43,6 +43,12 @@ export interface RowBatch {
   entities: (string | undefined)[] | null;
 }
 
+/** Buffers the main thread sends back to the reader once read, so that they are filled again. */
+export interface SpareBuffers {
+  rows?: Pick<RowBatch, "series" | "time" | "value" | "line">;
+  bytes?: Uint8Array;
+}
+
 export type WorkerMessage =
   | RowBatch
   | { type: "bytes"; data: Uint8Array }
@@ -65,6 +71,7 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
   const { path, display, columns, series } = opts;
   const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series }, control } });
   const hash = createHash("sha256");
+  const giveBack = (spare: SpareBuffers, buffers: ArrayBufferLike[]) => worker.postMessage(spare, buffers as ArrayBuffer[]);
   return new Promise<ReadReport>((resolve, reject) => {
     let settled = false;
     const finish = (error: unknown, report?: ReadReport) => {
@@ -88,10 +95,12 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
         }
         Atomics.sub(inFlight, 0, 1);
         Atomics.notify(inFlight, 0);
+        giveBack({ rows: { series: s, time, value, line } }, [s.buffer, time.buffer, value.buffer, line.buffer]);
       } else if (m.type === "bytes") {
         hash.update(m.data);
         Atomics.sub(inFlight, 0, 1);
         Atomics.notify(inFlight, 0);
+        giveBack({ bytes: new Uint8Array(m.data.buffer) }, [m.data.buffer]);
       } else if (m.type === "done") {
         finish(null, { ...m.report, sha256: hash.digest("hex") });
       } else {

@@ -1,7 +1,7 @@
 /** Worker thread of `pipeline.ts`: reads and checks one run file and sends its rows in batches. */
 import { parentPort, workerData } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
-import { BATCH_ROWS, MAX_IN_FLIGHT, type RowBatch, type WorkerMessage } from "./pipeline.js";
+import { BATCH_ROWS, MAX_IN_FLIGHT, type RowBatch, type SpareBuffers, type WorkerMessage } from "./pipeline.js";
 import { type ReadOptions, readRunHere } from "./readRun.js";
 
 const port = parentPort!;
@@ -9,14 +9,23 @@ const { opts, control } = workerData as { opts: Omit<ReadOptions, "onRow">; cont
 const inFlight = new Int32Array(control);
 const wantsEntity = opts.series.some((s) => s.entity);
 
+/** Buffers the main thread has finished with and sent back, to be filled again. */
+const spareBatches: SpareBuffers["rows"][] = [];
+const spareBytes: Uint8Array[] = [];
+port.on("message", (m: SpareBuffers) => {
+  if (m.rows !== undefined) spareBatches.push(m.rows);
+  if (m.bytes !== undefined) spareBytes.push(m.bytes);
+});
+
 function fresh(): RowBatch {
+  const spare = spareBatches.pop();
   return {
     type: "rows",
     n: 0,
-    series: new Int32Array(BATCH_ROWS),
-    time: new Float64Array(BATCH_ROWS),
-    value: new Float64Array(BATCH_ROWS),
-    line: new Float64Array(BATCH_ROWS),
+    series: spare?.series ?? new Int32Array(BATCH_ROWS),
+    time: spare?.time ?? new Float64Array(BATCH_ROWS),
+    value: spare?.value ?? new Float64Array(BATCH_ROWS),
+    line: spare?.line ?? new Float64Array(BATCH_ROWS),
     entities: wantsEntity ? new Array<string | undefined>(BATCH_ROWS) : null,
   };
 }
@@ -46,8 +55,10 @@ try {
     // The main thread hashes a copy of each chunk: it waits for rows anyway.
     storedBytes(chunk) {
       reserve();
-      const copy = new Uint8Array(chunk);
-      port.postMessage({ type: "bytes", data: copy }, [copy.buffer]);
+      let copy = spareBytes.pop();
+      if (copy === undefined || copy.length < chunk.length) copy = new Uint8Array(Math.max(chunk.length, 1 << 20));
+      copy.set(chunk);
+      port.postMessage({ type: "bytes", data: copy.subarray(0, chunk.length) }, [copy.buffer as ArrayBuffer]);
     },
     onRow(seriesIndex, time, value, entity, line) {
       const b = batch;
