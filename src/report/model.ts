@@ -578,15 +578,15 @@ export function buildReportModel(
     let chartNo = 0;
     const chartId = (what: string) => `${id}-chart-${++chartNo}-${what}`;
 
-    charts.push({
+    // Charts across runs say nothing when no scenario has two runs (one dot, no interval).
+    if (results.scenarios.some((sr) => sr.runs.length >= 2)) charts.push({
       id: chartId("interval"),
       caption: `${name}: mean of the run values and its ${formatPercent(study.confidence)} confidence interval, by scenario (time unit ${unit}).`,
       spec: intervalChart(results.scenarios.map((sr) => {
         const s = sr.summary[name];
         return { scenario: sr.name, mean: s?.mean ?? null, low: s?.ci_low ?? null, high: s?.ci_high ?? null, label: fmt(s?.mean ?? null) };
       }), vTitle),
-    });
-    charts.push({
+    }, {
       id: chartId("runs"),
       caption: `${name}: each run's ${primaryName(m.kind)} (dots) and the scenario mean (bar) (time unit ${unit}).`,
       spec: runsChart(results.scenarios.flatMap((sr) => sr.runs.flatMap((r) => {
