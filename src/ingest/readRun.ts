@@ -65,6 +65,8 @@ export interface ReadOptions {
    * is then empty. Default: hashed here.
    */
   storedBytes?: (chunk: Buffer) => void;
+  /** Whether a large file may be parsed on a second thread (default true; see `pipeline.ts`). */
+  readerThread?: boolean;
 }
 
 const DEFAULT_CHUNK = 1 << 20;
@@ -90,7 +92,7 @@ class SourceError extends Error {
  * // -> { bytes: 48, rows: 3, seriesRows: { queue: 2, sold: 1 }, sha256: "..." }
  */
 export async function readRun(opts: ReadOptions): Promise<ReadReport> {
-  if (opts.chunkSize === undefined && pipelineWanted(opts.path)) return readRunPipelined(opts);
+  if (opts.chunkSize === undefined && opts.readerThread !== false && pipelineWanted(opts.path)) return readRunPipelined(opts);
   return readRunHere(opts);
 }
 

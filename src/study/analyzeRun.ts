@@ -56,8 +56,9 @@ export function runTableFiles(scenario: string, a: Pick<RunAnalysis, "result" | 
  *   file ──readRun──▶ router (series → accumulators) ──▶ accumulators ──finish──▶ outputs
  *
  * Rows after the window's end are counted and never reach a measure (contract section 3).
+ * `readerThread: false` keeps a large file's parsing in this thread (see `readRun`).
  */
-export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
+export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolean } = {}): Promise<RunAnalysis> {
   const { run, scenario } = plan;
   const window = makeWindow(run.start, run.end, plan.warmup);
   const setup: MeasureSetup = {
@@ -93,6 +94,7 @@ export async function analyzeRun(plan: RunPlan): Promise<RunAnalysis> {
   let afterEnd = 0;
   let beforeWindow = 0;
   const report = await readRun({
+    readerThread: options.readerThread,
     path: run.path,
     display: run.file,
     columns: scenario.columns,

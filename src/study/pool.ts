@@ -1,10 +1,13 @@
 /**
  * Runs of a study analysed on worker threads, results in a fixed order.
  *
- *   plans[0..n) ──▶ queue ──▶ worker 1 ─┐
- *                        └──▶ worker 2 ─┴─▶ results[i] = analysis of plans[i]
+ *   plans[0..n) ──▶ queue ──▶ this thread ─┐
+ *                        └──▶ worker 2 ────┴─▶ results[i] = analysis of plans[i]
  *
- * Each run is one job (`analyzeRun` in `runWorker.js`); results are stored at their plan's index,
+ * With N workers this thread is one of them and N - 1 worker threads are started: a thread would
+ * otherwise sit idle here waiting for replies, and each worker thread costs its start-up and its
+ * own compiler warm-up. Each run is one job (`analyzeRun`, in `runWorker.js` on a worker thread);
+ * results are stored at their plan's index,
  * so whatever the number of workers or the order in which they finish, the caller sees the same
  * array and the study's bytes do not change. With one worker, or when the worker entry is not a
  * built `.js` file next to this module (under a TypeScript test runner), runs are analysed in
@@ -72,17 +75,16 @@ async function onWorkers(plans: RunPlan[], workers: number, onDone?: (index: num
   const failures: { index: number; error: Error }[] = [];
   let next = 0;
   const threads: Worker[] = [];
+  /** The next plan to analyse, or -1 when there is none or a run failed. */
+  const take = () => (failures.length > 0 || next >= plans.length ? -1 : next++);
 
   const serve = (worker: Worker): Promise<void> =>
     new Promise((resolve, reject) => {
       let current = -1;
       const give = () => {
-        if (failures.length > 0 || next >= plans.length) {
-          resolve();
-          return;
-        }
-        current = next++;
-        worker.postMessage(plans[current]);
+        current = take();
+        if (current < 0) resolve();
+        else worker.postMessage(plans[current]);
       };
       worker.on("message", (reply: WorkerReply) => {
         if (reply.ok) {
@@ -104,9 +106,23 @@ async function onWorkers(plans: RunPlan[], workers: number, onDone?: (index: num
       give();
     });
 
+  // This thread is one of the workers: it takes runs from the same queue (without a reader thread
+  // of its own for large files, so that no more threads are busy than asked for).
+  const serveHere = async (): Promise<void> => {
+    for (let i = take(); i >= 0; i = take()) {
+      try {
+        results[i] = await analyzeRun(plans[i], { readerThread: false });
+        onDone?.(i, results[i]);
+      } catch (e) {
+        if (!(e instanceof Error)) throw e;
+        failures.push({ index: i, error: e });
+      }
+    }
+  };
+
   try {
-    for (let w = 0; w < workers; w++) threads.push(new Worker(WORKER_FILE));
-    await Promise.all(threads.map(serve));
+    for (let w = 1; w < workers; w++) threads.push(new Worker(WORKER_FILE));
+    await Promise.all([serveHere(), ...threads.map(serve)]);
   } finally {
     await Promise.all(threads.map((t) => t.terminate()));
   }
