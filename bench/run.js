@@ -38,12 +38,13 @@ const out = (line = "") => {
 };
 
 /** About 4.5 rows per time unit at 0.9 arrivals per minute, 2 servers (utilization 0.9). */
-const model = (horizon, seed) => ({ arrivalRate: 0.9, serviceRate: 0.5, servers: 2, horizon, seed, decimals: 4 });
+const model = (horizon, seed, decimals) => ({ arrivalRate: 0.9, serviceRate: 0.5, servers: 2, horizon, seed, decimals });
 
-async function runFile(path, horizon, seed) {
+/** Writes the run file once; `decimals` null prints times in full (up to 17 significant digits). */
+async function runFile(path, horizon, seed, decimals = 4) {
   if (existsSync(path)) return;
   const tmp = `${path}.tmp`;
-  await writeRunCsv(tmp, simulateQueue(model(horizon, seed)));
+  await writeRunCsv(tmp, simulateQueue(model(horizon, seed, decimals)));
   execFileSync("mv", [tmp, path]);
 }
 
@@ -125,7 +126,6 @@ if (!existsSync(`${big10}.gz`)) await pipeline(createReadStream(big10), createGz
 const m10 = manifest("long10.yaml", [big10], H10);
 const m5 = manifest("long5.yaml", [big5], H5);
 const mgz = manifest("long10gz.yaml", [`${big10}.gz`], H10);
-const rows10 = Number(execFileSync("wc", ["-l", big10], { encoding: "utf8" }).split(" ")[0]) - 1;
 
 const AWK = `BEGIN { FS = ","; pt = 0; pv = 0 }
 NR == 1 { next }
@@ -135,19 +135,30 @@ $2 == "wait" { s += $3; n++; next }
 $2 == "depart" { c++ }
 END { area += pv * (END_T - pt); printf "%.17g %.17g %d\\n", area / END_T, s / n, c }`;
 writeFileSync(join(dir, "three.awk"), AWK + "\n");
-const awk = timed("awk", ["-v", `END_T=${H10}`, "-f", join(dir, "three.awk"), big10]);
-const sj = timed(process.execPath, report(m10, join(dir, "out10")));
-const r10 = JSON.parse(readFileSync(join(dir, "out10/results.json"), "utf8")).scenarios[0].runs[0].measures;
-out(`## One run: ${rows10.toLocaleString("en")} rows, ${f2(mb(big10))} MB of CSV, 3 measures`);
-out();
-out("| program | wall time (s) | CPU time (s) | level time average | observation mean | count |");
-out("|---|---|---|---|---|---|");
-const [aL, aO, aC] = awk.stdout.trim().split(" ");
-out(`| awk (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
-out(`| sojourn report (results, tables, HTML) | ${f2(sj.seconds)} | ${f2(sj.cpu)} | ${r10.queue_len.value} | ${r10.wait.value} | ${r10.departures.value} |`);
-out();
-out(`Ratio sojourn / awk: ${f2(sj.seconds / awk.seconds)} (target at most 1, stretch 0.5).`);
-out();
+
+/** sojourn report against the awk program on one file, side by side; returns sojourn's timing. */
+function sideBySide(title, file, manifestPath, outDir) {
+  const rows = Number(execFileSync("wc", ["-l", file], { encoding: "utf8" }).split(" ")[0]) - 1;
+  const awk = timed("awk", ["-v", `END_T=${H10}`, "-f", join(dir, "three.awk"), file]);
+  const sj = timed(process.execPath, report(manifestPath, join(dir, outDir)));
+  const r = JSON.parse(readFileSync(join(dir, outDir, "results.json"), "utf8")).scenarios[0].runs[0].measures;
+  out(`## ${title}: ${rows.toLocaleString("en")} rows, ${f2(mb(file))} MB of CSV, 3 measures`);
+  out();
+  out("| program | wall time (s) | CPU time (s) | level time average | observation mean | count |");
+  out("|---|---|---|---|---|---|");
+  const [aL, aO, aC] = awk.stdout.trim().split(" ");
+  out(`| awk (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
+  out(`| sojourn report (results, tables, HTML) | ${f2(sj.seconds)} | ${f2(sj.cpu)} | ${r.queue_len.value} | ${r.wait.value} | ${r.departures.value} |`);
+  out();
+  out(`Ratio sojourn / awk: ${f2(sj.seconds / awk.seconds)} (target at most 1, stretch 0.5).`);
+  out();
+  return { sj, rows };
+}
+
+const { sj, rows: rows10 } = sideBySide("One run, times to 4 decimals", big10, m10, "out10");
+const bigFull = join(dir, `long-full-${H10}.csv`);
+await runFile(bigFull, H10, 7, null);
+sideBySide("The same run, times printed in full (up to 17 significant digits)", bigFull, manifest("longfull.yaml", [bigFull], H10), "outfull");
 
 // --- 2. memory at two lengths --------------------------------------------------------------
 const rss5 = peakRss(report(m5, join(dir, "out5")));

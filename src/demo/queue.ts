@@ -19,8 +19,11 @@ export interface QueueModel {
   seed: number;
   /** Keep serving after the horizon until the system is empty. */
   drain?: boolean;
-  /** Round times to this many decimals in the output (the simulation itself is exact). */
-  decimals?: number;
+  /**
+   * Round times to this many decimals in the output (the simulation itself is exact); default 4,
+   * null for no rounding (times printed in full, up to 17 significant digits).
+   */
+  decimals?: number | null;
 }
 
 /**
@@ -41,10 +44,8 @@ export function* simulateQueue(model: QueueModel): Generator<DemoRow> {
   // the same seed gives the same customers in every scenario (common random numbers).
   const arrivals = new Random(model.seed);
   const services = new Random((model.seed * 2654435761) ^ 0x5bd1e995);
-  const round = (t: number) => {
-    const f = 10 ** (model.decimals ?? 4);
-    return Math.round(t * f) / f;
-  };
+  const f = model.decimals === null ? null : 10 ** (model.decimals ?? 4);
+  const round = (t: number) => (f === null ? t : Math.round(t * f) / f);
   const waiting: { id: number; arrived: number; service: number }[] = [];
   // Departure times of busy servers (unsorted; c is small).
   const departures: { time: number; id: number }[] = [];
