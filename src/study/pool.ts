@@ -78,15 +78,22 @@ async function onWorkers(plans: RunPlan[], workers: number, onDone?: (index: num
   /** The next plan to analyse, or -1 when there is none or a run failed. */
   const take = () => (failures.length > 0 || next >= plans.length ? -1 : next++);
 
+  // Each worker thread holds up to two runs: the one it analyses and the next, so that it starts
+  // the next run at once instead of waiting for this thread to answer its reply.
   const serve = (worker: Worker): Promise<void> =>
     new Promise((resolve, reject) => {
-      let current = -1;
+      const given: number[] = [];
       const give = () => {
-        current = take();
-        if (current < 0) resolve();
-        else worker.postMessage(plans[current]);
+        while (given.length < 2) {
+          const i = take();
+          if (i < 0) break;
+          given.push(i);
+          worker.postMessage(plans[i]);
+        }
+        if (given.length === 0) resolve();
       };
       worker.on("message", (reply: WorkerReply) => {
+        const current = given.shift()!;
         if (reply.ok) {
           results[current] = reply.analysis;
           onDone?.(current, reply.analysis);
@@ -99,7 +106,8 @@ async function onWorkers(plans: RunPlan[], workers: number, onDone?: (index: num
       });
       worker.on("error", reject);
       worker.on("exit", (code) => {
-        if (current >= 0 && results[current] === undefined && failures.every((f) => f.index !== current)) {
+        const current = given[0];
+        if (current !== undefined && results[current] === undefined && failures.every((f) => f.index !== current)) {
           reject(new Error(`a worker thread stopped (exit code ${code}) while analysing run ${plans[current].run.file}`));
         }
       });

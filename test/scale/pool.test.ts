@@ -117,6 +117,24 @@ describe("sojourn report --workers (built command line)", () => {
     }
   });
 
+  it("with several broken runs, 2 workers report the same (earliest) one as 1 worker, whichever thread met it", () => {
+    const files = SCENARIOS.flatMap((sc) => RUNS.map((run) => join(dir, "runs", sc.name, `${run}.csv`)));
+    const texts = files.map((f) => readFileSync(f, "utf8"));
+    try {
+      for (const [i, j] of [[0, 5], [2, 3], [1, 4], [3, 5]]) {
+        for (const k of [i, j]) writeFileSync(files[k], texts[k].replace(/\n([0-9.]+),queue,/, "\n$1,queue,x"));
+        const a = sojourn(["check", manifest, "--workers", "1"]);
+        const b = sojourn(["check", manifest, "--workers", "2"]);
+        expect(a.status).toBe(1);
+        expect(b.stderr, `broken runs ${i} and ${j}`).toBe(a.stderr);
+        expect(a.stderr).toContain(relative(dir, files[i]));
+        for (const k of [i, j]) writeFileSync(files[k], texts[k]);
+      }
+    } finally {
+      files.forEach((f, k) => writeFileSync(f, texts[k]));
+    }
+  });
+
   it("--workers 0 is a usage error (status 2)", () => {
     expect(sojourn(["report", manifest, "--out", join(dir, "r0"), "--workers", "0"]).status).toBe(2);
   });
