@@ -304,7 +304,8 @@ function statement(measure: Measure, scenarios: Scenario[], unit: string): strin
       s = `The number of rows of series ${q(m.series)} inside the window; the rate is that number per ${unit} of window.`;
       break;
   }
-  return `${s} Across runs, each run's ${primaryName(m.kind)} is one value of the interval.`;
+  // With one run per scenario there is no interval across runs to speak of.
+  return scenarios.some((sc) => sc.runs.length >= 2) ? `${s} Across runs, each run's ${primaryName(m.kind)} is one value of the interval.` : s;
 }
 
 function warmupText(w: Warmup, unit: string): string {
