@@ -156,11 +156,36 @@ export class CsvParser implements ChunkParser {
     let entry: SeriesEntry | null = null;
     let entityStart = -1;
     let entityEnd = -1;
+    let entityQuoted = false;
     let q: number;
     for (;;) {
-      if (p < end && buf[p] === QUOTE) return QUOTED;
       const role = field < known ? roles[field] : REST;
-      if (role === TIME || role === VALUE) {
+      if (p < end && buf[p] === QUOTE && role !== REST) {
+        // A quoted cell with no line feed and no doubled quote inside is read here; any other
+        // row goes to `readFields`. Its text is taken as it is (no trimming), as `readFields` does.
+        const close = simpleQuoted(buf, p, end);
+        if (close < 0) return close === INCOMPLETE && !final ? INCOMPLETE : QUOTED;
+        const a = p + 1;
+        q = buf[close + 1] === CR ? close + 2 : close + 1;
+        if (role === TIME || role === VALUE) {
+          let x = scanDecimal(buf, a, close);
+          if (x !== x || scanned.end !== close) {
+            const text = buf.toString("utf8", a, close);
+            const y = parseDecimalText(text);
+            if (y === undefined) throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+            x = y;
+          }
+          if (role === TIME) time = x;
+          else value = x;
+        } else if (role === SERIES) {
+          entry = this.table.matchExact(buf, a, close);
+          if (entry === null) return QUOTED; // a name not seen before, or an empty one
+        } else if (role === ENTITY) {
+          entityStart = a;
+          entityEnd = close;
+          entityQuoted = true;
+        }
+      } else if (role === TIME || role === VALUE) {
         let x: number;
         if (p < end && (buf[p] === COMMA || buf[p] === LF)) {
           x = NaN; // an empty cell
@@ -203,11 +228,17 @@ export class CsvParser implements ChunkParser {
           }
         }
       } else if (role === REST) {
+        // Field by field to the line feed: a quoted field may hold commas.
         q = p;
-        while (q < end) {
-          const c = buf[q];
-          if (c === LF) break;
-          if (c === QUOTE) return QUOTED;
+        for (;;) {
+          if (q < end && buf[q] === QUOTE) {
+            const close = simpleQuoted(buf, q, end);
+            if (close < 0) return close === INCOMPLETE && !final ? INCOMPLETE : QUOTED;
+            q = buf[close + 1] === CR ? close + 2 : close + 1;
+          } else {
+            while (q < end && buf[q] !== COMMA && buf[q] !== LF) q++;
+          }
+          if (q >= end || buf[q] === LF) break;
           q++;
         }
       } else {
@@ -241,7 +272,11 @@ export class CsvParser implements ChunkParser {
     }
     if (time !== time) throw ingestMessages.missingTime(this.display, line);
     const e = entry as SeriesEntry;
-    const entity = e.entity && entityStart >= 0 ? decodeCell(buf, entityStart, entityEnd) : undefined;
+    let entity: string | undefined;
+    if (e.entity && entityStart >= 0) {
+      if (!entityQuoted) entity = decodeCell(buf, entityStart, entityEnd);
+      else if (entityEnd > entityStart) entity = buf.toString("utf8", entityStart, entityEnd);
+    }
     this.table.accept(e, time, value, entity, line);
     this.line++;
     return q;
@@ -349,6 +384,7 @@ export class CsvParser implements ChunkParser {
     if (time === undefined) throw ingestMessages.notANumber(this.display, line, "time", fields[this.timeColumn]);
     const entry = this.table.lookupName(fields[this.seriesColumn]);
     if (entry === null) throw ingestMessages.emptySeries(this.display, line);
+    this.table.learnName(fields[this.seriesColumn], entry);
     let value = NaN;
     if (this.valueColumn >= 0 && this.valueColumn < fields.length) {
       const v = parseDecimalText(fields[this.valueColumn]);
@@ -363,6 +399,25 @@ export class CsvParser implements ChunkParser {
     }
     this.table.accept(entry, time, value, entity, line);
   }
+}
+
+/**
+ * The closing quote of the quoted cell opening at `p`, when the cell is simple: no line feed and
+ * no doubled quote inside, and the closing quote followed by a comma, a line feed, or a carriage
+ * return and a line feed. INCOMPLETE when the bytes at hand end first; QUOTED for any other cell.
+ */
+function simpleQuoted(buf: Buffer, p: number, end: number): number {
+  let k = p + 1;
+  while (k < end) {
+    const c = buf[k];
+    if (c === QUOTE) break;
+    if (c === LF) return QUOTED;
+    k++;
+  }
+  if (k + 2 >= end) return INCOMPLETE;
+  const c = buf[k + 1];
+  if (c === COMMA || c === LF || (c === CR && buf[k + 2] === LF)) return k;
+  return QUOTED;
 }
 
 /** The position of the comma or line feed that ends the unquoted field starting at `p`, or `end`. */

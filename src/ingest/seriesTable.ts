@@ -104,15 +104,39 @@ export class SeriesTable {
     }
     const bytes = Buffer.from(buf.subarray(a, b));
     const entry = this.entryFor(bytes.toString("utf8"));
+    this.addKey(bytes, h, s, entry);
+    return entry;
+  }
+
+  /** Adds a byte key (never starting or ending with a space, tab or carriage return) at free slot `s`. */
+  private addKey(bytes: Buffer, h: number, s: number, entry: SeriesEntry): void {
     this.keyBytes.push(bytes);
     this.keyHash.push(h);
     this.keyEntry.push(entry);
-    slots[s] = this.keyBytes.length;
+    this.slots[s] = this.keyBytes.length;
     const first = bytes[0];
     this.byFirstByte[first] = this.byFirstByte[first] === 0 ? this.keyBytes.length : -1;
-    if (this.keyBytes.length * 2 > slots.length) this.grow();
+    if (this.keyBytes.length * 2 > this.slots.length) this.grow();
     this.lastKey = this.keyBytes.length - 1;
-    return entry;
+  }
+
+  /**
+   * Makes a name read from a quoted cell known by its bytes too, so that the next cells holding it
+   * are matched in place. Names with spaces, tabs or carriage returns at either end are left out:
+   * unquoted cells are trimmed, so their bytes must not match such a key.
+   */
+  learnName(name: string, entry: SeriesEntry): void {
+    if (name === "" || name !== name.replace(/^[ \t\r]+|[ \t\r]+$/g, "")) return;
+    const bytes = Buffer.from(name, "utf8");
+    const h = hashBytes(bytes, 0, bytes.length);
+    let s = spread(h) & this.mask;
+    for (;;) {
+      const k = this.slots[s];
+      if (k === 0) break;
+      if (this.keyHash[k - 1] === h && sameBytes(this.keyBytes[k - 1], bytes, 0, bytes.length)) return; // known already
+      s = (s + 1) & this.mask;
+    }
+    this.addKey(bytes, h, s, entry);
   }
 
   /**
@@ -131,6 +155,20 @@ export class SeriesTable {
     if (c !== 44 && c !== 10) return null;
     for (let i = 1; i < key.length; i++) if (key[i] !== buf[p + i]) return null;
     this.matchedEnd = stop;
+    return this.keyEntry[k];
+  }
+
+  /**
+   * The series whose name is exactly the bytes `buf[a..b)` (a quoted cell, untrimmed), when that
+   * name was seen before and is the only known one with its first byte; else null.
+   */
+  matchExact(buf: Buffer, a: number, b: number): SeriesEntry | null {
+    if (a >= b) return null;
+    const k = this.byFirstByte[buf[a]] - 1;
+    if (k < 0) return null;
+    const key = this.keyBytes[k];
+    if (key.length !== b - a) return null;
+    for (let i = 1; i < key.length; i++) if (key[i] !== buf[a + i]) return null;
     return this.keyEntry[k];
   }
 

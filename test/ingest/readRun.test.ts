@@ -161,6 +161,36 @@ describe("readRun columns and series", () => {
     expect(report.seriesRows).toEqual({ "tray, large": 2, note: 1 });
   });
 
+  it("readRun reads quoted cells as they are: a quoted name keeps its spaces, an unquoted one is trimmed, at any chunk size", async () => {
+    const text =
+      'time,series,value,entity,note\r\n' +
+      '1,"queue","2.5","c 1 ",plain\r\n' + // quoted number and entity: the entity keeps its spaces
+      '2,queue,3,c2,"a,b"\r\n' + // unquoted name, quoted note with a comma
+      '3," queue",4,,"x""y"\r\n' + // a quoted name with a space is another series; doubled quotes in the note
+      '4, queue ,5,"",z\r\n' + // unquoted and trimmed: queue again; an empty quoted entity is no entity
+      '5,"queue",6,"c3","two\nlines"\r\n' + // a line break inside the last quoted cell
+      '6,"queue"," 7 ",c4,\r\n';
+    const path = dir.file("quoted-cells.csv", text);
+    const requests = [
+      { name: "queue", entity: true },
+      { name: " queue", entity: true },
+    ];
+    // RFC 4180 section 2 and CONTRACT.md section 1; lines computed by hand (row 6 spans lines 6-7)
+    const expected = [
+      { series: 0, time: 1, value: 2.5, entity: "c 1 ", line: 2 },
+      { series: 0, time: 2, value: 3, entity: "c2", line: 3 },
+      { series: 1, time: 3, value: 4, entity: undefined, line: 4 },
+      { series: 0, time: 4, value: 5, entity: undefined, line: 5 },
+      { series: 0, time: 5, value: 6, entity: "c3", line: 6 },
+      { series: 0, time: 6, value: 7, entity: "c4", line: 8 },
+    ];
+    for (const chunkSize of [undefined, 1, 2, 3, 5, 8, 13]) {
+      const { calls, report } = await record(path, requests, { chunkSize });
+      expect(calls, `chunkSize ${chunkSize}`).toEqual(expected);
+      expect(report.seriesRows).toEqual({ queue: 5, " queue": 1 });
+    }
+  });
+
   it("readRun decodes UTF-8 series and entity names, split across chunks or not", async () => {
     const path = dir.file("utf8.csv", "time,series,entity\n1,café,Ωmega\n2,café,ß\n");
     for (const chunkSize of [1, 2, 3, undefined]) {
