@@ -9,21 +9,29 @@ import { EntityVisits } from "./visits.js";
 import { type Cell, TableBuilder } from "./table.js";
 import { observationExtras } from "./quantiles.js";
 
-/** A growable pair of typed arrays: observation times and values, in the order recorded. */
+/**
+ * Growable typed arrays of the observation values, in the order recorded, and their times when
+ * asked for (`keepTimes`).
+ */
 class Observations {
-  times = new Float64Array(1024);
+  times: Float64Array;
   values = new Float64Array(1024);
   n = 0;
+  constructor(private readonly keepTimes: boolean) {
+    this.times = new Float64Array(keepTimes ? 1024 : 0);
+  }
   push(time: number, value: number): void {
     if (this.n === this.values.length) {
-      const t = new Float64Array(this.n * 2);
-      t.set(this.times);
-      this.times = t;
+      if (this.keepTimes) {
+        const t = new Float64Array(this.n * 2);
+        t.set(this.times);
+        this.times = t;
+      }
       const v = new Float64Array(this.n * 2);
       v.set(this.values);
       this.values = v;
     }
-    this.times[this.n] = time;
+    if (this.keepTimes) this.times[this.n] = time;
     this.values[this.n++] = value;
   }
 }
@@ -47,14 +55,15 @@ function observationOutput(
   if (extras.quantiles !== undefined) stats.quantiles = extras.quantiles;
   if (extras.within !== undefined) stats.within = extras.within;
   tables.push(...extras.tables);
-  const out: MeasureOutput = { stats, tables, warnings: [], observations: values, observationTimes: obs.times.subarray(0, obs.n) };
+  const out: MeasureOutput = { stats, tables, warnings: [], observations: values };
+  if (setup.observationTimes) out.observationTimes = obs.times.subarray(0, obs.n);
   return out;
 }
 
 /** Each row of one series is one observation (contract section 2). */
 export class SeriesObservation implements MeasureAccumulator {
   readonly reads: SeriesRead[];
-  private readonly obs = new Observations();
+  private readonly obs: Observations;
   private readonly running = new Adder();
   private readonly table: TableBuilder;
   /** Reused for every row; numbers only so doubles are stored unboxed. */
@@ -66,6 +75,7 @@ export class SeriesObservation implements MeasureAccumulator {
   ) {
     this.reads = [{ series: measure.source.series, entity: false }];
     this.table = new TableBuilder(OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+    this.obs = new Observations(setup.observationTimes);
   }
 
   row(_slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
@@ -112,7 +122,7 @@ export class EntityObservation implements MeasureAccumulator {
   finish(): MeasureOutput {
     const { measure, setup } = this;
     const c = setup.window.collectFrom;
-    const obs = new Observations();
+    const obs = new Observations(setup.observationTimes);
     const running = new Adder();
     const table = new TableBuilder(ENTITY_OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
     const row: Cell[] = new Array(ENTITY_OBSERVATION_COLUMNS.length);

@@ -12,4 +12,6 @@ export interface MeasureSetup {
   batches: number | null;
   /** Slice width for MSER-5 / Welch slice averages over [start, end], or null. */
   slice: number | null;
+  /** Keep each observation's time too (MSER-5 on observations needs it; 8 bytes an observation). */
+  observationTimes: boolean;
 }

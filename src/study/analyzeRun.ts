@@ -23,6 +23,8 @@ export interface RunPlan {
   batches: number | null;
   /** Slice width for MSER-5 / Welch slice averages, or null. */
   slice: number | null;
+  /** Keep observation times (the MSER-5 pass on an observation measure); default false. */
+  observationTimes?: boolean;
 }
 
 export interface RunAnalysis {
@@ -68,6 +70,7 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
     trace: plan.trace,
     batches: plan.batches,
     slice: plan.slice,
+    observationTimes: plan.observationTimes ?? false,
   };
   const accumulators: [Measure, MeasureAccumulator][] = plan.measures.map((m) => [m, createAccumulator(m, setup)]);
 

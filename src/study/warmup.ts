@@ -35,6 +35,7 @@ export async function resolveWarmup(study: Study, scenario: Scenario, analyze: A
     trace: false,
     batches: null,
     slice: isLevel ? w.slice : null,
+    observationTimes: !isLevel,
   }));
   const perRun = (await analyze(plans)).map((a, i) => ({ run: scenario.runs[i], out: a.outputs.get(measure.name)! }));
   const warnings: string[] = [];
