@@ -191,6 +191,20 @@ describe("readRun columns and series", () => {
     }
   });
 
+  it("readRun reads each time cell right when neighbouring rows share a time or almost its bytes", async () => {
+    const times = ["1", "1", "10", "10", "1.0", "1.00", " 1.5", "1.5", "1.5 ", "2e0", "2", "-0", "-0", "0", "0.1", "0.1"];
+    const rows = times.map((t, i) => [t, i] as const);
+    const text = "time,series,value\n" + rows.map(([t, i]) => `${t},s${i},${i}`).join("\n") + "\n";
+    const path = dir.file("near-times.csv", text);
+    const requests = times.map((_, i) => ({ name: `s${i}`, entity: false }));
+    for (const chunkSize of [undefined, 3, 7]) {
+      const { calls } = await record(path, requests, { chunkSize });
+      // common practice: each cell is the number Number() reads from its text, whatever the row before
+      expect(calls.map((c) => c.time), `chunkSize ${chunkSize}`).toEqual(times.map((t) => Number(t)));
+      expect(Object.is(calls[11].time, -0)).toBe(true);
+    }
+  });
+
   it("readRun decodes UTF-8 series and entity names, split across chunks or not", async () => {
     const path = dir.file("utf8.csv", "time,series,entity\n1,café,Ωmega\n2,café,ß\n");
     for (const chunkSize of [1, 2, 3, undefined]) {
