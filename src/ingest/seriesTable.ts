@@ -57,10 +57,10 @@ export class SeriesTable {
   private readonly keyHash: number[] = [];
   private readonly keyEntry: SeriesEntry[] = [];
   /**
-   * For each first byte, the key starting with it (index + 1); 0 when none, -1 when several.
-   * Keys never start with a space or a tab (cells are trimmed before they become keys).
+   * For each first byte, the keys starting with it (indices), or undefined. Keys never start with
+   * a space or a tab (cells are trimmed before they become keys).
    */
-  private readonly byFirstByte = new Int32Array(256);
+  private readonly byFirstByte: (number[] | undefined)[] = new Array<number[] | undefined>(256).fill(undefined);
   /** Where the cell matched by the last successful `matchKnown` ends (its comma or line feed). */
   matchedEnd = 0;
 
@@ -115,7 +115,7 @@ export class SeriesTable {
     this.keyEntry.push(entry);
     this.slots[s] = this.keyBytes.length;
     const first = bytes[0];
-    this.byFirstByte[first] = this.byFirstByte[first] === 0 ? this.keyBytes.length : -1;
+    (this.byFirstByte[first] ??= []).push(this.keyBytes.length - 1);
     if (this.keyBytes.length * 2 > this.slots.length) this.grow();
     this.lastKey = this.keyBytes.length - 1;
   }
@@ -141,35 +141,42 @@ export class SeriesTable {
 
   /**
    * The series whose name is exactly the bytes from `p` up to the next comma or line feed, when
-   * that name was seen before and is the only known one with its first byte; else null (the
-   * caller then finds the cell's end and asks `lookupBytes`). Sets `matchedEnd` on a match.
+   * that name was seen before; else null (the caller then finds the cell's end and asks
+   * `lookupBytes`, which also trims). Sets `matchedEnd` on a match.
    */
   matchKnown(buf: Buffer, p: number, end: number): SeriesEntry | null {
     if (p >= end) return null;
-    const k = this.byFirstByte[buf[p]] - 1;
-    if (k < 0) return null;
-    const key = this.keyBytes[k];
-    const stop = p + key.length;
-    if (stop >= end) return null;
-    const c = buf[stop];
-    if (c !== 44 && c !== 10) return null;
-    for (let i = 1; i < key.length; i++) if (key[i] !== buf[p + i]) return null;
-    this.matchedEnd = stop;
-    return this.keyEntry[k];
+    const candidates = this.byFirstByte[buf[p]];
+    if (candidates === undefined) return null;
+    for (let j = 0; j < candidates.length; j++) {
+      const k = candidates[j];
+      const key = this.keyBytes[k];
+      const stop = p + key.length;
+      if (stop >= end) continue;
+      const c = buf[stop];
+      if (c !== 44 && c !== 10) continue;
+      let i = 1;
+      while (i < key.length && key[i] === buf[p + i]) i++;
+      if (i < key.length) continue;
+      this.matchedEnd = stop;
+      return this.keyEntry[k];
+    }
+    return null;
   }
 
   /**
    * The series whose name is exactly the bytes `buf[a..b)` (a quoted cell, untrimmed), when that
-   * name was seen before and is the only known one with its first byte; else null.
+   * name was seen before; else null.
    */
   matchExact(buf: Buffer, a: number, b: number): SeriesEntry | null {
     if (a >= b) return null;
-    const k = this.byFirstByte[buf[a]] - 1;
-    if (k < 0) return null;
-    const key = this.keyBytes[k];
-    if (key.length !== b - a) return null;
-    for (let i = 1; i < key.length; i++) if (key[i] !== buf[a + i]) return null;
-    return this.keyEntry[k];
+    const candidates = this.byFirstByte[buf[a]];
+    if (candidates === undefined) return null;
+    for (let j = 0; j < candidates.length; j++) {
+      const k = candidates[j];
+      if (sameBytes(this.keyBytes[k], buf, a, b)) return this.keyEntry[k];
+    }
+    return null;
   }
 
   /** The series of a decoded name (used as is), or null when empty. */

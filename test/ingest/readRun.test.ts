@@ -205,6 +205,19 @@ describe("readRun columns and series", () => {
     }
   });
 
+  it("readRun tells apart series names that share their first letters, prefixes of each other included", async () => {
+    const names = ["q", "q_len", "q_wait", "qq", "q_len2", "r"];
+    const rows = Array.from({ length: 60 }, (_, i) => [i, names[(i * 7) % names.length]] as const);
+    const path = dir.file("prefixes.csv", "time,series,value\n" + rows.map(([t, n]) => `${t},${n},${t * 2}`).join("\n") + "\n");
+    const requests = names.map((name) => ({ name, entity: false }));
+    for (const chunkSize of [undefined, 4, 9]) {
+      const { calls, report } = await record(path, requests, { chunkSize });
+      // computed from the rows as written: each row's series is its name's index
+      expect(calls.map((c) => [c.time, c.series]), `chunkSize ${chunkSize}`).toEqual(rows.map(([t, n]) => [t, names.indexOf(n)]));
+      expect(Object.values(report.seriesRows)).toEqual(names.map(() => 10));
+    }
+  });
+
   it("readRun decodes UTF-8 series and entity names, split across chunks or not", async () => {
     const path = dir.file("utf8.csv", "time,series,entity\n1,café,Ωmega\n2,café,ß\n");
     for (const chunkSize of [1, 2, 3, undefined]) {
