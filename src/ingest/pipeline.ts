@@ -9,8 +9,9 @@
  * The worker does everything `readRunHere` does (row counts, every input check) and sends the
  * rows of requested series in batches, and a copy of each chunk of the file's bytes, which the main
  * thread hashes (SHA-256) while it waits for rows; the main thread feeds the rows to the measures
- * while the worker parses on. At most MAX_IN_FLIGHT batches wait at a time (the worker sleeps on a
- * shared counter), so memory stays bounded whatever the file's length. Rows reach `onRow` in file
+ * while the worker parses on. At most MAX_IN_FLIGHT messages wait at a time (the worker sleeps on a
+ * shared counter), so memory stays bounded whatever the file's length; their buffers go back to the
+ * worker to be filled again. Rows reach `onRow` in file
  * order and an input error arrives after the rows before it, exactly as when reading in one thread.
  */
 import { createHash } from "node:crypto";
