@@ -67,8 +67,8 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
     put("results.json", resultsJson(outcome));
     for (const f of tableFiles) put(f.record.file, f.csv);
     progress(`wrote ${tableFiles.length} calculation tables`);
-    const model = buildReportModel(study, outcome, { toolVersion: toolVersion().version, generatedAt: options.generatedAt ?? reportDate() });
     mark("results and tables written");
+    const model = buildReportModel(study, outcome, { toolVersion: toolVersion().version, generatedAt: options.generatedAt ?? reportDate() });
     put("report.html", await renderHtml(model));
     mark("report.html written");
     progress("wrote report.html");
