@@ -80,4 +80,21 @@ describe("precompiled artefacts (dist/)", () => {
     expect(a.length).toBeGreaterThan(10_000);
     expect(a).toBe(b);
   });
+
+  it("the bundled t quantile gives the very numbers of stdlib's package, and the built code uses it", async () => {
+    const bundled = require("../../dist/stats/tQuantileBundle.cjs") as (p: number, df: number) => number;
+    const stdlib = require("@stdlib/stats-base-dists-t-quantile") as (p: number, df: number) => number;
+    let n = 0;
+    for (const p of [1e-6, 0.0005, 0.025, 0.05, 0.1, 0.5, 0.8, 0.9, 0.95, 0.975, 0.99, 0.995, 0.9995]) {
+      for (let df = 0.25; df < 400; df *= 1.17) {
+        expect(Object.is(bundled(p, df), stdlib(p, df)), `p ${p}, df ${df}`).toBe(true);
+        n++;
+      }
+    }
+    expect(n).toBeGreaterThan(500);
+    const built = (await import(new URL("../../dist/stats/tQuantile.js", import.meta.url).href)) as typeof import("../../src/stats/tQuantile.js");
+    expect(built.loadTQuantile()).toBe(bundled);
+    // (the published reference values are checked in test/stats/tQuantile.test.ts)
+    expect(built.tQuantile(0.975, 10)).toBe(stdlib(0.975, 10));
+  });
 });
