@@ -5,7 +5,6 @@
 // It also bundles stdlib's t quantile (414 small modules, about 0.12 s to load) into one file
 // (about 0.02 s); test/scale/precompiled.test.ts checks that it gives the same numbers.
 /* global console, URL */
-import { createHash } from "node:crypto";
 import { readFileSync, readdirSync, writeFileSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -15,7 +14,7 @@ import Handlebars from "handlebars";
 import { rolldown } from "rolldown";
 
 const root = resolve(fileURLToPath(new URL("..", import.meta.url)));
-const sha256 = (text) => createHash("sha256").update(text).digest("hex");
+const { sha256 } = await import(join(root, "dist/digest.js"));
 
 // The manifest schema: the same options as src/manifest/checkSchema.ts (AJV_OPTIONS there).
 const schemaText = readFileSync(join(root, "docs/manifest.schema.json"), "utf8");

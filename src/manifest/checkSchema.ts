@@ -2,7 +2,7 @@
  * The structural check: the manifest against `docs/manifest.schema.json` (JSON Schema draft-07),
  * with the first problem turned into a located message a user can act on.
  */
-import { createHash } from "node:crypto";
+import { sha256 } from "../digest.js";
 import { readFileSync } from "node:fs";
 import { createRequire } from "node:module";
 import type { Ajv as AjvClass, ErrorObject, ValidateFunction } from "ajv";
@@ -31,7 +31,7 @@ function validate(): ValidateFunction {
     const text = readFileSync(SCHEMA_URL, "utf8");
     schemaRoot = JSON.parse(text) as SchemaNode;
     const built = precompiled<ValidateFunction & { sourceSha256?: string }>(import.meta.url, "./manifestValidator.cjs");
-    if (built !== null && built.sourceSha256 === createHash("sha256").update(text).digest("hex")) validator = built;
+    if (built !== null && built.sourceSha256 === sha256(text)) validator = built;
     else {
       // ajv itself loads only here (about 0.04 s): the built validator needs just its runtime helpers.
       const { Ajv } = createRequire(import.meta.url)("ajv") as { Ajv: typeof AjvClass };

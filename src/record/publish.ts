@@ -1,6 +1,6 @@
 import type { Study } from "../manifest/types.js";
 import { runStudy } from "../study/runStudy.js";
-import { sha256 } from "../study/tables.js";
+import { sha256 } from "../digest.js";
 import { makeRecord, type StudyRecord } from "./record.js";
 import { StagedDir } from "./outputDir.js";
 import { toolVersion } from "./version.js";

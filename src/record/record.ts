@@ -1,7 +1,7 @@
 import { basename, dirname, relative, resolve, sep } from "node:path";
 import type { Study } from "../manifest/types.js";
 import type { InputRecord } from "../study/outcome.js";
-import { sha256 } from "../study/tables.js";
+import { sha256 } from "../digest.js";
 import { toolVersion } from "./version.js";
 
 /** The study record: what anyone needs to re-derive a report folder later (issue 5). */

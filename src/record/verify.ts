@@ -5,7 +5,7 @@ import { loadStudy } from "../manifest/loadStudy.js";
 import * as msg from "../messages/output.js";
 import { UserError } from "../messages/index.js";
 import { runStudy } from "../study/runStudy.js";
-import { sha256 } from "../study/tables.js";
+import { sha256 } from "../digest.js";
 import { resultsJson } from "./publish.js";
 import { recordedManifest, type StudyRecord } from "./record.js";
 

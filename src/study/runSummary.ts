@@ -11,7 +11,7 @@
  * doubles so that every bit survives. It also holds a digest of the plan it was made with (the
  * scenario's measures, window, warm-up, columns and table limits) and a digest of itself.
  */
-import { createHash } from "node:crypto";
+import { sha256 } from "../digest.js";
 import type { Study } from "../manifest/types.js";
 import * as msg from "../messages/summary.js";
 import * as studyMessages from "../messages/study.js";
@@ -31,10 +31,6 @@ interface SummaryFile {
   plan_sha256: string;
   analysis: unknown;
   digest?: string;
-}
-
-function sha256(text: string): string {
-  return createHash("sha256").update(text).digest("hex");
 }
 
 /** `<scenario>/<run>.json` inside a summaries folder (names made safe as for the tables). */

@@ -1,4 +1,4 @@
-import { createHash } from "node:crypto";
+import { sha256 } from "../digest.js";
 import { type BuiltTable, tableToCsv } from "../measures/table.js";
 import type { IntervalArithmetic, TableRecord } from "./outcome.js";
 
@@ -27,9 +27,6 @@ export interface TableFile {
   csv: string;
 }
 
-export function sha256(text: string | Buffer): string {
-  return createHash("sha256").update(text).digest("hex");
-}
 
 /** A calculation table as a file: its CSV text, digest and index entry. */
 export function tableFile(
