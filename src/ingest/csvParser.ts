@@ -53,13 +53,13 @@ export class CsvParser implements ChunkParser {
   private entityColumn = -1;
   /** Fields of the record read last by `readFields`, and the line it started on. */
   private fields: string[] = [];
+  private fieldsLine = 0;
   /** Whether the columns start time, series, value (then entity, when wanted): `standardRow` applies. */
   private standard = false;
   /** Where the time cell of the row before lies in the bytes at hand (`standardRow`), and its value. */
   private timeBytesStart = 0;
   private timeBytesEnd = 0;
   private timeBefore = NaN;
-  private fieldsLine = 0;
 
   constructor(
     private readonly table: SeriesTable,
@@ -184,7 +184,7 @@ export class CsvParser implements ChunkParser {
         const close = simpleQuoted(buf, p, end);
         if (close < 0) return close === INCOMPLETE && !final ? INCOMPLETE : QUOTED;
         const a = p + 1;
-        q = buf[close + 1] === CR ? close + 2 : close + 1;
+        q = afterQuoted(buf, close);
         if (role === TIME || role === VALUE) {
           let x = scanDecimal(buf, a, close);
           if (x !== x || scanned.end !== close) {
@@ -252,7 +252,7 @@ export class CsvParser implements ChunkParser {
           if (q < end && buf[q] === QUOTE) {
             const close = simpleQuoted(buf, q, end);
             if (close < 0) return close === INCOMPLETE && !final ? INCOMPLETE : QUOTED;
-            q = buf[close + 1] === CR ? close + 2 : close + 1;
+            q = afterQuoted(buf, close);
           } else {
             while (q < end && buf[q] !== COMMA && buf[q] !== LF) q++;
           }
@@ -442,6 +442,11 @@ function simpleQuoted(buf: Buffer, p: number, end: number): number {
 function sameBytesBackwards(buf: Buffer, a: number, b: number, n: number): boolean {
   for (let i = n - 1; i >= 0; i--) if (buf[a + i] !== buf[b + i]) return false;
   return true;
+}
+
+/** The comma or line feed after a simple quoted cell's closing quote at `close` (see `simpleQuoted`). */
+function afterQuoted(buf: Buffer, close: number): number {
+  return buf[close + 1] === CR ? close + 2 : close + 1;
 }
 
 /** The position of the comma or line feed that ends the unquoted field starting at `p`, or `end`. */
