@@ -4,9 +4,9 @@
  *
  *   working buffer: [ carried part of a row | newly read bytes | free space ]
  *
- * A plain file is read straight into the free space (`space` then `filled`: no copy, no buffer per
- * read); decompressed chunks are copied in (`push`). After each parse the unparsed tail moves to
- * the front. The buffer grows only when one row is longer than half of it.
+ * Chunks are copied in (`push`), the reader's buffers stay free for the next read. After each
+ * parse the unparsed tail moves to the front. The buffer grows only when one row is longer than
+ * half of it.
  */
 
 /** A parser of rows from bytes. */
@@ -41,8 +41,8 @@ export class ChunkFeeder {
     this.work = Buffer.allocUnsafe(Math.max(2 * size, 64));
   }
 
-  /** Free space of at least `size` bytes to read into; pass the bytes read to `filled`. */
-  space(): Buffer {
+  /** Free space of at least `size` bytes to copy into; then `filled` with the bytes copied. */
+  private space(): Buffer {
     if (this.work.length - this.held < this.size) {
       const bigger = Buffer.allocUnsafe(Math.max(2 * this.work.length, this.held + this.size));
       this.work.copy(bigger, 0, 0, this.held);
@@ -52,7 +52,7 @@ export class ChunkFeeder {
   }
 
   /** `n` bytes were written at the start of the last `space()`. */
-  filled(n: number): void {
+  private filled(n: number): void {
     if (n === 0) return;
     this.held += n;
     if (this.held - this.carried < this.wait) return;

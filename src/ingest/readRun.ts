@@ -4,7 +4,8 @@
  *   file ──read 1 MiB──┬─► SHA-256 and byte count (bytes as stored)
  *                      └─► [gunzip] ─► ChunkFeeder ─► CsvParser | JsonLinesParser ─► SeriesTable ─► onRow
  *
- * A plain file is read straight into the feeder's working buffer (no buffer per read).
+ * A plain file is read into two alternating buffers, the next read running ahead while a chunk is
+ * parsed; the feeder copies each chunk into its working buffer.
  *
  * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
  * end, and one entry per distinct series. A large file read from the main thread is parsed on a
@@ -127,11 +128,11 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   try {
     if (!format.gzip) {
       const file = await open(opts.path, "r");
+      // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
+      let here = Buffer.allocUnsafe(chunkSize);
+      let there = Buffer.allocUnsafe(chunkSize);
+      let next = file.read(here, 0, chunkSize, null);
       try {
-        // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
-        let here = Buffer.allocUnsafe(chunkSize);
-        let there = Buffer.allocUnsafe(chunkSize);
-        let next = file.read(here, 0, chunkSize, null);
         for (;;) {
           const { bytesRead: n } = await next;
           if (n === 0) break;
@@ -142,8 +143,8 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
           bytes += n;
           parsed(() => feeder.push(chunk));
         }
-        await next.catch(() => {});
       } finally {
+        await next.catch(() => {}); // the read ahead, also when parsing stopped at an error
         await file.close();
       }
     } else {
