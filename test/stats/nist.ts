@@ -1,7 +1,7 @@
-/** The NIST StRD univariate datasets in ../shared/reference, read for the tests. */
+/** The NIST StRD univariate datasets in test/reference, read for the tests. */
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
-import { REFERENCE_DIR } from "../helpers/shared.js";
+import { REFERENCE_DIR } from "../helpers/reference.js";
 
 export const NIST_DIR = REFERENCE_DIR + "nist-strd-univariate";
 

@@ -1,6 +1,6 @@
-/** The Student t quantiles of ../shared/reference/t-quantiles.json, looked up by p and df. */
+/** The Student t quantiles of test/reference/t-quantiles.json, looked up by p and df. */
 import { readFileSync } from "node:fs";
-import { REFERENCE_DIR } from "../helpers/shared.js";
+import { REFERENCE_DIR } from "../helpers/reference.js";
 
 const file = JSON.parse(readFileSync(REFERENCE_DIR + "t-quantiles.json", "utf8")) as {
   values: { p: number; df: number; quantile: string }[];

@@ -9,7 +9,7 @@ const REFERENCE = 1e-10;
 
 describe("tQuantile", () => {
   it("the reference file holds the expected grid of 126 quantiles", () => {
-    // reference: ../shared/reference/t-quantiles.json (6 probabilities × 21 degrees of freedom)
+    // reference: test/reference/t-quantiles.json (6 probabilities × 21 degrees of freedom)
     expect(referenceTable).toHaveLength(126);
   });
 
