@@ -1,5 +1,6 @@
 import type { BuiltTable } from "./table.js";
 import type { RunStats } from "../study/outcome.js";
+import type { TraceLine } from "./trace.js";
 
 /** One series a measure reads; `entity` asks the reader to decode the entity cell. */
 export interface SeriesRead {
@@ -12,20 +13,13 @@ export interface RowOrigin {
   file: string;
 }
 
-/** A point of a level's trace, for the step chart. */
-export interface TracePoint {
-  time: number;
-  value: number;
-  running_mean: number;
-}
-
 /** What a measure yields for one run. */
 export interface MeasureOutput {
   stats: RunStats;
   /** The calculation tables of this run and measure: the main one first, extras after. */
   tables: { suffix: string; table: BuiltTable }[];
-  /** Level change points (possibly thinned) for the chart. */
-  trace?: { points: TracePoint[]; thinned: boolean };
+  /** The level over the window for the chart (for a utilization: the busy level and the capacity). */
+  trace?: { level: TraceLine; capacity: TraceLine | null };
   /** Observation values in time order (for samples, batch means and MSER-5). */
   observations?: Float64Array;
   /** Observation times, aligned with `observations`. */

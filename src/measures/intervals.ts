@@ -12,6 +12,11 @@
  * zero-length interval, and the last one's value holds on (contract section 3).
  */
 
+/** Receives every change of the level, before the window's collection start too (the chart's trace). */
+export interface ChangeSink {
+  change(time: number, value: number): void;
+}
+
 /** Receives each closed interval in time order. */
 export interface IntervalSink {
   interval(from: number, to: number, value: number): void;
@@ -26,6 +31,7 @@ export class LevelTracker {
     private readonly collectFrom: number,
     private readonly end: number,
     private readonly sink: IntervalSink,
+    private readonly changes: ChangeSink | null = null,
   ) {
     this.current = initial;
     this.from = collectFrom;
@@ -38,6 +44,7 @@ export class LevelTracker {
       this.from = time;
     }
     this.current = value;
+    if (this.changes !== null) this.changes.change(time, value);
   }
 
   /** Closes the last interval at the window's end. Returns the final level. */

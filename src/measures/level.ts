@@ -24,7 +24,8 @@ export class LevelSinks implements IntervalSink {
   private readonly running = new Adder();
   /** Reused for every row; numbers only (NaN for an empty cell) so doubles are stored unboxed. */
   private readonly cells: number[] = new Array<number>(LEVEL_COLUMNS.length).fill(0);
-  private readonly trace: TraceBuilder | null;
+  /** The chart's record of the level, fed by the tracker with every change (warm-up included). */
+  readonly trace: TraceBuilder | null;
   readonly batches: SliceAreas | null;
   readonly slices: SliceAreas | null;
   private index = 0;
@@ -32,12 +33,13 @@ export class LevelSinks implements IntervalSink {
   constructor(
     private readonly setup: MeasureSetup,
     thresholds: readonly number[],
+    initial: number,
   ) {
     const { window: w } = setup;
     const end = w.end as number;
     this.stats = new LevelStats(thresholds);
     this.table = new TableBuilder(LEVEL_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
-    this.trace = setup.trace ? new TraceBuilder() : null;
+    this.trace = setup.trace ? new TraceBuilder(w.start, w.collectFrom, end, initial) : null;
     const T = end - w.collectFrom;
     this.batches = setup.batches !== null ? new SliceAreas(w.collectFrom, T / setup.batches, setup.batches, end) : null;
     if (setup.slice !== null) {
@@ -64,7 +66,6 @@ export class LevelSinks implements IntervalSink {
     r[6] = runningArea;
     r[7] = runningMean;
     this.table.addNumbers(r);
-    if (this.trace !== null) this.trace.add(from, value, elapsed > 0 ? runningMean : value);
     if (this.batches !== null) this.batches.interval(from, to, value);
     if (this.slices !== null) this.slices.interval(from, to, value);
   }
@@ -90,10 +91,7 @@ export class LevelSinks implements IntervalSink {
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
     const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
-    if (this.trace !== null) {
-      const points = this.trace.close(end, final, f.mean);
-      out.trace = { points, thinned: this.trace.thinned };
-    }
+    if (this.trace !== null) out.trace = { level: this.trace.finish(), capacity: null };
     if (this.batches !== null) out.batchMeans = this.batches.means();
     if (this.slices !== null) out.slices = this.slices.means();
     return out;
@@ -111,8 +109,8 @@ export class SeriesLevel implements MeasureAccumulator {
     private readonly setup: MeasureSetup,
   ) {
     this.reads = [{ series: measure.source.series, entity: false }];
-    this.sinks = new LevelSinks(setup, measure.atLeast);
-    this.tracker = new LevelTracker(measure.initial, setup.window.collectFrom, setup.window.end as number, this.sinks);
+    this.sinks = new LevelSinks(setup, measure.atLeast, measure.initial);
+    this.tracker = new LevelTracker(measure.initial, setup.window.collectFrom, setup.window.end as number, this.sinks, this.sinks.trace);
   }
 
   row(_slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
@@ -148,8 +146,8 @@ export class EntityLevel implements MeasureAccumulator {
   finish(): MeasureOutput {
     const { setup, measure } = this;
     const c = setup.window.collectFrom;
-    const sinks = new LevelSinks(setup, measure.atLeast);
-    const tracker = new LevelTracker(measure.initial, c, setup.window.end as number, sinks);
+    const sinks = new LevelSinks(setup, measure.atLeast, measure.initial);
+    const tracker = new LevelTracker(measure.initial, c, setup.window.end as number, sinks, sinks.trace);
     let inside = 0;
     let entered = 0;
     let left = 0;

@@ -42,7 +42,9 @@ export class Utilization implements MeasureAccumulator {
   private readonly table: TableBuilder;
   /** Reused for every row; numbers only (NaN for an empty cell) so doubles are stored unboxed. */
   private readonly cells: number[] = new Array<number>(UTILIZATION_COLUMNS.length).fill(0);
-  private readonly trace: TraceBuilder | null;
+  /** The chart's record of the busy level and of the capacity, warm-up included. */
+  private readonly busyTrace: TraceBuilder | null;
+  private readonly capacityTrace: TraceBuilder | null;
   private readonly batchBusy: SliceAreas | null = null;
   private readonly batchCapacity: SliceAreas | null = null;
   private readonly sliceBusy: SliceAreas | null = null;
@@ -62,7 +64,9 @@ export class Utilization implements MeasureAccumulator {
     this.from = this.c;
     this.busyStats = new LevelStats(measure.atLeast);
     this.table = new TableBuilder(UTILIZATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
-    this.trace = setup.trace ? new TraceBuilder() : null;
+    const { start } = setup.window;
+    this.busyTrace = setup.trace ? new TraceBuilder(start, this.c, this.end, this.busy) : null;
+    this.capacityTrace = setup.trace ? new TraceBuilder(start, this.c, this.end, this.capacity) : null;
     const T = this.end - this.c;
     if (setup.batches !== null) {
       this.batchBusy = new SliceAreas(this.c, T / setup.batches, setup.batches, this.end);
@@ -86,8 +90,13 @@ export class Utilization implements MeasureAccumulator {
       this.close(time);
       this.from = time;
     }
-    if (kind === BUSY) this.busy = value;
-    else this.capacity = value;
+    if (kind === BUSY) {
+      this.busy = value;
+      if (this.busyTrace !== null) this.busyTrace.change(time, value);
+    } else {
+      this.capacity = value;
+      if (this.capacityTrace !== null) this.capacityTrace.change(time, value);
+    }
   }
 
   private close(to: number): void {
@@ -117,7 +126,6 @@ export class Utilization implements MeasureAccumulator {
     r[10] = elapsed > 0 ? runningArea / elapsed : NaN;
     r[11] = runningCap !== 0 ? runningArea / runningCap : NaN;
     this.table.addNumbers(r);
-    if (this.trace !== null) this.trace.add(from, busy, elapsed > 0 ? runningArea / elapsed : busy);
     if (this.batchBusy !== null) {
       this.batchBusy.interval(from, to, busy);
       this.batchCapacity!.interval(from, to, cap);
@@ -152,7 +160,7 @@ export class Utilization implements MeasureAccumulator {
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
     const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
     if (u > 1 + 1e-12) out.warnings.push(`utilization ${u} is above 1: the busy level exceeded the capacity for part of the window`);
-    if (this.trace !== null) out.trace = { points: this.trace.close(this.end, this.busy, busyArea / T), thinned: this.trace.thinned };
+    if (this.busyTrace !== null) out.trace = { level: this.busyTrace.finish(), capacity: this.capacityTrace!.finish() };
     if (this.batchBusy !== null) out.batchMeans = ratio(this.batchBusy, this.batchCapacity!);
     if (this.sliceBusy !== null) out.slices = ratio(this.sliceBusy, this.sliceCapacity!);
     return out;

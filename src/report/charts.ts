@@ -5,6 +5,7 @@
  * Every chart states the time unit on its time axis or in its value axis title.
  */
 import type { TopLevelSpec } from "vega-lite";
+import type { TraceLine } from "../measures/trace.js";
 
 /** The report's palette; the CSS in templates/report.css uses the same values. */
 export const PALETTE = {
@@ -18,8 +19,6 @@ export const PALETTE = {
   haze: "#e9e1d3",
 } as const;
 
-/** Most points a step chart draws; longer traces are thinned (see `thinSteps`). */
-export const MAX_TRACE_POINTS = 2000;
 /** Most values a histogram bins; larger samples are subsampled evenly. */
 export const MAX_HISTOGRAM_VALUES = 5000;
 
@@ -129,118 +128,202 @@ export function runsChart(points: RunPoint[], scenarios: string[], valueTitle: s
   };
 }
 
-/** A change point of a level: `value` holds on [time, next time). */
-export interface StepPoint {
-  time: number;
-  value: number;
-  running_mean: number;
+/** The area under a trace's level from c up to `t` (c <= t <= end), exactly from its change points when it has them, else at slice ends only (null elsewhere). */
+export function areaSince(line: TraceLine, c: number, t: number): number | null {
+  const steps = line.steps;
+  if (steps !== null) {
+    // The last change point at or before t.
+    let lo = 0;
+    let hi = steps.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if (steps[mid].time <= t) lo = mid;
+      else hi = mid - 1;
+    }
+    const s = steps[lo];
+    const from = s.time > c ? s.time : c;
+    return s.area + (t > from ? s.value * (t - from) : 0);
+  }
+  for (const sl of line.slices) if (sl.to === t) return sl.area_to;
+  return null;
 }
 
 /**
- * Thins a step trace to at most about `max` points: the time range is cut into equal buckets
- * and each bucket keeps its first point, its lowest and highest level, and its last point, so
- * peaks and troughs stay visible.
+ * The running time average area(c, t) / (t - c) of a level, sampled where a chart needs it: at
+ * every change point after c and at every slice end, so consecutive samples are about a pixel
+ * apart and the curve between change points (area so far over elapsed time) is drawn as a curve.
+ * For a utilization, the running ratio of the busy area to the capacity area at the same times.
+ * Starts at c with the limit of the average there (the level, or busy over capacity, at c).
  */
-export function thinSteps(points: StepPoint[], max: number = MAX_TRACE_POINTS): StepPoint[] {
-  if (points.length <= max) return points;
-  const buckets = Math.max(1, Math.floor(max / 4));
-  const t0 = points[0].time;
-  const span = points[points.length - 1].time - t0 || 1;
-  const out: StepPoint[] = [];
-  let start = 0;
-  while (start < points.length) {
-    const b = Math.min(buckets - 1, Math.floor(((points[start].time - t0) / span) * buckets));
-    let end = start;
-    while (end + 1 < points.length && Math.min(buckets - 1, Math.floor(((points[end + 1].time - t0) / span) * buckets)) === b) end++;
-    let lo = start;
-    let hi = start;
-    for (let i = start; i <= end; i++) {
-      if (points[i].value < points[lo].value) lo = i;
-      if (points[i].value > points[hi].value) hi = i;
-    }
-    for (const i of [...new Set([start, lo, hi, end])].sort((a, b2) => a - b2)) out.push(points[i]);
-    start = end + 1;
+export function runningAverage(level: TraceLine, capacity: TraceLine | null, c: number, end: number): { time: number; mean: number }[] {
+  const times = new Set<number>();
+  for (const sl of level.slices) if (sl.to > c) times.add(sl.to);
+  const exact = level.steps !== null && (capacity === null || capacity.steps !== null);
+  if (exact) for (const line of capacity === null ? [level] : [level, capacity]) for (const s of line.steps!) if (s.time > c && s.time <= end) times.add(s.time);
+  const out: { time: number; mean: number }[] = [];
+  const at = levelAt(level, c);
+  const capAt = capacity === null ? 1 : levelAt(capacity, c);
+  if (at !== null && capAt !== null && capAt !== 0) out.push({ time: c, mean: at / capAt });
+  for (const t of [...times].sort((x, y) => x - y)) {
+    const a = areaSince(level, c, t);
+    const d = capacity === null ? t - c : areaSince(capacity, c, t);
+    if (a === null || d === null || !(d !== 0)) continue;
+    out.push({ time: t, mean: a / d });
   }
   return out;
 }
 
-/**
- * One run's level over time: the step line with the area under it shaded, the running time
- * average since the start of collection, and the warm-up shaded and marked.
- */
-export function traceChart(args: {
-  points: StepPoint[];
+/** The level in effect just after `t` (from the change points, or the slice holding t when it is constant there). */
+function levelAt(line: TraceLine, t: number): number | null {
+  if (line.steps !== null) {
+    let v = line.steps[0].value;
+    for (const s of line.steps) {
+      if (s.time > t) break;
+      v = s.value;
+    }
+    return v;
+  }
+  const sl = line.slices.find((x) => x.to > t);
+  return sl !== undefined && sl.low === sl.high ? sl.low : null;
+}
+
+export interface TraceChartArgs {
+  /** Window start, collection start c (after warm-up) and end. */
+  start: number;
   from: number;
   to: number;
   warmup: number | null;
+  /** The level (for a utilization: the busy level) and, for a utilization, the capacity. */
+  level: TraceLine;
+  capacity: TraceLine | null;
   timeTitle: string;
   valueTitle: string;
   levelLabel: string;
+  capacityLabel: string;
   averageLabel: string;
+  /** For a utilization: the title of the right axis (the running utilization, a fraction). */
+  averageTitle: string | null;
   warmupLabel: string;
-}): TopLevelSpec {
-  const pts = thinSteps(args.points);
-  const last = pts[pts.length - 1];
-  const steps = [...pts.map((p) => ({ time: p.time, value: p.value, series: args.levelLabel })),
-    { time: args.to, value: last ? last.value : 0, series: args.levelLabel }];
-  const running = pts.filter((p) => p.time > args.from && Number.isFinite(p.running_mean))
-    .map((p) => ({ time: p.time, mean: p.running_mean, series: args.averageLabel }));
-  const colorScale = {
-    domain: [args.levelLabel, args.averageLabel],
-    range: [PALETTE.ink, PALETTE.kiln],
-  };
+}
+
+/** True when a trace is drawn as a band of slices (too many change points for a step line). */
+export function tracedAsBand(args: Pick<TraceChartArgs, "level" | "capacity">): boolean {
+  return args.level.steps === null || (args.capacity !== null && args.capacity.steps === null);
+}
+
+/** Step-after points of a line: every change point, and the level held at the end. */
+function stepRows(line: TraceLine, end: number, series: string): { time: number; value: number; series: string }[] {
+  const steps = line.steps!;
+  const rows = steps.map((p) => ({ time: p.time, value: p.value, series }));
+  rows.push({ time: end, value: steps[steps.length - 1].value, series });
+  return rows;
+}
+
+/**
+ * One run's level over its whole window: the warm-up as a grey band from the window's start, the
+ * level as a step line with the area under it shaded (or, on a run with more change points than
+ * the chart can draw one by one, as a band of the lowest and highest level in each slice of the
+ * window with the slice's time average as a line), and the running time average from c as a
+ * curve. For a utilization the capacity is drawn too, and the running utilization (busy area over
+ * capacity area so far) is read on a right axis from 0.
+ *
+ * Every height comes from the trace: the y axis spans the true lowest and highest level (and 0).
+ */
+export function traceChart(args: TraceChartArgs): TopLevelSpec {
+  const { level, capacity } = args;
+  const band = tracedAsBand(args);
+  const series = [args.levelLabel, ...(capacity !== null ? [args.capacityLabel] : []), args.averageLabel];
+  const colorScale = { domain: series, range: [PALETTE.ink, ...(capacity !== null ? [PALETTE.tide] : []), PALETTE.kiln] };
   const color = { field: "series", type: "nominal", scale: colorScale, legend: { title: null } } as const;
-  const xTime = { field: "time", type: "quantitative", title: args.timeTitle, scale: { nice: false } } as const;
+  const xTime = { field: "time", type: "quantitative", title: args.timeTitle, scale: { domain: [args.start, args.to], nice: false, zero: false } } as const;
+  const lows = [level.min, ...(capacity !== null ? [capacity.min] : [])];
+  const highs = [level.max, ...(capacity !== null ? [capacity.max] : [])];
+  const yLow = Math.min(0, ...lows);
+  let yHigh = Math.max(0, ...highs);
+  if (yHigh === yLow) yHigh = yLow + 1;
+  const yScale = { domain: [yLow, yHigh] };
+  const yValue = { field: "value", type: "quantitative", title: args.valueTitle, scale: yScale } as const;
   const layer: object[] = [];
-  if (args.warmup !== null && args.warmup > (pts[0]?.time ?? 0)) {
+  if (args.from > args.start) {
+    const w = { start: args.start, end: args.from, label: args.warmupLabel };
     layer.push({
-      data: { values: [{ start: pts[0]?.time ?? 0, end: args.warmup, label: args.warmupLabel }] },
+      name: "warmup_band",
+      data: { values: [w] },
       mark: { type: "rect", color: PALETTE.haze, opacity: 0.8 },
-      encoding: { x: { field: "start", type: "quantitative" }, x2: { field: "end" } },
-    });
-    layer.push({
-      data: { values: [{ end: args.warmup, label: args.warmupLabel }] },
+      encoding: { x: { field: "start", type: "quantitative", scale: xTime.scale }, x2: { field: "end" } },
+    }, {
+      data: { values: [w] },
       mark: { type: "rule", color: PALETTE.muted, strokeDash: [3, 3] },
       encoding: { x: { field: "end", type: "quantitative" } },
-    });
-    layer.push({
-      data: { values: [{ end: args.warmup, label: args.warmupLabel }] },
+    }, {
+      data: { values: [w] },
       mark: { type: "text", align: "right", baseline: "bottom", dx: -3, y: -3, fontSize: 10, fontStyle: "italic", color: PALETTE.muted },
       encoding: { x: { field: "end", type: "quantitative" }, text: { field: "label" } },
     });
   }
-  layer.push({
-    data: { values: steps },
+  // The capacity first, wide and dashed, so that the busy line drawn over it leaves it visible where they meet.
+  const lines: { line: TraceLine; label: string; name: string }[] = [];
+  if (capacity !== null) lines.push({ line: capacity, label: args.capacityLabel, name: "capacity" });
+  lines.push({ line: level, label: args.levelLabel, name: "level" });
+  if (!band) layer.push({
+    name: "level_area",
+    data: { values: stepRows(level, args.to, args.levelLabel) },
     mark: { type: "area", interpolate: "step-after", color: PALETTE.ochre, opacity: 0.28 },
-    encoding: { x: xTime, y: { field: "value", type: "quantitative", title: args.valueTitle } },
+    // Not stacked: ties (several rows at one time) would otherwise pile up on one another.
+    encoding: { x: xTime, y: { ...yValue, stack: null } },
   });
-  layer.push({
-    data: { values: steps },
-    mark: { type: "line", interpolate: "step-after", strokeWidth: 1.2 },
-    encoding: {
-      x: xTime,
-      y: { field: "value", type: "quantitative", title: args.valueTitle },
-      color,
-    },
-  });
+  for (const { line, label, name } of lines) {
+    if (!band) {
+      layer.push({
+        name: `${name}_line`,
+        data: { values: stepRows(line, args.to, label) },
+        mark: { type: "line", interpolate: "step-after", ...(name === "capacity" ? { strokeWidth: 3, strokeDash: [6, 3] } : { strokeWidth: 1.2 }) },
+        encoding: { x: xTime, y: yValue, color },
+      });
+    } else {
+      const slices = line.slices.map((s) => ({ start: s.from, end: s.to, low: s.low, high: s.high, series: label }));
+      layer.push({
+        name: `${name}_band`,
+        data: { values: slices },
+        // A stroke as wide as a pixel keeps a band one slice wide (a spike of an instant) visible at its height.
+        mark: { type: "rect", color: name === "level" ? PALETTE.ochre : PALETTE.tide, opacity: name === "level" ? 0.8 : 0.3, stroke: name === "level" ? PALETTE.ochre : PALETTE.tide, strokeWidth: 0.8 },
+        encoding: { x: { field: "start", type: "quantitative", title: args.timeTitle, scale: xTime.scale }, x2: { field: "end" }, y: { field: "low", type: "quantitative", title: args.valueTitle, scale: yScale }, y2: { field: "high" } },
+      });
+      const means = line.slices.map((s) => ({ time: s.from, value: s.mean, series: label }));
+      const lastSlice = line.slices[line.slices.length - 1];
+      if (lastSlice !== undefined) means.push({ time: lastSlice.to, value: lastSlice.mean, series: label });
+      layer.push({
+        name: `${name}_slice_mean`,
+        data: { values: means },
+        mark: { type: "line", interpolate: "step-after", strokeWidth: 1, ...(name === "capacity" ? { strokeDash: [2, 2] } : {}) },
+        encoding: { x: xTime, y: yValue, color },
+      });
+    }
+  }
+  const running = runningAverage(level, capacity, args.from, args.to).map((p) => ({ ...p, series: args.averageLabel }));
+  const spec: Record<string, unknown> = { $schema: SCHEMA, width: WIDTH, height: 170, config: config() };
   if (running.length > 0) {
-    layer.push({
+    const runLayer = {
+      name: "running_average",
       data: { values: running },
       mark: { type: "line", strokeWidth: 2, strokeDash: [6, 3] },
       encoding: {
         x: xTime,
-        y: { field: "mean", type: "quantitative" },
+        y: args.averageTitle === null
+          ? { field: "mean", type: "quantitative", scale: yScale }
+          : { field: "mean", type: "quantitative", title: args.averageTitle, scale: { domain: [0, Math.max(1, ...running.map((p) => p.mean))] }, axis: { orient: "right" } },
         color,
       },
-    });
+    };
+    if (args.averageTitle === null) layer.push(runLayer);
+    else {
+      spec.layer = [{ layer }, runLayer];
+      spec.resolve = { scale: { y: "independent" } };
+      return spec as unknown as TopLevelSpec;
+    }
   }
-  return {
-    $schema: SCHEMA,
-    width: WIDTH,
-    height: 170,
-    layer,
-    config: config(),
-  } as TopLevelSpec;
+  spec.layer = layer;
+  return spec as unknown as TopLevelSpec;
 }
 
 /** Evenly spaced subsample of at most `max` values (the first and last kept). */

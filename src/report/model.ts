@@ -10,6 +10,7 @@
 import type { Measure, Scenario, Study, Warmup } from "../manifest/types.js";
 import type {
   IntervalArithmetic,
+  LevelTrace,
   RunResult,
   RunStats,
   StudyOutcome,
@@ -26,7 +27,7 @@ import {
   runsChart,
   traceChart,
   MAX_HISTOGRAM_VALUES,
-  MAX_TRACE_POINTS,
+  tracedAsBand,
   MAX_ECDF_POINTS,
   MAX_WELCH_POINTS,
   timeAtValueChart,
@@ -597,20 +598,8 @@ export function buildReportModel(
     });
     for (const sr of results.scenarios) {
       const tr = outcome.traces.find((t) => t.scenario === sr.name && t.measure === name);
-      if (!tr || tr.points.length === 0) continue;
-      const thinned = tr.thinned || tr.points.length > MAX_TRACE_POINTS;
-      charts.push({
-        id: chartId("trace"),
-        caption: `${name} over time in run ${tr.run} of ${sr.name}: the level (area under it shaded), the running time average from ${fmt(tr.from)} ${unit}` +
-          (tr.warmup !== null ? `, and the warm-up up to ${fmt(tr.warmup)} ${unit} (grey band)` : "") + "." +
-          (thinned ? ` The line is thinned for drawing (at most ${MAX_TRACE_POINTS} change points, keeping each stretch's first, lowest, highest and last); the numbers use every row.` : ""),
-        spec: traceChart({
-          points: tr.points, from: tr.from, to: tr.to, warmup: tr.warmup,
-          timeTitle: `time (${unit})`,
-          valueTitle: m.kind === "utilization" ? `${name}: busy units` : `${name}: level`,
-          levelLabel: "level", averageLabel: "running time average", warmupLabel: "warm-up",
-        }),
-      });
+      if (!tr) continue;
+      charts.push({ id: chartId("trace"), ...traceView(name, m.kind, sr.name, tr, unit) });
     }
     if (m.kind === "observation") {
       const rows = outcome.samples.filter((s) => s.measure === name)
@@ -1242,4 +1231,29 @@ function batchValuesView(
     intro: "The batch means behind each batch-means interval, in time order. A trend or long runs of values above or below the mean are what a large lag-1 correlation measures.",
     items,
   };
+}
+
+/** A run's level over time: caption and chart (the level, or busy against capacity for a utilization). */
+function traceView(name: string, kind: Measure["kind"], scenario: string, tr: LevelTrace, unit: string): { caption: string; spec: TopLevelSpec } {
+  const band = tracedAsBand(tr);
+  const util = kind === "utilization";
+  const shape = band
+    ? `the ${util ? "busy level and the capacity" : "level"} as a band from the lowest to the highest value in each of ${tr.level.slices.length} equal slices of the window, with each slice's time average as a line (the run has too many changes to draw one by one; every row counts in the numbers)`
+    : util ? "the busy level (area under it shaded) and the capacity" : "the level (area under it shaded)";
+  const average = util
+    ? `the running utilization from ${fmt(tr.from)} ${unit} (busy area over capacity area so far, right axis)`
+    : `the running time average from ${fmt(tr.from)} ${unit} (area so far over elapsed time)`;
+  const caption = `${name} over time in run ${tr.run} of ${scenario}: ${shape}, and ${average}` +
+    (tr.from > tr.start ? `; the warm-up up to ${fmt(tr.from)} ${unit} is the grey band` : "") + ".";
+  const spec = traceChart({
+    start: tr.start, from: tr.from, to: tr.to, warmup: tr.warmup, level: tr.level, capacity: tr.capacity,
+    timeTitle: `time (${unit})`,
+    valueTitle: util ? `${name}: units busy and available` : `${name}: level`,
+    levelLabel: util ? "busy" : "level",
+    capacityLabel: "capacity",
+    averageLabel: util ? "running utilization" : "running time average",
+    averageTitle: util ? `${name}: running utilization` : null,
+    warmupLabel: "warm-up",
+  });
+  return { caption, spec };
 }

@@ -1,3 +1,4 @@
+import type { TraceLine } from "../measures/trace.js";
 import type { IntervalSteps, IntervalSummary } from "../stats/interval.js";
 
 /**
@@ -129,18 +130,22 @@ export interface IntervalArithmetic extends IntervalSteps {
   figure: string;
 }
 
-/** A level trace for the step chart: intervals of one run (possibly thinned for the chart). */
+/**
+ * One run's level over its whole window for the charts: the warm-up part too, every change point
+ * while there are few, and equal slices with their lowest and highest level always (see
+ * `measures/trace.ts`). For a utilization, `level` is the busy level and `capacity` the capacity.
+ */
 export interface LevelTrace {
   scenario: string;
   run: string;
   measure: string;
-  /** Window start c (after warm-up) and end. */
+  /** The window's start, its collection start c (after warm-up) and its end. */
+  start: number;
   from: number;
   to: number;
   warmup: number | null;
-  /** Change points: the level `value` holds on [time, next time). */
-  points: { time: number; value: number; running_mean: number }[];
-  thinned: boolean;
+  level: TraceLine;
+  capacity: TraceLine | null;
 }
 
 /** Observation values of one scenario and measure for the histogram (possibly a sample). */

@@ -194,11 +194,12 @@ function traceOf(scenario: string, a: RunAnalysis, measure: string, trace: NonNu
     scenario,
     run: a.result.id,
     measure,
+    start: a.window.start,
     from: a.window.collectFrom,
     to: a.window.end as number,
     warmup: a.window.warmup,
-    points: trace.points,
-    thinned: trace.thinned,
+    level: trace.level,
+    capacity: trace.capacity,
   };
 }
 

@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { Ajv } from "ajv";
 import fc from "fast-check";
 import { buildReportModel } from "../../src/report/model.js";
-import { ecdfSteps, evenSample, thinSteps, welchMovingAverage, welchWindow, type StepPoint } from "../../src/report/charts.js";
+import { ecdfSteps, evenSample, welchMovingAverage, welchWindow } from "../../src/report/charts.js";
 import { bakery } from "./fixtures/bakery.js";
 
 const META = { toolVersion: "0.1.0-test", generatedAt: "2025-03-04T05:06:07.000Z" };
@@ -89,30 +89,7 @@ describe("ecdfSteps", () => {
   });
 });
 
-describe("thinSteps", () => {
-  const trace = fc.array(fc.record({ dt: fc.double({ min: 0, max: 10, noNaN: true }), value: fc.integer({ min: -50, max: 50 }) }), { minLength: 1, maxLength: 3000 })
-    .map((xs) => {
-      let t = 0;
-      return xs.map(({ dt, value }): StepPoint => ({ time: (t += dt), value, running_mean: 0 }));
-    });
-
-  it("thinSteps keeps at most about max points, in time order, with the first, last, lowest and highest level", () => {
-    // Property of the thinning rule documented in charts.ts (4 points per bucket, max/4 buckets).
-    fc.assert(
-      fc.property(trace, fc.integer({ min: 8, max: 400 }), (pts, max) => {
-        const out = thinSteps(pts, max);
-        expect(out.length).toBeLessThanOrEqual(Math.max(pts.length <= max ? pts.length : 0, 4 * Math.floor(max / 4)));
-        for (let i = 1; i < out.length; i++) expect(out[i].time).toBeGreaterThanOrEqual(out[i - 1].time);
-        expect(out[0]).toBe(pts[0]);
-        expect(out[out.length - 1]).toBe(pts[pts.length - 1]);
-        const values = pts.map((p) => p.value);
-        expect(Math.min(...out.map((p) => p.value))).toBe(Math.min(...values));
-        expect(Math.max(...out.map((p) => p.value))).toBe(Math.max(...values));
-      }),
-      { numRuns: 60 },
-    );
-  });
-
+describe("evenSample", () => {
   it("evenSample returns the input when short and max values including both ends when long", () => {
     const xs = Array.from({ length: 1001 }, (_, i) => i);
     expect(evenSample(xs, 2000)).toBe(xs);
