@@ -5,7 +5,8 @@ import type { MeasureSetup } from "./setup.js";
 import { TableBuilder } from "./table.js";
 import { windowDuration } from "./window.js";
 
-export const COUNT_COLUMNS = ["index", "time", "running_count"];
+/** `line`: the run-file line of the counted row (contract section 11). */
+export const COUNT_COLUMNS = ["index", "time", "running_count", "line"];
 
 /** Each row of the series inside [c, end] counts 1; rate = n / T (contract section 4). */
 export class Count implements MeasureAccumulator {
@@ -13,7 +14,7 @@ export class Count implements MeasureAccumulator {
   private n = 0;
   private readonly table: TableBuilder;
   /** Reused for every row; numbers only so doubles are stored unboxed. */
-  private readonly cells: number[] = new Array<number>(3).fill(0);
+  private readonly cells: number[] = new Array<number>(COUNT_COLUMNS.length).fill(0);
 
   constructor(
     measure: CountMeasure,
@@ -23,12 +24,13 @@ export class Count implements MeasureAccumulator {
     this.table = new TableBuilder(COUNT_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
   }
 
-  row(_slot: number, time: number): void {
+  row(_slot: number, time: number, _value: number, _entity: string | undefined, line: number): void {
     if (time < this.setup.window.collectFrom) return;
     const r = this.cells;
     r[0] = ++this.n;
     r[1] = time;
     r[2] = this.n;
+    r[3] = line;
     this.table.addNumbers(r);
   }
 

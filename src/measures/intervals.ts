@@ -17,14 +17,19 @@ export interface ChangeSink {
   change(time: number, value: number): void;
 }
 
-/** Receives each closed interval in time order. */
+/**
+ * Receives each closed interval in time order. `line` is the run-file line of the row that set the
+ * interval's value (NaN when the value is the measure's `initial`).
+ */
 export interface IntervalSink {
-  interval(from: number, to: number, value: number): void;
+  interval(from: number, to: number, value: number, line: number): void;
 }
 
 export class LevelTracker {
   private current: number;
   private from: number;
+  /** The line of the row that set `current` (NaN: the initial value). */
+  private line = NaN;
 
   constructor(
     initial: number,
@@ -37,19 +42,20 @@ export class LevelTracker {
     this.from = collectFrom;
   }
 
-  /** The level becomes `value` at `time` (time <= end; later rows never reach here). */
-  change(time: number, value: number): void {
+  /** The level becomes `value` at `time` by the row on `line` (time <= end; later rows never reach here). */
+  change(time: number, value: number, line: number): void {
     if (time >= this.collectFrom) {
-      this.sink.interval(this.from, time, this.current);
+      this.sink.interval(this.from, time, this.current, this.line);
       this.from = time;
     }
     this.current = value;
+    this.line = line;
     if (this.changes !== null) this.changes.change(time, value);
   }
 
   /** Closes the last interval at the window's end. Returns the final level. */
   finish(): number {
-    this.sink.interval(this.from, this.end, this.current);
+    this.sink.interval(this.from, this.end, this.current, this.line);
     return this.current;
   }
 
@@ -61,7 +67,7 @@ export class LevelTracker {
 /** Sends every interval to several sinks. */
 export class FanOut implements IntervalSink {
   constructor(private readonly sinks: IntervalSink[]) {}
-  interval(from: number, to: number, value: number): void {
-    for (const s of this.sinks) s.interval(from, to, value);
+  interval(from: number, to: number, value: number, line: number): void {
+    for (const s of this.sinks) s.interval(from, to, value, line);
   }
 }

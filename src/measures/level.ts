@@ -12,7 +12,8 @@ import { SliceAreas, wholeSlices } from "./slices.js";
 import { TableBuilder } from "./table.js";
 import { TraceBuilder } from "./trace.js";
 
-export const LEVEL_COLUMNS = ["index", "value", "from", "to", "duration", "area", "running_area", "running_mean"];
+/** `line`: the run-file line of the row that set the interval's value (empty for the measure's `initial`; contract section 11). */
+export const LEVEL_COLUMNS = ["index", "value", "from", "to", "duration", "area", "running_area", "running_mean", "line"];
 
 /**
  * Everything one level's intervals feed: statistics, the calculation table, the chart trace, and
@@ -48,7 +49,7 @@ export class LevelSinks implements IntervalSink {
     } else this.slices = null;
   }
 
-  interval(from: number, to: number, value: number): void {
+  interval(from: number, to: number, value: number, line: number): void {
     const d = to - from;
     const area = value * d;
     this.stats.interval(from, to, value);
@@ -65,6 +66,7 @@ export class LevelSinks implements IntervalSink {
     r[5] = area;
     r[6] = runningArea;
     r[7] = runningMean;
+    r[8] = line;
     this.table.addNumbers(r);
     if (this.batches !== null) this.batches.interval(from, to, value);
     if (this.slices !== null) this.slices.interval(from, to, value);
@@ -115,7 +117,7 @@ export class SeriesLevel implements MeasureAccumulator {
 
   row(_slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
     if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.measure.source.series, this.measure.name);
-    this.tracker.change(time, value);
+    this.tracker.change(time, value, line);
   }
 
   finish(): MeasureOutput {
@@ -152,15 +154,15 @@ export class EntityLevel implements MeasureAccumulator {
     let entered = 0;
     let left = 0;
     this.visits.replay(
-      (time) => {
+      (time, line) => {
         inside++;
         if (time >= c) entered++;
-        tracker.change(time, measure.initial + inside);
+        tracker.change(time, measure.initial + inside, line);
       },
-      (time) => {
+      (time, _id, _began, line) => {
         inside--;
         if (time >= c) left++;
-        tracker.change(time, measure.initial + inside);
+        tracker.change(time, measure.initial + inside, line);
       },
     );
     return sinks.output(tracker.finish(), { entered, left, inside_at_end: inside });

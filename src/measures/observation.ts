@@ -36,8 +36,9 @@ class Observations {
   }
 }
 
-export const OBSERVATION_COLUMNS = ["index", "time", "value", "running_sum", "running_mean"];
-export const ENTITY_OBSERVATION_COLUMNS = ["index", "time", "entity", "start_time", "value", "running_sum", "running_mean"];
+/** `line`: the run-file line of the row that made the observation (for an entity: its end event; `start_line` its start event). */
+export const OBSERVATION_COLUMNS = ["index", "time", "value", "running_sum", "running_mean", "line"];
+export const ENTITY_OBSERVATION_COLUMNS = ["index", "time", "entity", "start_time", "value", "running_sum", "running_mean", "line", "start_line"];
 
 /** Shared end of both observation kinds: statistics from the recorded values. */
 function observationOutput(
@@ -90,6 +91,7 @@ export class SeriesObservation implements MeasureAccumulator {
     r[2] = value;
     r[3] = sum;
     r[4] = sum / this.obs.n;
+    r[5] = line;
     this.table.addNumbers(r);
   }
 
@@ -128,7 +130,7 @@ export class EntityObservation implements MeasureAccumulator {
     const row: Cell[] = new Array(ENTITY_OBSERVATION_COLUMNS.length);
     const open = this.visits.replay(
       () => {},
-      (time, id, began) => {
+      (time, id, began, line, startLine) => {
         if (time < c) return;
         const value = time - began;
         obs.push(time, value);
@@ -141,6 +143,8 @@ export class EntityObservation implements MeasureAccumulator {
         row[4] = value;
         row[5] = sum;
         row[6] = sum / obs.n;
+        row[7] = line;
+        row[8] = startLine;
         table.add(row);
       },
     );

@@ -11,10 +11,15 @@ import { SliceAreas, wholeSlices } from "./slices.js";
 import { TableBuilder } from "./table.js";
 import { TraceBuilder } from "./trace.js";
 
+/**
+ * `line`: the run-file line of the row that started the interval (empty at the window's start when
+ * no row set the level yet); with a capacity series, `changed` names the series of that row.
+ */
 export const UTILIZATION_COLUMNS = [
   "index", "value", "capacity", "from", "to", "duration", "area", "capacity_area",
-  "running_area", "running_capacity_area", "running_mean", "running_utilization",
+  "running_area", "running_capacity_area", "running_mean", "running_utilization", "line",
 ];
+export const UTILIZATION_SERIES_COLUMNS = [...UTILIZATION_COLUMNS, "changed"];
 
 const BUSY = 0;
 const CAPACITY = 1;
@@ -36,12 +41,17 @@ export class Utilization implements MeasureAccumulator {
   private readonly c: number;
   private readonly end: number;
   private index = 0;
+  /** The line of the latest row of either series, and which one it was (NaN / -1: none yet). */
+  private line = NaN;
+  private changedKind = -1;
   private readonly busyStats: LevelStats;
   private readonly busyArea = new Adder();
   private readonly capacityArea = new Adder();
   private readonly table: TableBuilder;
   /** Reused for every row; numbers only (NaN for an empty cell) so doubles are stored unboxed. */
   private readonly cells: number[] = new Array<number>(UTILIZATION_COLUMNS.length).fill(0);
+  /** With a capacity series: the row with the `changed` cell (text), filled from `cells`. */
+  private readonly seriesRow: (number | string | null)[] | null;
   /** The chart's record of the busy level and of the capacity, warm-up included. */
   private readonly busyTrace: TraceBuilder | null;
   private readonly capacityTrace: TraceBuilder | null;
@@ -63,7 +73,8 @@ export class Utilization implements MeasureAccumulator {
     this.end = setup.window.end as number;
     this.from = this.c;
     this.busyStats = new LevelStats(measure.atLeast);
-    this.table = new TableBuilder(UTILIZATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+    this.seriesRow = cap.type === "series" ? new Array<number | string | null>(UTILIZATION_SERIES_COLUMNS.length).fill(null) : null;
+    this.table = new TableBuilder(this.seriesRow !== null ? UTILIZATION_SERIES_COLUMNS : UTILIZATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
     const { start } = setup.window;
     this.busyTrace = setup.trace ? new TraceBuilder(start, this.c, this.end, this.busy) : null;
     this.capacityTrace = setup.trace ? new TraceBuilder(start, this.c, this.end, this.capacity) : null;
@@ -81,15 +92,17 @@ export class Utilization implements MeasureAccumulator {
 
   row(slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
     if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.reads[slot].series, this.measure.name);
-    if (this.reads.length === 1) this.change(time, BUSY, value);
+    if (this.reads.length === 1) this.change(time, BUSY, value, line);
     else this.events.add(time, slot === 0 ? BUSY : CAPACITY, value, 0, line);
   }
 
-  private change(time: number, kind: number, value: number): void {
+  private change(time: number, kind: number, value: number, line: number): void {
     if (time >= this.c) {
       this.close(time);
       this.from = time;
     }
+    this.line = line;
+    this.changedKind = kind;
     if (kind === BUSY) {
       this.busy = value;
       if (this.busyTrace !== null) this.busyTrace.change(time, value);
@@ -125,7 +138,14 @@ export class Utilization implements MeasureAccumulator {
     r[9] = runningCap;
     r[10] = elapsed > 0 ? runningArea / elapsed : NaN;
     r[11] = runningCap !== 0 ? runningArea / runningCap : NaN;
-    this.table.addNumbers(r);
+    r[12] = this.line;
+    const s = this.seriesRow;
+    if (s === null) this.table.addNumbers(r);
+    else {
+      for (let j = 0; j < r.length; j++) s[j] = r[j] === r[j] ? r[j] : null;
+      s[r.length] = this.changedKind === -1 ? null : this.reads[this.changedKind === BUSY ? 0 : 1].series;
+      this.table.add(s);
+    }
     if (this.batchBusy !== null) {
       this.batchBusy.interval(from, to, busy);
       this.batchCapacity!.interval(from, to, cap);
@@ -137,7 +157,7 @@ export class Utilization implements MeasureAccumulator {
   }
 
   finish(): MeasureOutput {
-    if (this.reads.length > 1) this.events.replay((time, kind, value) => this.change(time, kind, value));
+    if (this.reads.length > 1) this.events.replay((time, kind, value, _id, line) => this.change(time, kind, value, line));
     this.close(this.end);
     const T = this.end - this.c;
     const busyArea = this.busyArea.value();

@@ -37,10 +37,14 @@ export class EntityVisits {
   }
 
   /**
-   * Replays every event in time order (ties in file order): `onStart(time)` when an entity starts,
-   * `onEnd(time, id, began)` when it ends, with the time it began. Returns how many are still open.
+   * Replays every event in time order (ties in file order): `onStart(time, line)` when an entity
+   * starts, `onEnd(time, id, began, line, startLine)` when it ends, with the time it began and the
+   * run-file lines of both events. Returns how many are still open.
    */
-  replay(onStart: (time: number) => void, onEnd: (time: number, id: number, began: number) => void): number {
+  replay(
+    onStart: (time: number, line: number) => void,
+    onEnd: (time: number, id: number, began: number, line: number, startLine: number) => void,
+  ): number {
     const began = new Float64Array(this.ids.size).fill(NaN);
     const startLine = new Float64Array(this.ids.size);
     let open = 0;
@@ -50,13 +54,13 @@ export class EntityVisits {
         began[id] = time;
         startLine[id] = line;
         open++;
-        onStart(time);
+        onStart(time, line);
       } else {
         const t0 = began[id];
         if (t0 !== t0) throw msg.leaveWithoutEnter(this.file, line, this.ids.name(id), this.end, this.measure, this.start);
         began[id] = NaN;
         open--;
-        onEnd(time, id, t0);
+        onEnd(time, id, t0, line, startLine[id]);
       }
     });
     return open;

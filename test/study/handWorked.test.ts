@@ -36,13 +36,14 @@ describe("level statistics on a hand-worked trace", () => {
   it("the calculation table lists every interval with duration, area, running area and running average", async () => {
     const { outcome } = await studyOf(levelManifest(), { "runs/r1.csv": trace });
     const t = outcome.tables.find((x) => x.run === "r1" && x.measure === "q")!;
-    expect(t.columns).toEqual(["index", "value", "from", "to", "duration", "area", "running_area", "running_mean"]);
-    // computed by hand: the initial level holds on [0, 0] (duration 0), then the three rows' levels
+    expect(t.columns).toEqual(["index", "value", "from", "to", "duration", "area", "running_area", "running_mean", "line"]);
+    // computed by hand: the initial level holds on [0, 0] (duration 0, no row behind it), then the
+    // three rows' levels, each pointing at its line of the file (the header is line 1; CONTRACT.md section 11)
     expect(t.preview).toEqual([
-      [1, 0, 0, 0, 0, 0, 0, null],
-      [2, 2, 0, 3, 3, 6, 6, 2],
-      [3, 5, 3, 4, 1, 5, 11, 11 / 4],
-      [4, 1, 4, 10, 6, 6, 17, 1.7],
+      [1, 0, 0, 0, 0, 0, 0, null, null],
+      [2, 2, 0, 3, 3, 6, 6, 2, 2],
+      [3, 5, 3, 4, 1, 5, 11, 11 / 4, 3],
+      [4, 1, 4, 10, 6, 6, 17, 1.7, 4],
     ]);
   });
 
