@@ -144,9 +144,15 @@ describe("sojourn check, at, table", () => {
     const r = sojourn(["table", join(dir, "study.yaml"), "--scenario", "two-mechanics", "--run", "day-1", "--measure", "bench"]);
     expect(r.status).toBe(0);
     const lines = r.stdout.trim().split("\n");
-    expect(lines[0]).toBe("index,value,capacity,from,to,duration,area,capacity_area,running_area,running_capacity_area,running_mean,running_utilization");
-    // computed by hand: intervals [1,3], [3,7.5], [7.5,10] after the warm-up at 1
+    expect(lines[0]).toBe("index,value,capacity,from,to,duration,area,capacity_area,running_area,running_capacity_area,running_mean,running_utilization,line");
+    // computed by hand: intervals [1,3], [3,7.5], [7.5,10] after the warm-up at 1, their levels set
+    // by the busy rows on lines 3, 7 and 11 of the run file (line 1 is the header)
     expect(lines.length).toBe(4);
+    expect(lines.slice(1).map((l) => l.split(",").slice(3, 5).concat(l.split(",").at(-1)!))).toEqual([
+      ["1", "3", "3"],
+      ["3", "7.5", "7"],
+      ["7.5", "10", "11"],
+    ]);
   });
 });
 
