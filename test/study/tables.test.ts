@@ -99,3 +99,23 @@ describe("report tables for measures whose names look like another measure's tab
     expect(table("Wait", "observation").file).toBe("tables/s/runs/r/+wait.csv");
   });
 });
+
+describe("report tables: text cells a spreadsheet would run as formulas", () => {
+  it("writes run ids and entity ids that start with = + - @ with a leading apostrophe, numbers as they are", async () => {
+    const run = csv([[1, "in", null, "=1+2"], [2, "in", null, "@me"], [3, "out", null, "=1+2"], [4, "out", null, "@me"], [5, "q", -3]]);
+    const { tableFiles } = await studyOf(
+      "scenarios:\n  - {name: s, end: 10, runs: [runs/-1.csv, runs/+2.csv]}\nmeasures:\n" +
+        "  - {name: stay, kind: observation, from: {start: in, end: out}}\n  - {name: q, kind: level, series: q}\n",
+      { "runs/-1.csv": run, "runs/+2.csv": run },
+    );
+    const text = (file: string) => tableFiles.find((f) => f.record.file === file)!.csv;
+    const stay = text("tables/s/runs/-1/stay.csv").split("\n");
+    // entity observation columns: index, time, entity, start_time, value, ... (docs/tables.md)
+    expect(stay[1].split(",").slice(0, 3)).toEqual(["1", "3", "'=1+2"]);
+    expect(stay[2].split(",").slice(0, 3)).toEqual(["2", "4", "'@me"]);
+    const interval = text("tables/s/intervals/q.csv").split("\n");
+    expect(interval[1].split(",").slice(0, 3)).toEqual(["run", "'-1", "-1.5"]); // level -3 on [5, 10]: mean -15 / 10 (computed by hand)
+    expect(interval[2].split(",").slice(0, 2)).toEqual(["run", "'+2"]);
+    expect(text("tables/s/runs/-1/q.csv")).toContain(",-3,5,10,5,-15,");
+  });
+});
