@@ -299,3 +299,35 @@ export function quantileOutOfRange(place: Place, p: number): UserError {
   const hint = p > 1 && p < 100 ? ` ${p} looks like a percentage: write ${p / 100}.` : "";
   return located(place, `the quantile probability ${p} is not between 0 and 1`, `Write probabilities such as 0.5 or 0.95.${hint}`);
 }
+
+/** A number written twice in one list of quantiles or thresholds. */
+export function listedTwice(place: Place, key: string, value: number, firstIndex: number): UserError {
+  return located(place, `${value} is listed twice in ${key} (first as item ${firstIndex}, counting from 0)`, "List each number once: each one names a figure, a calculation table and an interval of its own.");
+}
+
+/** `tables.edge_rows` leaves no room for checkpoint rows within `tables.max_rows`. */
+export function edgeRowsTooMany(place: Place, edgeRows: number, maxRows: number): UserError {
+  return located(
+    place,
+    `edge_rows ${edgeRows} keeps ${2 * edgeRows} rows at the head and the tail, which is not less than max_rows ${maxRows}`,
+    `Make edge_rows less than half of max_rows (such as ${Math.max(1, Math.floor(maxRows / 10))}), or raise max_rows.`,
+  );
+}
+
+/** The MSER-5 slice width cuts a run's window into more slices than Sojourn keeps. */
+export function tooManySlices(place: Place, scenario: string, run: string, slice: number, start: number, end: number, slices: number, limit: number): UserError {
+  const count = slices < 1e15 ? slices.toLocaleString("en-US") : slices.toExponential(2);
+  return located(
+    place,
+    `the MSER-5 slice ${slice} cuts the window [${start}, ${end}] of run ${quote(run)} of scenario ${quote(scenario)} into ${count} slices; at most ${limit.toLocaleString("en-US")} are kept`,
+    `Use a slice of at least ${roundUp((end - start) / limit)} (a slice is usually a few times the time between changes of the level, and a run has a few hundred to a few thousand of them).`,
+  );
+}
+
+/** `x` rounded up to 3 significant digits: 0.30000000000000004 -> 0.301, 12345 -> 12400. */
+function roundUp(x: number): number {
+  if (!(x > 0) || !Number.isFinite(x)) return x;
+  const step = 10 ** (Math.floor(Math.log10(x)) - 2);
+  const up = Number((Math.ceil(x / step - 1e-9) * step).toPrecision(3));
+  return up >= x ? up : Number((up + step).toPrecision(3));
+}
