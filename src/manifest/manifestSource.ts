@@ -2,7 +2,7 @@
  * The manifest text parsed with its source positions, so that any key path can be pointed at by
  * line and column in a message.
  */
-import { LineCounter, Parser, isAlias, isMap, isNode, isPair, isScalar, isSeq, parseDocument, type CST, type Document, type Node } from "yaml";
+import { Composer, LineCounter, Parser, YAMLParseError, isAlias, isMap, isNode, isPair, isScalar, isSeq, type CST, type Document, type Node } from "yaml";
 import { manifestMessages } from "../messages/index.js";
 import type { Place } from "../messages/index.js";
 import { formatKeyPath, type KeyPath } from "./keyPath.js";
@@ -26,8 +26,10 @@ export interface ManifestSource {
  */
 export function parseManifest(text: string, file: string): ManifestSource {
   const lineCounter = new LineCounter();
-  checkNesting(text, file);
-  const doc = parseDocument(text, { lineCounter, prettyErrors: false, uniqueKeys: true });
+  // Parsed once into tokens (no recursion), checked for depth, then built into the document.
+  const tokens = [...new Parser(lineCounter.addNewLine).parse(text)];
+  checkNesting(tokens, lineCounter, file);
+  const doc = compose(tokens, text);
   const error = doc.errors[0];
   if (error !== undefined) {
     const { line, col } = lineCounter.linePos(error.pos[0]);
@@ -184,12 +186,27 @@ export function firstInvalidUtf8(b: Uint8Array): number {
 }
 
 /**
+ * The tokens as one document, as yaml's parseDocument builds it (a second document is an
+ * error of the first).
+ */
+function compose(tokens: CST.Token[], text: string): Document {
+  let doc: Document | null = null;
+  for (const next of new Composer({ uniqueKeys: true }).compose(tokens, true, text.length)) {
+    if (doc === null) doc = next as Document;
+    else {
+      doc.errors.push(new YAMLParseError([next.range[0], next.range[1]], "MULTIPLE_DOCS", "Source contains multiple documents"));
+      break;
+    }
+  }
+  return doc!;
+}
+
+/**
  * Nesting deeper than `MANIFEST_LIMITS.depth` stops before the document is built (building it
  * recurses once per level). The token tree of yaml's parser is walked with a list, not recursion.
  */
-function checkNesting(text: string, file: string): void {
-  const lines = new LineCounter();
-  for (const token of new Parser(lines.addNewLine).parse(text)) {
+function checkNesting(tokens: CST.Token[], lines: LineCounter, file: string): void {
+  for (const token of tokens) {
     const stack: [CST.Token, number][] = [[token, 0]];
     while (stack.length > 0) {
       const [t, depth] = stack.pop()!;

@@ -137,6 +137,12 @@ describe("loadStudy: nesting and aliases that never end", () => {
     expect(error.message).toBe(m.keyNotText({ file, line: 1, column: 3, path: "" }, "a list").message);
   });
 
+  it("still refuses a second YAML document after the first (the document is built from the checked tokens)", async () => {
+    const text = GOOD + "---\n" + GOOD;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.yamlSyntax({ file, ...pos(text, "---") }, "MULTIPLE_DOCS", "Source contains multiple documents").message);
+  });
+
   it("still reads aliases that repeat a value a few times", async () => {
     const text = "scenarios:\n  - {name: a, end: &end 600, runs: &runs runs/two/*.csv}\n  - {name: b, end: *end, runs: *runs}\nmeasures:\n  - {name: q, kind: level, series: queue}\n";
     const study = await loads(text);
