@@ -611,7 +611,7 @@ export function buildReportModel(
           caption: `${name}: histogram of the observations inside the window, all runs of each scenario together` +
             (m.kind === "observation" && m.source.type === "entities" ? ` (values in ${unit})` : "") + "." +
             (sampled ? " Drawn from an even sample of the observations; the statistics use all of them." : ""),
-          spec: histogramChart(rows, scenarioNames, m.source.type === "entities" ? `${name} (${unit})` : name, "observations"),
+          spec: histogramChart(rows, scenarioNames, m.source.type === "entities" ? `${name} (${unit})` : `${name} (observed value)`, "observations"),
         });
       }
       const ecdf = ecdfView(name, m, outcome.samples.filter((s) => s.measure === name), scenarioNames, study, unit);
@@ -1124,7 +1124,7 @@ function ecdfView(
       rows,
       scenarios: scenarios.filter((sc) => samples.some((s) => s.scenario === sc && s.values.length > 0)),
       thresholds: within.map((x) => ({ value: x, label: `≤ ${fmt(x)}` })),
-      valueTitle: entities ? `${name} (${unit})` : name,
+      valueTitle: entities ? `${name} (${unit})` : `${name} (observed value)`,
       shareTitle: "share of observations ≤ value",
     }),
   };

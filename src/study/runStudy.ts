@@ -139,8 +139,23 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
 
   const comparisons = compareScenarios(study, outcome.results);
   if (comparisons.length > 0) outcome.results.comparisons = comparisons;
+  assertDistinctFiles(tableFiles);
   outcome.tables = tableFiles.map((f) => f.record);
   return { outcome, tableFiles };
+}
+
+/**
+ * Two tables at one file name (also compared without case) would overwrite each other. The
+ * names of `tables.ts` are made so that this cannot happen; this is the check that it did not.
+ */
+function assertDistinctFiles(files: TableFile[]): void {
+  const seen = new Map<string, string>();
+  for (const { record } of files) {
+    const key = record.file.toLowerCase();
+    const before = seen.get(key);
+    if (before !== undefined) throw new Error(`two calculation tables would share one file: ${before} and ${record.file}`);
+    seen.set(key, record.file);
+  }
 }
 
 function readIfThere(path: string): string | null {

@@ -102,6 +102,28 @@ const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue
 const M_ABSENT = manifest(QUEUE + "  - {name: served, kind: count, series: sevred}\n");
 const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
 
+// --- manifests for the encoding, nesting, alias and bounds cases --------------------------------
+const M_LATIN1 = manifest(QUEUE, "{name: café, end: 10, runs: runs/*.csv}");
+const M_DEEP = `title: ${"[".repeat(70)}${"]".repeat(70)}\n` + manifest(QUEUE).replace("title: Bakery counter\n", "");
+const M_BOMB = [
+  "a: &a [loaf, loaf, loaf, loaf, loaf, loaf, loaf, loaf, loaf, loaf]",
+  "b: &b [*a, *a, *a, *a, *a, *a, *a, *a, *a, *a]",
+  "c: &c [*b, *b, *b, *b, *b, *b, *b, *b, *b, *b]",
+  "d: &d [*c, *c, *c, *c, *c, *c, *c, *c, *c, *c]",
+  "e: &e [*d, *d, *d, *d, *d, *d, *d, *d, *d, *d]",
+  "f: &f [*e, *e, *e, *e, *e, *e, *e, *e, *e, *e]",
+  "g: &g [*f, *f, *f, *f, *f, *f, *f, *f, *f, *f]",
+  "",
+].join("\n") + manifest(QUEUE);
+const M_NOANCHOR = manifest(QUEUE, "{name: morning, end: *closing, runs: runs/*.csv}");
+const M_SELFALIAS = manifest(QUEUE, "{name: morning, end: 10, runs: &days [runs/day-1.csv, *days]}");
+const M_LISTKEY = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, [a, b]: 1}");
+const M_TWICE = manifest("  - {name: wait, kind: observation, series: wait, quantiles: [0.5, 0.9, 0.5]}\n");
+const M_EDGE = manifest(QUEUE, undefined, "tables: {max_rows: 1000, edge_rows: 500}\n");
+const M_SLICES = manifest(QUEUE, "{name: morning, end: 600, runs: runs/*.csv}", "warmup: {method: mser-5, measure: queue, slice: 0.001}\n");
+const M_QUANTILES = manifest(`  - {name: wait, kind: observation, series: wait, quantiles: [${Array.from({ length: 101 }, (_, i) => i / 100).join(", ")}]}\n`);
+const M_BATCHES = manifest(QUEUE, undefined, "analysis: {method: batch-means, batches: 50000}\n");
+
 function gzipCut(text: string): Buffer {
   const z = gzipSync(Buffer.from(text));
   return z.subarray(0, Math.floor(z.length / 2));
@@ -657,6 +679,131 @@ export const CASES: BadInputCase[] = [
     status: 1,
     startsWith: () => "study.yaml:4:",
     contains: ['there is no measure named "queeu"', 'Did you mean "queue"?'],
+  },
+  // --- manifest: encoding, nesting, aliases and bounds ---------------------------------------
+  {
+    id: "manifest-not-utf8",
+    title: "A manifest that is not UTF-8",
+    what: "The manifest was saved in Latin-1 (Windows-1252), where `é` is the single byte `0xE9`; Sojourn reads manifests as UTF-8 and names the line, column and byte offset of the first byte that is not UTF-8.",
+    files: { [STUDY]: Buffer.from(M_LATIN1, "latin1"), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestNotUtf8({ file: STUDY, ...positionOf(M_LATIN1, "é") }, 0xe9, Buffer.from(M_LATIN1, "latin1").indexOf(0xe9)),
+  },
+  {
+    id: "manifest-utf16",
+    title: "A manifest saved as UTF-16",
+    what: "Some editors save text as UTF-16 with a byte-order mark; Sojourn reads manifests as UTF-8.",
+    files: { [STUDY]: Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(manifest(QUEUE), "utf16le")]), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestWideEncoding(STUDY, "UTF-16"),
+    place: STUDY,
+  },
+  {
+    id: "manifest-too-deep",
+    title: "Lists nested deeper than 64 levels",
+    what: "A manifest needs fewer than 10 levels of nesting; more than 64 is a typing slip or a hostile file, stopped before it can exhaust the reader.",
+    files: { [STUDY]: M_DEEP, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestTooDeep({ file: STUDY, line: 1, column: 8 + 63 }, 64),
+  },
+  {
+    id: "manifest-alias-bomb",
+    title: "Aliases that expand without end",
+    what: "Each list repeats the one before ten times (a \"billion laughs\" file): seven short lines stand for ten million values. Sojourn counts the values as the aliases would write them out and stops at a million.",
+    files: { [STUDY]: M_BOMB, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    // Counted by hand: the list a holds 11 values, b 111, ..., e 111111; with the root and the keys
+    // 134463 values come before f's first alias, and the 8th *e, f[7], passes a million; "f: &f [" is
+    // 7 characters and each "*e, " 4.
+    startsWith: () => `study.yaml:6:${positionOf(M_BOMB, "f: ").column + 7 + 4 * 7} (at f[7]): with its aliases (*name) written out, the manifest would hold more than 1,000,000 values`,
+  },
+  {
+    id: "alias-without-anchor",
+    title: "An alias with no anchor",
+    what: "`*closing` repeats the value marked `&closing`, but nothing is marked so before it.",
+    files: { [STUDY]: M_NOANCHOR, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.aliasWithoutAnchor(at(M_NOANCHOR, "*closing", "scenarios[0].end"), "closing"),
+  },
+  {
+    id: "alias-inside-itself",
+    title: "An alias inside the value it repeats",
+    what: "The list marked `&days` contains `*days`, so it would contain itself without end.",
+    files: { [STUDY]: M_SELFALIAS, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.aliasInsideItself(at(M_SELFALIAS, "*days", "scenarios[0].runs[1]"), "days"),
+  },
+  {
+    id: "key-not-text",
+    title: "A list used as a key",
+    what: "YAML allows a list as a mapping key; a manifest's keys are names.",
+    files: { [STUDY]: M_LISTKEY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.keyNotText(at(M_LISTKEY, "[a, b]", "scenarios[0]"), "a list"),
+  },
+  {
+    id: "listed-twice",
+    title: "A quantile listed twice",
+    what: "Each number in `quantiles`, `within` or `at_least` names a figure, an interval and a calculation table of its own, so a number may be listed once.",
+    files: { [STUDY]: M_TWICE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.listedTwice(at(M_TWICE, "0.5]", "measures[0].quantiles[2]"), "quantiles", 0.5, 0),
+  },
+  {
+    id: "too-many-quantiles",
+    title: "More than 100 quantiles",
+    what: "`quantiles`, `within` and `at_least` take at most 100 numbers each.",
+    files: { [STUDY]: M_QUANTILES, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    startsWith: () => `study.yaml:${positionOf(M_QUANTILES, "[0,").line}:${positionOf(M_QUANTILES, "[0,").column} (at measures[0].quantiles): this list has 101 items, and it must have at most 100 items`,
+  },
+  {
+    id: "too-many-batches",
+    title: "More than 10000 batches",
+    what: "Batch means takes from 2 to 10000 batches per run (20 to 30 is common).",
+    files: { [STUDY]: M_BATCHES, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => `study.yaml:${positionOf(M_BATCHES, "50000").line}:${positionOf(M_BATCHES, "50000").column} (at analysis.batches): 50000 is out of range: it must be at most 10000`,
+  },
+  {
+    id: "edge-rows-too-many",
+    title: "edge_rows that leave no room in max_rows",
+    what: "A shortened table keeps `edge_rows` rows at each end and checkpoints in between, so `2 × edge_rows` must be less than `max_rows`.",
+    files: { [STUDY]: M_EDGE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.edgeRowsTooMany(at(M_EDGE, "500}", "tables.edge_rows"), 500, 1000),
+  },
+  {
+    id: "too-many-slices",
+    title: "An MSER-5 slice far too short for the run",
+    what: "A slice of 0.001 cuts a window of 600 into 600,000 slices; Sojourn keeps at most 100,000 per run, and says the shortest slice that fits.",
+    files: { [STUDY]: M_SLICES, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.tooManySlices(at(M_SLICES, "0.001", "warmup.slice"), "morning", "day-1", 0.001, 0, 600, 600000, 100000),
   },
   // --- output and PDF -----------------------------------------------------------------------
   {

@@ -55,11 +55,21 @@ export interface GenStudy {
   scenarios: GenScenario[];
 }
 
+/** Names of members every JavaScript object has (Object.prototype), as scenario, run, series, measure and entity names. */
+export const OBJECT_MEMBER_NAMES = ["constructor", "valueOf", "hasOwnProperty", "toString", "isPrototypeOf", "__proto__", "propertyIsEnumerable", "toLocaleString"];
+
+/** Run ids: the first ones are object members (a run id is a key of results and of the tables' folders). */
+const RUN_IDS = ["__proto__", "constructor", "run-3é", "valueOf"];
+
 /** A name: unicode, markup, quotes, commas and spaces inside; no control characters; not blank at either end. */
 export const nameArb: fc.Arbitrary<string> = fc
   .oneof(
     fc.string({ unit: "grapheme", minLength: 1, maxLength: 8 }),
     fc.constantFrom("queue", "<b>q</b>", "a,b", 'say "hi"', "élan", "队列", "🚲 bikes", "&amp;", "x'y", "#1", "- dash", "null", "42", "<script>alert(1)</script>"),
+    // members of every JavaScript object: a name looked up in a plain object finds them
+    fc.constantFrom(...OBJECT_MEMBER_NAMES),
+    // names that look like a calculation table's suffix, differ only in case, or start a formula
+    fc.constantFrom("wait.quantiles", "wait.within", "queue.time_at_least", "Queue", "QUEUE", "con", "=1+2", "@x", "+1", "-1"),
   )
   .filter((s) => s.trim() === s && s.length > 0 && !/[\p{Cc}\p{Cs}\u2028\u2029\uFEFF]/u.test(s));
 
@@ -202,7 +212,7 @@ export const studyArb: fc.Arbitrary<GenStudy> = fc
                 let runEnd = ownEnd === undefined ? undefined : s0 + ownEnd * length;
                 if (runEnd !== undefined && !(runEnd > s0 && (effective === undefined || runEnd > effective))) runEnd = undefined;
                 const hi = runEnd ?? end;
-                return rowsArb(head, s0, hi).map((rows): GenRun => ({ id: `run-${i + 1}${i % 2 === 0 ? "é" : ""}`, format, gzip, end: runEnd, rows, style }));
+                return rowsArb(head, s0, hi).map((rows): GenRun => ({ id: RUN_IDS[i], format, gzip, end: runEnd, rows, style }));
               });
           return fc.tuple(...Array.from({ length: runCount }, (_, i) => run(i))).map(
             (runs): GenScenario => ({ name, start, end, warmup: scenarioWarmup, runs }),
