@@ -28,6 +28,11 @@ export interface MeasureOutput {
   batchMeans?: number[];
   /** Time averages of fixed-width slices from the window start (for MSER-5 and Welch's plot). */
   slices?: number[];
+  /**
+   * An entity level's area of the number inside alone, Σ insideᵢ·dᵢ (the level less its `initial`):
+   * the L of Little's law (src/study/consistency.ts).
+   */
+  insideArea?: number;
   warnings: string[];
 }
 
