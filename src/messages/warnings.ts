@@ -57,3 +57,21 @@ export const runsEndEarlyOnRow = (runs: readonly string[], fraction: number) =>
 /** A measure's summary leaves out runs that gave no value (no observation inside the window). */
 export const runsWithoutValue = (runs: readonly string[], used: number, total: number) =>
   `Over ${used} of ${total} runs: ${runList(runs)} ${runs.length === 1 ? "has" : "have"} no value (no observation inside the window), so the interval is over fewer runs.`;
+
+/** Why a measure has no number of runs needed (results.json `runs_needed_reason`), in words. */
+export const runsNeededWhy = (reason: string, n: number): string => {
+  switch (reason) {
+    case "no-runs":
+      return "No run gave a value, so there is nothing to plan from.";
+    case "one-run":
+      return "Only one run gave a value: one value has no spread, and the number of runs is planned from the spread. Make at least two runs (a first batch of 5 to 10 gives a steadier estimate).";
+    case "no-spread":
+      return `All ${n} runs gave the same value (sd 0): the spread to plan from is unknown, not zero. If the runs should differ, check that each run uses its own random numbers; if the figure never varies, the ${n} runs already meet any target.`;
+    case "mean-zero":
+      return "The mean of the runs is 0, so a relative target asks for a half-width of 0, which no number of runs reaches. Give the target as `half_width` in the measure's unit instead.";
+    case "beyond-limit":
+      return "More than 10,000,000 runs would be needed at the current spread. Loosen the target, or lower the spread between runs (longer runs, common random numbers).";
+    default:
+      return `No number of runs (${reason}).`;
+  }
+};

@@ -37,6 +37,7 @@ import {
 } from "./charts.js";
 import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
+import { runsNeededWhy } from "../messages/warnings.js";
 
 /** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS`. */
 export const TABLE_HEAD_ROWS = 20;
@@ -445,9 +446,9 @@ const METHODS: Omit<MethodNote, "id">[] = [
   },
   {
     term: "Runs needed for a target precision",
-    formula: "n* = smallest k with t(1 − α/2; k − 1) · s / √k ≤ h*  (h* = target half-width, or target relative precision × |x̄|)",
-    text: "How many runs would bring the half-width down to the target, treating the current sd s as if it were exact; a planning figure, not a promise.",
-    source: "Follows from the Student t half-width above.",
+    formula: "n* = smallest k with t(1 − α/2; k − 1) · s / √k ≤ h*  (h* = target half-width, or γ/(1 + γ) × |x̄| for a relative error γ)",
+    text: "How many runs would bring the half-width down to the target, treating the current sd s as if it were exact; a planning figure, not a promise. A relative error γ means the estimate within γ of the true mean: since the interval is centred on x̄, not on the unknown mean, that needs a half-width of γ/(1 + γ) × |x̄|. With one run, identical runs or a mean of 0 for a relative target there is no number, and the table says why.",
+    source: "Follows from the Student t half-width above; the adjusted relative error γ/(1 + γ) is that of the sequential procedure for a relative precision in Law (2015), Simulation Modeling and Analysis, 5th ed., §9.4.1 (cited from memory; the derivation is in docs/statistics.md).",
   },
   {
     term: "Little's law (consistency check)",
@@ -869,19 +870,23 @@ function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scena
   const rows: Cell[][] = [];
   for (const sr of scenarios) {
     const s = sr.summary[name];
-    const need = s?.runs_needed;
-    if (need === undefined || need === null) continue;
-    const runs = typeof need === "number" ? need : null;
+    if (s?.target === undefined) continue;
+    const need = typeof s.runs_needed === "number" ? s.runs_needed : null;
     const t = s.target as { half_width?: number; relative?: number } | undefined;
     let target = MISSING;
-    if (t && typeof t.relative === "number") target = `relative precision ${formatPercent(t.relative)}`;
+    if (t && typeof t.relative === "number") target = `relative error ${formatPercent(t.relative)}`;
     else if (t && typeof t.half_width === "number") target = `half-width ${fmt(t.half_width)}`;
-    rows.push([text(sr.name), text(target), text(String(s.n)), text(fmt(s.half_width)), text(fmt(runs))]);
+    const aim = typeof s.target_half_width === "number" ? s.target_half_width : null;
+    const why = need === null && typeof s.runs_needed_reason === "string" ? runsNeededWhy(s.runs_needed_reason, s.n) : null;
+    rows.push([
+      text(sr.name), text(target), text(fmt(aim)), text(String(s.n)), text(fmt(s.half_width)),
+      why === null ? text(fmt(need)) : { ...text(`${MISSING} ${why}`), flag: true },
+    ]);
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${name}: runs needed for the target precision (smallest k with t · s / √k ≤ target half-width)`,
-    ["Scenario", "Target", "Runs now", "Half-width now", "Runs needed"],
+    `${name}: runs needed for the target precision (smallest k with t · s / √k ≤ the half-width aimed at; a relative error γ aims at γ/(1 + γ) · |mean|)`,
+    ["Scenario", "Target", "Half-width aimed at", "Runs now", "Half-width now", "Runs needed"],
     rows,
   );
 }

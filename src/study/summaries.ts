@@ -60,8 +60,11 @@ export function summarizeMeasure(
 
   if (measure.target !== null) {
     summary.target = measure.target.type === "half_width" ? { half_width: measure.target.value } : { relative: measure.target.value };
-    summary.runs_needed =
-      summary.sd !== null && summary.mean !== null ? runsNeeded(summary.sd, summary.n, summary.mean, confidence, measure.target) : null;
+    const need = runsNeeded(summary.sd, summary.n, summary.mean, confidence, measure.target);
+    summary.runs_needed = need.runs;
+    // Why there is no number (null when there is one), and the half-width the number aims at.
+    summary.runs_needed_reason = need.reason;
+    summary.target_half_width = need.halfWidth;
   }
   return { summary, intervals };
 }
