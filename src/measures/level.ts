@@ -93,6 +93,7 @@ export class LevelSinks implements IntervalSink {
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
     const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
+    out.resolution = { largestTime: this.stats.largestTime, smallestDuration: this.stats.smallestDuration };
     if (this.trace !== null) out.trace = { level: this.trace.finish(), capacity: null };
     if (this.batches !== null) out.batchMeans = this.batches.means();
     if (this.slices !== null) out.slices = this.slices.means();

@@ -36,6 +36,9 @@ export class LevelStats implements IntervalSink {
   private readonly atLeast: Adder[];
   private readonly atLeastIntervals: number[];
   private timeAtValue: Map<number, Adder> | null = new Map();
+  /** The largest |time| of an interval of positive duration and the shortest such duration. */
+  largestTime = 0;
+  smallestDuration = Infinity;
 
   constructor(
     private readonly thresholds: readonly number[] = [],
@@ -48,6 +51,9 @@ export class LevelStats implements IntervalSink {
   interval(from: number, to: number, value: number): void {
     const d = to - from;
     if (d > 0) {
+      if (d < this.smallestDuration) this.smallestDuration = d;
+      const far = Math.max(Math.abs(from), Math.abs(to));
+      if (far > this.largestTime) this.largestTime = far;
       if (value < this.min) this.min = value;
       if (value > this.max) this.max = value;
       const before = this.weight;

@@ -200,6 +200,7 @@ export class Utilization implements MeasureAccumulator {
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
     const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
+    out.resolution = { largestTime: this.busyStats.largestTime, smallestDuration: this.busyStats.smallestDuration };
     if (this.over !== null) {
       const o = { ...this.over, time: this.overTime.value() };
       stats.over_capacity = { intervals: o.intervals, time: o.time, first: { from: o.from, to: o.to, busy: o.busy, capacity: o.capacity, line: o.line } };
