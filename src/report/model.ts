@@ -37,7 +37,8 @@ import {
 } from "./charts.js";
 import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
-import { runsNeededWhy } from "../messages/warnings.js";
+import { runsEndEarlyOnRow, runsNeededWhy, runsWithoutValue } from "../messages/warnings.js";
+import { LATE_FRACTION } from "../study/runChecks.js";
 
 /** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS`. */
 export const TABLE_HEAD_ROWS = 20;
@@ -82,6 +83,8 @@ export interface SummaryRow {
   runs: string;
   relative: Cell;
   note: string | null;
+  /** What the row's interval rests on that a reader should know: runs left out, runs that stopped early. */
+  warnings: string[];
 }
 
 export interface Chart {
@@ -556,6 +559,7 @@ export function buildReportModel(
         runs: String(s?.n ?? 0),
         relative: link(relative({ mean: s?.mean ?? null, half_width: s?.half_width ?? null }), href),
         note: s && s.half_width === null ? (iv?.note ?? "No interval: fewer than two run values.") : null,
+        warnings: summaryWarnings(s, sr.runs.length),
       });
     });
   });
@@ -864,6 +868,17 @@ function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scena
     ["Scenario", "Run", "Batches", "Mean", "Half-width", "Interval", "Lag-1 correlation", "Check"],
     rows,
   );
+}
+
+/** The warnings shown on a summary row, from the summary's lists of runs (src/study/summaries.ts). */
+function summaryWarnings(s: Summary | undefined, runs: number): string[] {
+  const out: string[] = [];
+  const list = (v: unknown) => (Array.isArray(v) && v.length > 0 ? v.map(String) : null);
+  const without = list(s?.runs_without_value);
+  if (s && without !== null) out.push(runsWithoutValue(without, s.n, runs));
+  const early = list(s?.runs_ending_early);
+  if (early !== null) out.push(runsEndEarlyOnRow(early, LATE_FRACTION));
+  return out;
 }
 
 function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scenarios"]): TableView | null {

@@ -33,14 +33,24 @@ export function summarizeMeasure(
 ): { summary: Summary; intervals: IntervalArithmetic[] } {
   const intervals: IntervalArithmetic[] = [];
   const interval = (figure: string, pick: (r: RunResult) => unknown): Summary => {
-    const a = intervalArithmetic(figureValues(runs, pick), confidence);
+    const values = figureValues(runs, pick);
+    const a = intervalArithmetic(values, confidence);
     const overflow = nonFinitePath(summaryOf(a));
     if (overflow !== null) throw studyMessages.summaryFigureOverflow(scenario, measure.name, figure === "value" ? overflow : `${figure} ${overflow}`);
     intervals.push({ scenario, measure: measure.name, figure, ...a });
-    return summaryOf(a);
+    const out = summaryOf(a);
+    // Runs left out of this interval because they gave no value (an observation measure with no
+    // observation inside a run's window): named, so that an interval over fewer runs says so.
+    if (values.length < runs.length) {
+      const used = new Set(values.map((v) => v.run));
+      out.runs_without_value = runs.filter((r) => !used.has(r.id)).map((r) => r.id);
+    }
+    return out;
   };
   const stats = (r: RunResult) => r.measures[measure.name] as Record<string, unknown>;
   const summary = interval("value", (r) => stats(r).value);
+  const early = runs.filter((r) => r.ends_early === true).map((r) => r.id);
+  if (early.length > 0) summary.runs_ending_early = early;
 
   const keyed = (field: "quantiles" | "within" | "time_at_least", keys: readonly number[]) => {
     if (keys.length === 0) return;
