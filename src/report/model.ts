@@ -39,6 +39,7 @@ import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
 import { runsEndEarlyOnRow, runsNeededWhy, runsWithoutValue } from "../messages/warnings.js";
 import { LATE_FRACTION } from "../study/runChecks.js";
+import { meanCorrectionMatters } from "../study/tables.js";
 
 /** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS`. */
 export const TABLE_HEAD_ROWS = 20;
@@ -961,7 +962,10 @@ function intervalView(
     { label: "Mean", formula: `x̄ = Σ xᵢ / n = ${fmt(a.sum)} / ${fmt(a.n)}`, value: fmt(a.mean) },
   ];
   if (a.sum_squared !== null) steps.push({ label: "Sum of squared deviations", formula: "Σ (xᵢ − x̄)²", value: fmt(a.sum_squared) });
-  if (a.variance !== null) steps.push({ label: "Sample variance", formula: `s² = Σ (xᵢ − x̄)² / (n − 1) = ${fmt(a.sum_squared)} / ${fmt(a.df)}`, value: fmt(a.variance) });
+  if (meanCorrectionMatters(a)) {
+    steps.push({ label: "Correction for the rounding of the mean", formula: "c = (Σ (xᵢ − x̄))² / n", value: fmt(a.mean_correction) });
+    if (a.variance !== null) steps.push({ label: "Sample variance", formula: `s² = (Σ (xᵢ − x̄)² − c) / (n − 1) = (${fmt(a.sum_squared)} − ${fmt(a.mean_correction)}) / ${fmt(a.df)}`, value: fmt(a.variance) });
+  } else if (a.variance !== null) steps.push({ label: "Sample variance", formula: `s² = Σ (xᵢ − x̄)² / (n − 1) = ${fmt(a.sum_squared)} / ${fmt(a.df)}`, value: fmt(a.variance) });
   if (a.sd !== null) steps.push({ label: "Standard deviation", formula: `s = √s² = √${fmt(a.variance)}`, value: fmt(a.sd) });
   if (a.standard_error !== null) steps.push({ label: "Standard error", formula: `s / √n = ${fmt(a.sd)} / √${fmt(a.n)}`, value: fmt(a.standard_error) });
   if (a.df !== null) steps.push({ label: "Degrees of freedom", formula: "df = n − 1", value: fmt(a.df) });

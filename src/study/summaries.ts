@@ -20,6 +20,11 @@ function figureValues(runs: RunResult[], pick: (r: RunResult) => unknown): { run
   return out;
 }
 
+/** Run ids in code-unit order, so that a summary does not depend on the order the runs are listed in. */
+function sortedIds(runs: RunResult[]): string[] {
+  return runs.map((r) => r.id).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+}
+
 /**
  * Summaries of one measure across the runs of a scenario (contract section 4): the primary value,
  * then each per-run quantile, share within and share of time at least (issue 8), and the runs
@@ -43,13 +48,13 @@ export function summarizeMeasure(
     // observation inside a run's window): named, so that an interval over fewer runs says so.
     if (values.length < runs.length) {
       const used = new Set(values.map((v) => v.run));
-      out.runs_without_value = runs.filter((r) => !used.has(r.id)).map((r) => r.id);
+      out.runs_without_value = sortedIds(runs.filter((r) => !used.has(r.id)));
     }
     return out;
   };
   const stats = (r: RunResult) => r.measures[measure.name] as Record<string, unknown>;
   const summary = interval("value", (r) => stats(r).value);
-  const early = runs.filter((r) => r.ends_early === true).map((r) => r.id);
+  const early = sortedIds(runs.filter((r) => r.ends_early === true));
   if (early.length > 0) summary.runs_ending_early = early;
 
   const keyed = (field: "quantiles" | "within" | "time_at_least", keys: readonly number[]) => {
