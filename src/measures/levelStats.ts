@@ -87,7 +87,7 @@ export class LevelStats implements IntervalSink {
 
   /**
    * meanHigh + meanLow += x, the rounding error of the high part carried in the low part (two-sum:
-   * D. E. Knuth, The Art of Computer Programming vol. 2, section 4.2.2), then renormalised so that
+   * D. E. Knuth, The Art of Computer Programming vol. 2, section 4.2.2, cited from memory), then renormalised so that
    * |meanLow| stays within half an ulp of meanHigh.
    */
   private addToMean(x: number): void {

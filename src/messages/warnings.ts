@@ -43,12 +43,10 @@ export const durationDigits = (file: string, digits: number, largestTime: number
   "What to check: write the times relative to the run's start (subtract a fixed offset) or in a larger time unit, so that the clock values are smaller.";
 
 /** A run's latest row is long before the window's end. */
-export const runEndsEarly = (file: string, lastRow: number | null, end: number, start: number, fraction: number) =>
-  (lastRow === null
-    ? `${file}: no row of the series the measures read is inside the window [${start}, ${end}]`
-    : `${file}: the run's latest row is at ${lastRow}, ${end - lastRow} before the window's end ${end} ` +
-      `(more than ${fraction * 100}% of the window [${start}, ${end}]): levels hold their last value to the end and counts see no events there`) +
-  ". What to check: that the run did not stop early or its file was not cut short, and that `end` is right for this run.";
+export const runEndsEarly = (file: string, lastRow: number, end: number, start: number, fraction: number) =>
+  `${file}: the run's latest row is at ${lastRow}, ${end - lastRow} before the window's end ${end} ` +
+  `(more than ${fraction * 100}% of the window [${start}, ${end}]): levels hold their last value to the end and counts see no events there. ` +
+  "What to check: that the run did not stop early or its file was not cut short, and that `end` is right for this run.";
 
 /** The same run ends early, as shown on the scenario's summary rows. */
 export const runsEndEarlyOnRow = (runs: readonly string[], fraction: number) =>

@@ -457,7 +457,7 @@ const METHODS: Omit<MethodNote, "id">[] = [
   {
     term: "Little's law (consistency check)",
     formula: "L = λ · W",
-    text: "Time-average number in a system equals arrival rate times mean time in the system, over a long window that starts and ends nearly empty.",
+    text: "Time-average number in a system equals arrival rate times mean time in the system, over a long window that starts and ends nearly empty. L counts the entities inside: an entity level with an initial value is taken less that value.",
     source: "Little, J. D. C. (1961). Operations Research 9(3), 383–387.",
   },
 ];

@@ -165,7 +165,7 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
   if (window.warmup !== null) result.warmup = window.warmup;
   const last = lastRow === -Infinity ? null : lastRow;
   result.last_row_time = last;
-  if (window.end !== null && endsEarly(last, run.start, window.end)) {
+  if (window.end !== null && last !== null && endsEarly(last, run.start, window.end)) {
     result.ends_early = true;
     warnings.push({ measure: null, message: warn.runEndsEarly(run.file, last, window.end, run.start, LATE_FRACTION) });
   }

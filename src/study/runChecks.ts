@@ -56,7 +56,11 @@ export function timeResolution(outputs: Iterable<MeasureOutput>): TimeResolution
   return { largest_time: largest, ulp: u, smallest_duration: smallest, digits: Math.log10(smallest / u) };
 }
 
-/** True when the run's latest row (null: none) is more than LATE_FRACTION of [start, end] before end. */
+/**
+ * True when the run's latest row is more than LATE_FRACTION of [start, end] before end. A run with
+ * no row of any series read (null) is not called short: each of its measures already warns that
+ * its series never appears.
+ */
 export function endsEarly(lastRow: number | null, start: number, end: number): boolean {
-  return lastRow === null || end - lastRow > LATE_FRACTION * (end - start);
+  return lastRow !== null && end - lastRow > LATE_FRACTION * (end - start);
 }

@@ -85,7 +85,7 @@ describe("a run whose rows stop long before the window's end", () => {
     expect(endsEarly(90, 0, 100)).toBe(false);
     expect(endsEarly(89.9, 0, 100)).toBe(true);
     expect(endsEarly(130, 0, 100)).toBe(false);
-    expect(endsEarly(null, 0, 100)).toBe(true);
+    expect(endsEarly(null, 0, 100)).toBe(false); // no row at all: "series never appears" says it
     expect(endsEarly(545, 50, 600)).toBe(false); // 55 = a tenth of 550
     expect(LATE_FRACTION).toBe(0.1);
   });
