@@ -52,6 +52,10 @@ export const runEndsEarly = (file: string, lastRow: number, end: number, start: 
 export const runsEndEarlyOnRow = (runs: readonly string[], fraction: number) =>
   `${runs.length === 1 ? "Run" : "Runs"} ${runList(runs)} ${runs.length === 1 ? "has" : "have"} no row in the last ${fraction * 100}% of the window: ${runs.length === 1 ? "it" : "they"} may have stopped early (see the warnings).`;
 
+/** How many warnings the runs behind a summary row have, as shown on the row. */
+export const runWarningsOnRow = (count: number) =>
+  `The runs behind this row have ${count} warning(s) about this measure or the whole run: see the Warnings section.`;
+
 /** A measure's summary leaves out runs that gave no value (no observation inside the window). */
 export const runsWithoutValue = (runs: readonly string[], used: number, total: number) =>
   `Over ${used} of ${total} runs: ${runList(runs)} ${runs.length === 1 ? "has" : "have"} no value (no observation inside the window), so the interval is over fewer runs.`;

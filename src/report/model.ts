@@ -37,7 +37,7 @@ import {
 } from "./charts.js";
 import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
-import { runsEndEarlyOnRow, runsNeededWhy, runsWithoutValue } from "../messages/warnings.js";
+import { runsEndEarlyOnRow, runsNeededWhy, runsWithoutValue, runWarningsOnRow } from "../messages/warnings.js";
 import { LATE_FRACTION } from "../study/runChecks.js";
 import { meanCorrectionMatters } from "../study/tables.js";
 
@@ -560,7 +560,7 @@ export function buildReportModel(
         runs: String(s?.n ?? 0),
         relative: link(relative({ mean: s?.mean ?? null, half_width: s?.half_width ?? null }), href),
         note: s && s.half_width === null ? (iv?.note ?? "No interval: fewer than two run values.") : null,
-        warnings: summaryWarnings(s, sr.runs.length),
+        warnings: summaryWarnings(s, sr.runs.length, outcome.warnings.filter((w) => w.scenario === sr.name && w.run !== null && (w.measure === name || w.measure === null)).length),
       });
     });
   });
@@ -871,14 +871,18 @@ function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scena
   );
 }
 
-/** The warnings shown on a summary row, from the summary's lists of runs (src/study/summaries.ts). */
-function summaryWarnings(s: Summary | undefined, runs: number): string[] {
+/**
+ * The warnings shown on a summary row: from the summary's lists of runs (src/study/summaries.ts),
+ * and how many warnings the runs behind the row have (about this measure or the whole run).
+ */
+function summaryWarnings(s: Summary | undefined, runs: number, runWarnings: number): string[] {
   const out: string[] = [];
   const list = (v: unknown) => (Array.isArray(v) && v.length > 0 ? v.map(String) : null);
   const without = list(s?.runs_without_value);
   if (s && without !== null) out.push(runsWithoutValue(without, s.n, runs));
   const early = list(s?.runs_ending_early);
   if (early !== null) out.push(runsEndEarlyOnRow(early, LATE_FRACTION));
+  if (runWarnings > 0) out.push(runWarningsOnRow(runWarnings));
   return out;
 }
 

@@ -51,9 +51,23 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     for (const name of ["q", "n"]) expect(outcome.results.scenarios[0].summary[name].runs_ending_early).toEqual(["r2"]);
     const model = buildReportModel(study, outcome, META);
     const rowMessage = warn.runsEndEarlyOnRow(["r2"], LATE_FRACTION);
-    for (const row of model.summary.rows) expect(row.warnings).toEqual([rowMessage]);
+    // and the run's own warning is counted on the row (one: r2 ends early)
+    for (const row of model.summary.rows) expect(row.warnings).toEqual([rowMessage, warn.runWarningsOnRow(1)]);
     // shown in the HTML, with the run's name escaped like any user text
     expect(await renderHtml(model)).toContain("no row in the last 10% of the window");
+  });
+
+  it("a summary row counts the warnings of its runs about its own measure, not those about another", async () => {
+    // our own numbers: busy 3 against capacity 2 on [2, 4] in r1 (a warning about u only; busy
+    // area 2 + 6 + 6 = 14 over 20, so the range check passes)
+    const files = {
+      "runs/r1.csv": csv([[0, "busy", 1], [2, "busy", 3], [4, "busy", 1], [9.5, "busy", 1]]),
+      "runs/r2.csv": csv([[0, "busy", 1], [9.5, "busy", 2]]),
+    };
+    const { study, outcome } = await studyOf(manifest("  - {name: u, kind: utilization, series: busy, capacity: 2}\n  - {name: n, kind: count, series: busy}"), files);
+    const model = buildReportModel(study, outcome, META);
+    expect(model.summary.rows.find((r) => r.measure === "u")!.warnings).toEqual([warn.runWarningsOnRow(1)]);
+    expect(model.summary.rows.find((r) => r.measure === "n")!.warnings).toEqual([]);
   });
 
   it("a run name with markup is escaped on the summary row", async () => {
@@ -66,7 +80,7 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     const model = buildReportModel(study, outcome, META);
     // runs ending early: "<i>late" (last row 1) and "ok" (last row 2); runs in file-name order
     const message = warn.runsEndEarlyOnRow(["<i>late", "ok"], LATE_FRACTION);
-    expect(model.summary.rows[0].warnings).toEqual([message]);
+    expect(model.summary.rows[0].warnings).toEqual([message, warn.runWarningsOnRow(2)]);
     const html = await renderHtml(model);
     expect(html).not.toContain("<i>late");
     // HTML escaping as Handlebars does it (common practice: escape & < > " ' ` =)
