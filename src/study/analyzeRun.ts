@@ -6,6 +6,7 @@ import { makeWindow, type RunWindow } from "../measures/window.js";
 import type { Measure, RunRef, Scenario, TableOptions } from "../manifest/types.js";
 import type { InputRecord, RunResult } from "./outcome.js";
 import { nonFinitePath } from "./finite.js";
+import { closest } from "../manifest/didYouMean.js";
 import * as studyMessages from "../messages/study.js";
 import * as warn from "../messages/warnings.js";
 import { DURATION_DIGITS_WARNING, endsEarly, LATE_FRACTION, timeResolution } from "./runChecks.js";
@@ -129,6 +130,12 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
         measure: m.name,
         message: `series ${missing.map((s) => `"${s}"`).join(", ")} never appears in ${run.file}; measure "${m.name}" sees no rows of it in this run`,
       });
+    }
+    // A capacity series absent from the run with no capacity before its first row would end in
+    // "zero capacity area": say that the name is probably wrong instead.
+    if (m.kind === "utilization" && m.capacity.type === "series" && m.capacity.initial === 0 && missing.includes(m.capacity.series)) {
+      const names = Object.keys(report.seriesRows);
+      throw studyMessages.capacitySeriesAbsent(run.file, m.name, m.capacity.series, closest(m.capacity.series, names));
     }
     const out = acc.finish();
     const overflow = nonFinitePath(out.stats);

@@ -3,6 +3,7 @@ import { batchMeansInterval, observationBatches } from "../stats/batchMeans.js";
 import type { Study } from "../manifest/types.js";
 import type { MeasureOutput } from "../measures/accumulator.js";
 import { type RunAnalysis, type RunPlan, runTableFiles } from "./analyzeRun.js";
+import { checkSeriesPresent } from "./absentSeries.js";
 import { compareScenarios } from "./compare.js";
 import { consistencyChecks } from "./consistency.js";
 import type { LevelTrace, ObservationSample, Results, ScenarioResult, StudyOutcome, Warning } from "./outcome.js";
@@ -111,6 +112,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     if (warmup.estimate !== null) sc.warmup_estimate = warmup.estimate;
     if (batches !== null) sc.analysis = { method: "batch-means", batches };
 
+    outcome.warnings.push(...checkSeriesPresent(study, scenario, analyses.map((a) => a.input)));
     for (const a of analyses) {
       outcome.inputs.push(a.input);
       for (const w of a.warnings) outcome.warnings.push({ scenario: scenario.name, run: a.result.id, measure: w.measure, message: w.message });

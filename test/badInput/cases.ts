@@ -102,6 +102,7 @@ const M_KIND = manifest("  - {name: queue, kind: levle, series: queue}\n");
 const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue}\n");
 const M_OVER = manifest("  - {name: oven, kind: utilization, series: busy, capacity: ovens}\n");
 const M_CLOCK = manifest(QUEUE, "{name: morning, start: 1000000000, end: 1000000000.01, runs: runs/*.csv}");
+const M_ABSENT = manifest(QUEUE + "  - {name: served, kind: count, series: sevred}\n");
 const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
 
 function gzipCut(text: string): Buffer {
@@ -424,6 +425,30 @@ export const CASES: BadInputCase[] = [
     place: "runs/day-1.csv:3",
   },
   {
+    id: "series-in-no-run",
+    title: "A measure's series that appears in no run",
+    what: "A measure reads a series that has no row in any run of a scenario: almost always a misspelt name, which would otherwise give a confident 0. A series of a rare event that may truly never happen says `may_be_absent: true` (see docs/manifest.md).",
+    files: { [STUDY]: M_ABSENT, "runs/day-1.csv": "time,series,value\n0,queue,2\n3,served,\n5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,queue,1\n4,served,\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.seriesInNoRun(at(M_ABSENT, "sevred", "measures[1].series"), "served", "sevred", "morning", 2, "served", ["queue", "served"]),
+  },
+  {
+    id: "capacity-series-absent",
+    title: "A capacity series with no row in a run",
+    what: "A utilization's capacity series has no row in a run and `capacity_initial` is 0, so the capacity would be 0 throughout: usually the capacity series' name is misspelt.",
+    files: {
+      [STUDY]: manifest("  - {name: oven, kind: utilization, series: busy, capacity: open_oven}\n"),
+      "runs/day-1.csv": "time,series,value\n0,open_ovens,2\n1,busy,1\n",
+    },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.capacitySeriesAbsent("runs/day-1.csv", "oven", "open_oven", "open_ovens"),
+    place: "runs/day-1.csv",
+  },
+  {
     id: "capacity-area-zero",
     title: "A capacity series that is zero over the whole window",
     what: "Utilization divides by the capacity's area; a capacity series that stays 0 leaves nothing to divide by.",
@@ -461,17 +486,13 @@ export const CASES: BadInputCase[] = [
   },
   {
     id: "series-never-appears",
-    title: "A measure whose series never appears (a warning per run)",
-    what: "A measure reads a series no row of the run belongs to (often a misspelt name). Each run without it gets a warning; the level stays at its `initial` value.",
-    files: { [STUDY]: manifest("  - {name: queue, kind: level, series: queu}\n"), "runs/day-1.csv": GOOD_CSV, "runs/day-2.csv": GOOD_CSV },
-    show: [STUDY],
+    title: "A measure whose series is missing from some runs (a warning per run)",
+    what: "A measure reads a series that some runs have no row of. Each run without it gets a warning; in those runs the level stays at its `initial` value. (A series in no run at all is an error: see the entry \"A measure's series that appears in no run\".)",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,served,\n4,served,\n" },
+    show: [STUDY, "runs/day-2.csv"],
     args: check,
     status: 0,
-    contains: [
-      '2 warning(s):',
-      'morning / day-1 / queue: series "queu" never appears in runs/day-1.csv',
-      'morning / day-2 / queue: series "queu" never appears in runs/day-2.csv',
-    ],
+    contains: ['1 warning(s):', 'morning / day-2 / queue: series "queue" never appears in runs/day-2.csv'],
   },
   {
     id: "busy-above-capacity",
