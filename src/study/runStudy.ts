@@ -13,6 +13,7 @@ import { resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
 import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
 import * as summaryMessages from "../messages/summary.js";
+import { runsWithoutValue } from "../messages/warnings.js";
 
 export interface StudyRun {
   outcome: StudyOutcome;
@@ -125,6 +126,10 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     for (const m of scenario.measures) {
       const s = summarizeMeasure(scenario.name, m, sc.runs, study.confidence);
       sc.summary[m.name] = s.summary;
+      const without = s.summary.runs_without_value as string[] | undefined;
+      if (without !== undefined) {
+        outcome.warnings.push({ scenario: scenario.name, run: null, measure: m.name, message: runsWithoutValue(without, s.summary.n, sc.runs.length) });
+      }
       for (const iv of s.intervals) {
         outcome.intervals.push(iv);
         tableFiles.push(tableFile({ scenario: scenario.name, run: null, measure: m.name, kind: "interval" }, intervalTablePath(scenario.name, m.name, iv.figure), intervalTable(iv)));

@@ -100,12 +100,20 @@ export function tableFile(
   };
 }
 
+/**
+ * True when taking the mean's rounding correction off the sum of squares changes it (values close
+ * together far from 0): only then do the table and the report show the correction as a step.
+ */
+export function meanCorrectionMatters(a: Pick<IntervalArithmetic, "sum_squared" | "mean_correction">): boolean {
+  return a.sum_squared !== null && a.mean_correction !== null && a.sum_squared - a.mean_correction !== a.sum_squared;
+}
+
 export const INTERVAL_COLUMNS = ["item", "run", "value", "deviation", "squared_deviation"];
 
 /**
  * The interval arithmetic as a table: one row per run (value, deviation from the mean, its
- * square), then one row per step (sum, mean, sum of squares, variance, sd, df, p, t, standard
- * error, half-width, bounds).
+ * square), then one row per step (sum, mean, sum of squares, the mean's rounding correction when
+ * it matters, variance, sd, df, p, t, standard error, half-width, bounds).
  */
 export function intervalTable(a: IntervalArithmetic): BuiltTable {
   const rows: (number | string | null)[][] = a.rows.map((r) => ["run", r.run, r.value, r.deviation, r.squared]);
@@ -114,6 +122,7 @@ export function intervalTable(a: IntervalArithmetic): BuiltTable {
     ["sum", a.sum],
     ["mean", a.mean],
     ["sum_squared_deviations", a.sum_squared],
+    ...(meanCorrectionMatters(a) ? [["mean_rounding_correction", a.mean_correction] as [string, number | null]] : []),
     ["variance", a.variance],
     ["sd", a.sd],
     ["df", a.df],

@@ -17,6 +17,7 @@ import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
+import * as warnings from "../../src/messages/warnings.js";
 
 export interface BadInputCase {
   /** Anchor of the entry in docs/bad-input.md. */
@@ -99,6 +100,8 @@ const M_EXT = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*}");
 const M_MISSKEY = manifest("  - {name: queue, series: queue}\n");
 const M_KIND = manifest("  - {name: queue, kind: levle, series: queue}\n");
 const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue}\n");
+const M_OVER = manifest("  - {name: oven, kind: utilization, series: busy, capacity: ovens}\n");
+const M_CLOCK = manifest(QUEUE, "{name: morning, start: 1000000000, end: 1000000000.01, runs: runs/*.csv}");
 const M_ABSENT = manifest(QUEUE + "  - {name: served, kind: count, series: sevred}\n");
 const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
 
@@ -507,11 +510,58 @@ export const CASES: BadInputCase[] = [
     id: "series-never-appears",
     title: "A measure whose series is missing from some runs (a warning per run)",
     what: "A measure reads a series that some runs have no row of. Each run without it gets a warning; in those runs the level stays at its `initial` value. (A series in no run at all is an error: see the entry \"A measure's series that appears in no run\".)",
-    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "runs/day-2.csv": "time,series,value\n0,served,\n4,served,\n" },
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,served,\n4,served,\n" },
     show: [STUDY, "runs/day-2.csv"],
     args: check,
     status: 0,
     contains: ['1 warning(s):', 'morning / day-2 / queue: series "queue" never appears in runs/day-2.csv'],
+  },
+  {
+    id: "busy-above-capacity",
+    title: "A busy level above its capacity (a warning per run)",
+    what: "The capacity series drops below the busy level for a while. The ratio of areas (here 20/34) stays below 1 and would hide it; the warning names the first interval, the line that started it and the total time.",
+    files: { [STUDY]: M_OVER, "runs/day-1.csv": "time,series,value\n0,busy,2\n0,ovens,4\n6,ovens,1\n8,ovens,4\n9.5,busy,2\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 0,
+    contains: [
+      "1 warning(s):",
+      `morning / day-1 / oven: ${warnings.busyAboveCapacity("oven", "runs/day-1.csv", { intervals: 1, time: 2, from: 6, to: 8, busy: 2, capacity: 1, line: 4, series: "ovens" }, 20 / 34)}`,
+    ],
+  },
+  {
+    id: "durations-few-digits",
+    title: "Clock values so large that durations lose digits (a warning per run)",
+    what: "Times near 1e9 with steps of a thousandth: a double holds 1e9 to about 1.2e-7, so a duration of 0.001 keeps about 4 significant digits. The warning says how many, from the spacing of doubles at the largest time and the shortest duration.",
+    files: { [STUDY]: M_CLOCK, "runs/day-1.csv": "time,series,value\n1000000000,queue,2\n1000000000.001,queue,3\n1000000000.002,queue,1\n1000000000.01,queue,0\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 0,
+    contains: ["1 warning(s):", "morning / day-1: runs/day-1.csv: the run's times reach 1000000000.01, where one step of a double is 1.1920928955078125e-7", "durations keep only about 3.9 significant digits (fewer than 6)"],
+  },
+  {
+    id: "run-ends-early",
+    title: "A run whose rows stop long before the end (a warning on the run and its summary rows)",
+    what: "`day-2` has no row after time 4 in a window that ends at 10: more than a tenth of the window is empty, so the run may have stopped early or its file been cut short. The report says so on the scenario's summary rows too.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,queue,2\n4,queue,0\n" },
+    show: ["runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: ["1 warning(s):", `morning / day-2: ${warnings.runEndsEarly("runs/day-2.csv", 4, 10, 0, 0.1)}`],
+  },
+  {
+    id: "runs-without-value",
+    title: "A run left out of a summary (a warning on the summary row)",
+    what: "`day-2` has no `wait` observation inside its window, so the interval of `wait` is over 1 of 2 runs; the warning (and the summary row of the report) names the run.",
+    files: {
+      [STUDY]: manifest("  - {name: wait, kind: observation, series: wait}\n"),
+      "runs/day-1.csv": "time,series,value\n2,wait,1.5\n9.5,wait,2\n",
+      "runs/day-2.csv": "time,series,value\n9.5,tick,\n12,wait,3\n",
+    },
+    show: ["runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: [`morning / wait: ${warnings.runsWithoutValue(["day-2"], 1, 2)}`],
   },
   // --- the manifest -------------------------------------------------------------------------
   {
