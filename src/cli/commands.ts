@@ -1,5 +1,4 @@
-import { mkdirSync, renameSync, writeFileSync } from "node:fs";
-import { dirname, join, resolve } from "node:path";
+import { join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
 import { UserError } from "../messages/index.js";
@@ -64,7 +63,7 @@ export async function at(manifest: string, o: { scenario: string; run: string; m
   else for (const line of r.lines) say(line);
 }
 
-export async function table(manifest: string, o: { scenario: string; run: string; measure: string; out?: string }): Promise<void> {
+export async function table(manifest: string, o: { scenario: string; run: string; measure: string; out?: string; force?: boolean }): Promise<void> {
   const study = await loadStudy(manifest);
   const { fullTable } = await import("../study/fullTable.js");
   const tables = await fullTable(study, o);
@@ -72,21 +71,22 @@ export async function table(manifest: string, o: { scenario: string; run: string
     process.stdout.write(tables[0].csv);
     return;
   }
-  for (const t of tables) {
-    const file = t.suffix === "" ? o.out : o.out.replace(/(\.csv)?$/, `.${t.suffix}.csv`);
-    writeFileSync(file, t.csv);
-    say(`wrote ${file}`);
-  }
+  const out = o.out;
+  const files = tables.map((t) => ({ path: t.suffix === "" ? out : out.replace(/(\.csv)?$/, `.${t.suffix}.csv`), text: t.csv }));
+  const [{ writeOwnFiles }, { studyInputs }] = await Promise.all([import("../record/outputFile.js"), import("../record/ownership.js")]);
+  writeOwnFiles(files, { kind: "calculation table", force: o.force ?? false, inputs: studyInputs(study) });
+  for (const f of files) say(`wrote ${f.path}`);
 }
 
-export async function summarizeRun(manifest: string, o: { scenario: string; run: string; out: string }): Promise<void> {
+export async function summarizeRun(manifest: string, o: { scenario: string; run: string; out: string; force?: boolean }): Promise<void> {
   const study = await loadStudy(manifest);
-  const { summarizeRun: summarize } = await import("../study/runSummary.js");
+  const [{ summarizeRun: summarize }, { writeOwnFiles }, { studyInputs }] = await Promise.all([
+    import("../study/runSummary.js"),
+    import("../record/outputFile.js"),
+    import("../record/ownership.js"),
+  ]);
   const { text, analysis } = await summarize(study, o.scenario, o.run);
-  mkdirSync(dirname(resolve(o.out)), { recursive: true });
-  const temp = `${o.out}.sojourn-tmp-${process.pid}`;
-  writeFileSync(temp, text);
-  renameSync(temp, o.out);
+  writeOwnFiles([{ path: o.out, text }], { kind: "run summary", force: o.force ?? false, inputs: studyInputs(study) });
   say(`wrote ${o.out}: run ${o.run} of scenario ${o.scenario}, ${analysis.input.rows} rows, input sha256 ${analysis.input.sha256}`);
 }
 
