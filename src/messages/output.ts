@@ -131,12 +131,19 @@ export const outNameTooLong = (dir: string) => {
   return new UserError(`${shown(abbreviated(dir))}: cannot write here: ${what} (ENAMETOOLONG).\n  What to do: choose a shorter --out name.`);
 };
 
-/** A file of the report has a name longer than the file system takes (it is made from the study's names). */
-export const reportFileNameTooLong = (dir: string, file: string) => {
+/** A file of the report has a name (or a path) longer than the file system takes. */
+export const reportFileNameTooLong = (dir: string, file: string, pathBytes: number) => {
   const { part, bytes } = longestPart(file);
+  const what =
+    bytes > 255
+      ? `its name ${shown(abbreviated(part))} is ${bytes} bytes long, more than the file system takes (255 bytes on most)`
+      : `its full path would be ${pathBytes} bytes long, more than the system takes (4095 bytes on Linux)`;
+  const todo =
+    bytes > 255
+      ? "the name is made from a scenario, run or measure name (a character other than a letter, digit, `_` or `-` takes three bytes or more); shorten that name in the manifest."
+      : "write the report to a folder with a shorter path (--out), or shorten the scenario, run or measure names in the manifest.";
   return new UserError(
-    `${shown(dir)}: cannot write ${shown(abbreviated(file))}: its name ${shown(abbreviated(part))} is ${bytes} bytes long, more than the file system takes (ENAMETOOLONG). Nothing was replaced: any earlier report in the folder is intact.\n` +
-      "  What to do: the name is made from a scenario, run or measure name (a character other than a letter, digit, `_` or `-` takes three bytes or more); shorten that name in the manifest, or write the report to a folder with a shorter path.",
+    `${shown(abbreviated(dir))}: cannot write ${shown(abbreviated(file))}: ${what} (ENAMETOOLONG). Nothing was replaced: any earlier report in the folder is intact.\n  What to do: ${todo}`,
   );
 };
 

@@ -1,5 +1,5 @@
 import { existsSync, lstatSync, readdirSync, statSync } from "node:fs";
-import { basename, dirname, join, resolve } from "node:path";
+import { basename, dirname, isAbsolute, join, relative, resolve } from "node:path";
 import { sha256 } from "../digest.js";
 import { hold, onInterrupt } from "../interrupt.js";
 import * as msg from "../messages/output.js";
@@ -155,10 +155,10 @@ export class StagedDir {
       case "EROFS":
       case "EACCES":
       case "EPERM":
-        return msg.outReadOnly(this.shown, nearestExisting(at), code);
+        return msg.outReadOnly(this.shown, forUser(nearestExisting(at)), code);
       case "ENOTDIR":
       case "EEXIST":
-        return msg.outPathBlocked(this.shown, nearestExisting(at));
+        return msg.outPathBlocked(this.shown, forUser(nearestExisting(at)));
       case "ENOSPC":
       case "EDQUOT":
         return msg.outDiskFull(this.shown, code);
@@ -172,7 +172,7 @@ export class StagedDir {
     const code = errorCode(e);
     if (code === null) return e as UserError;
     if (rel === ".") return code === "ENAMETOOLONG" ? msg.outNameTooLong(this.shown) : msg.cannotWrite(this.shown, `${msg.writeReason(code)}, ${code}`);
-    if (code === "ENAMETOOLONG") return msg.reportFileNameTooLong(this.shown, rel);
+    if (code === "ENAMETOOLONG") return msg.reportFileNameTooLong(this.shown, rel, Buffer.byteLength(join(this.final, ...rel.split("/")), "utf8"));
     if (code === "ENOSPC" || code === "EDQUOT") return msg.reportDiskFull(this.shown, rel, code, this.earlier);
     return msg.reportFileUnwritable(this.shown, rel, code, this.earlier);
   }
@@ -185,6 +185,13 @@ export class StagedDir {
 export function stagePrefix(name: string): string {
   const plain = `.${name}.sojourn-`;
   return Buffer.byteLength(plain, "utf8") + "tmp-4294967295.partial".length <= 255 ? plain : `.${sha256(name).slice(0, 16)}.sojourn-`;
+}
+
+/** A path as the user would type it: relative to the working folder when inside it. */
+function forUser(path: string): string {
+  const rel = relative(process.cwd(), path);
+  if (rel === "") return "the current folder";
+  return rel.startsWith("..") || isAbsolute(rel) ? path : rel;
 }
 
 /** The nearest of `path` and its ancestors that exists (a file or a folder). */
