@@ -3,7 +3,7 @@
  * header (the study title) and page numbers. puppeteer-core is imported only here, and only
  * when a PDF is asked for.
  */
-import { accessSync, constants, mkdtempSync, readFileSync, rmSync } from "node:fs";
+import { accessSync, constants, mkdirSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { onInterrupt } from "../interrupt.js";
@@ -79,7 +79,8 @@ function escapeHtml(s: string): string {
 /**
  * Prints the report's HTML to `pdfPath` (written beside, then renamed into place).
  *
- * The browser runs with a fresh profile folder in the system's temporary folder. It is removed
+ * The browser runs with a fresh profile folder in the system's temporary folder, which also
+ * takes the browser's own temporary files. It is removed
  * when printing ends, fails, or is interrupted: on SIGINT or SIGTERM the browser is killed, the
  * profile and the partial PDF are removed, and the process exits (src/interrupt.ts). Errors of
  * the file system (a full disk) are thrown as they are, for the caller to put in words.
@@ -92,7 +93,11 @@ export async function renderPdf(
   const chrome = chromeOrThrow(options.chrome);
   const progress = options.onProgress ?? (() => {});
   const fs = options.fs ?? nodeFs;
+  // The browser's profile and its own temporary files (TMPDIR) both live in one folder of ours,
+  // so that removing it leaves nothing behind, even after the browser was killed.
   const profile = mkdtempSync(join(tmpdir(), "sojourn-chrome-"));
+  mkdirSync(join(profile, "data"));
+  mkdirSync(join(profile, "tmp"));
   const partial = `${pdfPath}.partial`;
   let browser: import("puppeteer-core").Browser | undefined;
   const release = onInterrupt(() => {
@@ -107,7 +112,8 @@ export async function renderPdf(
       browser = await puppeteer.launch({
         executablePath: chrome,
         headless: true,
-        args: [...CHROME_FLAGS, `--user-data-dir=${profile}`],
+        args: [...CHROME_FLAGS, `--user-data-dir=${join(profile, "data")}`],
+        env: { ...process.env, TMPDIR: join(profile, "tmp") },
         // Sojourn's own handler (above) stops the browser on a signal and removes its profile.
         handleSIGINT: false,
         handleSIGTERM: false,
@@ -133,7 +139,7 @@ export async function renderPdf(
     fs.writeFile(partial, pdf);
     fs.rename(partial, pdfPath);
     const pages = countPdfPages(readFileSync(pdfPath));
-    progress(`wrote ${pages} pages to ${pdfPath}`);
+    progress(`printed ${pages} pages`);
     return { pages };
   } catch (err) {
     rmSync(partial, { force: true });
