@@ -153,6 +153,17 @@ describe("table --out and summarize-run --out never write over a file of the use
   });
 });
 
+describe("init --out never writes over a run file", () => {
+  it("init --out naming one of the run files it reads is refused, also with --force", () => {
+    const dir = tempFolder({ "runs/morning/day-1.csv": RUN });
+    const r = run(["init", "runs", "--out", "runs/morning/day-1.csv", "--force"], dir);
+    expect(r.status).toBe(1);
+    expect(r.stderr).toBe(err(msg.outFileIsInput("runs/morning/day-1.csv", "run file")));
+    expect(readFileSync(join(dir, "runs", "morning", "day-1.csv"), "utf8")).toBe(RUN);
+    expect(run(["init", "runs", "--out", "study.yaml"], dir).status).toBe(0);
+  });
+});
+
 describe("report --out in places the system refuses", () => {
   it.skipIf(!existsSync("/proc/self"))("report --out in /proc ends at once with a message (node's recursive mkdir never returns there)", () => {
     const dir = bakery();
