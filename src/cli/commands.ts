@@ -99,17 +99,27 @@ export async function verify(dir: string, o: { inputs?: string }): Promise<void>
   if (!v.ok) status = 1;
 }
 
-export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean }): Promise<void> {
+export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean; force?: boolean }): Promise<void> {
   const [{ demoDirUsable, writeFerryStudy }, { publishStudy }] = await Promise.all([import("../demo/ferry.js"), publishing()]);
   if (!demoDirUsable(dir)) {
     throw new UserError(`${dir}: the folder exists and is not an earlier demo folder.\n  What to do: choose a new or empty folder for the demo.`);
   }
   const progress = progressTo(o.quiet);
   progress?.("generating the invented ferry check-in study (seeded, 2 scenarios x 8 runs)");
-  const manifest = await writeFerryStudy(dir);
+  const { folderError, makeFolders } = await import("../record/outputDir.js");
+  const { nodeFs } = await import("../record/fileSystem.js");
+  let manifest: string;
+  try {
+    // one level at a time: node's recursive mkdir never returns on some file systems (/proc)
+    makeFolders(resolve(dir), nodeFs);
+    manifest = await writeFerryStudy(dir);
+  } catch (e) {
+    throw folderError(dir, resolve(dir), e);
+  }
   const study: Study = await loadStudy(manifest);
   const started = Date.now();
-  const r = await publishStudy(study, { out: join(dir, "report"), force: true, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
+  // DIR/report is replaced when it is the demo's own earlier report, or with --force (never a file of the study).
+  const r = await publishStudy(study, { out: join(dir, "report"), force: o.force ?? false, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
   say(`Demo study written to ${resolve(dir)} (manifest ${manifest})`);
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
 }

@@ -91,6 +91,7 @@ export function program(): Command {
     .option("--pdf", "also write the PDF")
     .option("--chrome <path>", "Chromium executable for the PDF")
     .option("--quiet", "print no progress")
+    .option("--force", "replace <dir>/report even if it holds files Sojourn did not write")
     .action(commands.demo);
 
   return p;

@@ -147,24 +147,7 @@ export class StagedDir {
 
   /** A system error while preparing the folder, as a catalogue message. */
   private prepareError(e: unknown, at: string): UserError {
-    const code = errorCode(e);
-    if (code === null) return e as UserError;
-    switch (code) {
-      case "ENAMETOOLONG":
-        return msg.outNameTooLong(this.shown);
-      case "EROFS":
-      case "EACCES":
-      case "EPERM":
-        return msg.outReadOnly(this.shown, forUser(nearestExisting(at)), code);
-      case "ENOTDIR":
-      case "EEXIST":
-        return msg.outPathBlocked(this.shown, forUser(nearestExisting(at)));
-      case "ENOSPC":
-      case "EDQUOT":
-        return msg.outDiskFull(this.shown, code);
-      default:
-        return msg.cannotWrite(this.shown, `${msg.writeReason(code)}, ${code}`);
-    }
+    return folderError(this.shown, at, e);
   }
 
   /** A system error while writing `rel` of the new report, as a catalogue message. */
@@ -175,6 +158,31 @@ export class StagedDir {
     if (code === "ENAMETOOLONG") return msg.reportFileNameTooLong(this.shown, rel, Buffer.byteLength(join(this.final, ...rel.split("/")), "utf8"));
     if (code === "ENOSPC" || code === "EDQUOT") return msg.reportDiskFull(this.shown, rel, code, this.earlier);
     return msg.reportFileUnwritable(this.shown, rel, code, this.earlier);
+  }
+}
+
+/**
+ * A system error met while creating the folder `shown` (really at `at`), as a catalogue message;
+ * anything that is not a system error is returned as it is.
+ */
+export function folderError(shown: string, at: string, e: unknown): UserError {
+  const code = errorCode(e);
+  if (code === null) return e as UserError;
+  switch (code) {
+    case "ENAMETOOLONG":
+      return msg.outNameTooLong(shown);
+    case "EROFS":
+    case "EACCES":
+    case "EPERM":
+      return msg.outReadOnly(shown, forUser(nearestExisting(at)), code);
+    case "ENOTDIR":
+    case "EEXIST":
+      return msg.outPathBlocked(shown, forUser(nearestExisting(at)));
+    case "ENOSPC":
+    case "EDQUOT":
+      return msg.outDiskFull(shown, code);
+    default:
+      return msg.cannotWrite(shown, `${msg.writeReason(code)}, ${code}`);
   }
 }
 

@@ -5,7 +5,7 @@
  * the flags (links included); and a command that cannot write says why instead of hanging.
  * Every study is invented.
  */
-import { spawnSync } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { existsSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync } from "node:fs";
 import { join, relative } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -182,4 +182,41 @@ describe("report --out in places the system refuses", () => {
     expect(run(["report", "study.yaml", "--out", long, "--quiet"], dir).stderr).toBe(err(msg.outNameTooLong(long)));
     expect(readdirSync(dir).sort()).toEqual(["notes.txt", "runs", "study.yaml"]);
   });
+});
+
+describe("demo DIR keeps what is not its own, and says why it cannot write", () => {
+  it("demo into a folder below a file, or in /proc, ends with a message instead of an internal error or a hang", () => {
+    const dir = tempFolder({ "notes.txt": "x\n" });
+    expect(run(["demo", "notes.txt/demo", "--quiet"], dir).stderr).toBe(err(msg.outPathBlocked("notes.txt/demo", "notes.txt")));
+    if (existsSync("/proc/self")) {
+      const r = spawnSync(process.execPath, [MAIN, "demo", "/proc/sojourn-demo", "--quiet"], { encoding: "utf8", timeout: 20_000 });
+      expect(r.signal).toBeNull();
+      expect(r.status).toBe(1);
+      expect(r.stderr).not.toContain("internal error");
+    }
+  });
+
+  it("demo again after the user put a file into DIR/report stops and keeps the file", () => {
+    const dir = tempFolder({});
+    expect(run(["demo", "ferry", "--quiet"], dir).status).toBe(0);
+    writeFileSync(join(dir, "ferry", "report", "remarks.txt"), "two booths are enough\n");
+    const r = run(["demo", "ferry", "--quiet"], dir);
+    expect(r.stderr).toBe(err(msg.outHoldsForeign(join("ferry", "report"), "remarks.txt", "not-listed")));
+    expect(readFileSync(join(dir, "ferry", "report", "remarks.txt"), "utf8")).toBe("two booths are enough\n");
+  }, 60_000);
+});
+
+describe("output into a pipe that closes early", () => {
+  it("table to standard output read by a reader that stops after the first piece ends with status 0 and no stack trace", async () => {
+    let csv = "time,series,value\n";
+    for (let i = 0; i < 100_000; i++) csv += `${i},queue,${i % 7}\n`;
+    const dir = tempFolder({ "study.yaml": MANIFEST.replace("end: 10", "end: 100000"), "runs/day-1.csv": csv });
+    const child = spawn(process.execPath, [MAIN, "table", "study.yaml", "--scenario", "morning", "--run", "day-1", "--measure", "queue"], { cwd: dir });
+    let stderr = "";
+    child.stderr.setEncoding("utf8").on("data", (t: string) => (stderr += t));
+    child.stdout.once("data", () => child.stdout.destroy());
+    const status = await new Promise<number | null>((r) => child.on("close", (code) => r(code)));
+    expect(stderr).toBe("");
+    expect(status).toBe(0);
+  }, 60_000);
 });
