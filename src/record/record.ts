@@ -18,6 +18,11 @@ export interface StudyRecord {
   inputs: InputRecord[];
   /** Digest of every output but the PDF, in writing order. */
   outputs: { file: string; sha256: string }[];
+  /**
+   * The PDF's digest, added when `--pdf` wrote one (the record is rewritten just before the PDF
+   * is moved into the folder), so that the next report can tell the PDF is Sojourn's.
+   */
+  pdf?: { file: "report.pdf"; sha256: string };
 }
 
 export function toPosix(p: string): string {

@@ -10,8 +10,10 @@
  * sections 1 and 3 for what counts as bad, and the message catalogue `src/messages/*.ts` for the
  * words.
  */
-import { chmodSync } from "node:fs";
+import { spawnSync } from "node:child_process";
+import { appendFileSync, chmodSync, mkdirSync, realpathSync, symlinkSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
+import { fileURLToPath } from "node:url";
 import { gzipSync } from "node:zlib";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
@@ -136,6 +138,26 @@ function gzipFlipped(text: string): Buffer {
   for (let i = 12; i < z.length - 8; i++) z[i] ^= 0x5a; // damage the deflate data, keep the header
   return z;
 }
+/** A name of 300 bytes: more than the 255 most file systems take for one name. */
+const LONG_NAME = "r".repeat(300);
+
+const MAIN = fileURLToPath(new URL("../../dist/cli/main.js", import.meta.url));
+
+/** Writes an earlier report of the study into `dir/out` (through the built command line). */
+function earlierReport(dir: string, out: string): void {
+  const r = spawnSync(process.execPath, [MAIN, "report", STUDY, "--out", out, "--quiet"], { cwd: dir, encoding: "utf8", env: { ...process.env, SOJOURN_WORKERS: "1" } });
+  if (r.status !== 0) throw new Error(`test setup: the earlier report failed: ${r.stderr}`);
+}
+
+/** Creates folders below `dir` until the deepest one's absolute path is exactly `length` bytes; returns it. */
+function deepFolder(dir: string, length: number): string {
+  let path = join(realpathSync(dir), "deep-folders");
+  while (path.length + 201 < length) path = join(path, "d".repeat(200));
+  path = join(path, "e".repeat(length - path.length - 1));
+  mkdirSync(path, { recursive: true });
+  return path;
+}
+
 const LONG_TEXT = Array.from({ length: 400 }, (_, i) => `${4 + i / 10},queue,${i % 7},`).join("\n") + "\n";
 
 export const CASES: BadInputCase[] = [
@@ -860,14 +882,205 @@ export const CASES: BadInputCase[] = [
     id: "out-not-ours",
     debug: true,
     title: "An output folder that holds the user's own files",
-    what: "`--out` names a folder that is not empty and not an earlier Sojourn report. Sojourn refuses, so no file of the user's is lost; `--force` replaces the folder.",
+    what: "`--out` names a folder that is not empty and holds no record of an earlier Sojourn report. Sojourn refuses and names the first file, so no file of the user's is lost; `--force` replaces the folder (but never one that holds the manifest or an input of the study).",
     files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "thesis/chapter-1.md": "# Queues\n" },
     show: [],
     args: ["report", STUDY, "--out", "thesis", "--quiet"],
     status: 1,
-    message: () => outputMessages.outNotOurs("thesis"),
+    message: () => outputMessages.outHoldsForeign("thesis", "chapter-1.md", "no-record"),
     afterwards: { "thesis/chapter-1.md": "# Queues\n", "thesis/results.json": null },
     place: "thesis",
+  },
+  {
+    id: "out-user-file-in-report",
+    title: "A file of the user's inside an earlier report folder",
+    what: "`report` is a folder an earlier `sojourn report` wrote, and the user has since put a file of their own into it. A report folder is replaced only when its `record.json` lists every file in it with its digest.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => {
+      earlierReport(dir, "report");
+      writeFileSync(join(dir, "report", "my-notes.txt"), "compare with last week\n");
+    },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outHoldsForeign("report", "my-notes.txt", "not-listed"),
+    afterwards: { "report/my-notes.txt": "compare with last week\n" },
+  },
+  {
+    id: "out-report-file-changed",
+    title: "A file of an earlier report that was changed since",
+    what: "The user has written into `report.html` of an earlier report. Its digest no longer matches `record.json`, so replacing the folder would lose the change.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => {
+      earlierReport(dir, "report");
+      appendFileSync(join(dir, "report", "report.html"), "<!-- checked by the supervisor -->\n");
+    },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outHoldsForeign("report", "report.html", "changed"),
+  },
+  {
+    id: "out-holds-study",
+    title: "An output folder that holds the study itself, with --force",
+    what: "`--out .` in the study's own folder: replacing it would delete the manifest and the run files. Sojourn never replaces a folder that is, holds or is a parent of an input of the study (links resolved), not even with `--force`.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["report", STUDY, "--out", ".", "--force", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outHoldsInput(".", STUDY, "manifest"),
+    afterwards: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "results.json": null },
+  },
+  {
+    id: "out-unreadable",
+    unprivileged: true,
+    title: "An output folder that cannot be read",
+    what: "`--out` names a folder the user may not list, so Sojourn cannot see whether it holds files of someone's.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "private/keep.txt": "mine\n" },
+    setup: (dir) => chmodSync(join(dir, "private"), 0o700),
+    show: [],
+    args: ["report", STUDY, "--out", "private", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outUnreadable("private", "EACCES"),
+  },
+  {
+    id: "table-out-not-ours",
+    title: "`table --out` names a file of the user's",
+    what: "`sojourn table --out FILE` writes over an existing file only when it is a calculation table Sojourn wrote (its first line is a table header and every line has as many cells), or with `--force`.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "queue.csv": "my own queue counts, by hand\n" },
+    show: [],
+    args: ["table", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--out", "queue.csv"],
+    status: 1,
+    message: () => outputMessages.outFileNotOurs("queue.csv", "calculation table", "its first line is not the header of a calculation table"),
+    afterwards: { "queue.csv": "my own queue counts, by hand\n" },
+  },
+  {
+    id: "summary-out-is-input",
+    title: "`summarize-run --out` names a run file, with --force",
+    what: "A typing slip sends the summary over the run file itself. Sojourn never writes over the manifest or an input of the study, not even with `--force`.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["summarize-run", STUDY, "--scenario", "morning", "--run", "day-1", "--out", "runs/day-1.csv", "--force"],
+    status: 1,
+    message: () => outputMessages.outFileIsInput("runs/day-1.csv", "run file"),
+    afterwards: { "runs/day-1.csv": GOOD_CSV },
+  },
+  {
+    id: "table-out-is-folder",
+    title: "`table --out` names a folder",
+    what: "`--out` of `table` and `summarize-run` names the file to write.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["table", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--out", "runs"],
+    status: 1,
+    message: () => outputMessages.outFileIsFolder("runs"),
+  },
+  {
+    id: "out-name-too-long",
+    title: "An output folder name too long for the file system",
+    what: "One name in a path may have at most 255 bytes on most file systems.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["report", STUDY, "--out", LONG_NAME, "--quiet"],
+    status: 1,
+    message: () => outputMessages.outNameTooLong(LONG_NAME),
+  },
+  {
+    id: "report-path-too-long",
+    title: "A report file whose full path is too long for the system",
+    what: "`deep` is a link to a folder whose path is 4053 bytes long: the report folder itself fits, but a calculation table inside it would pass the system's limit of 4095 bytes for a path.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => {
+      const deep = deepFolder(dir, 4053);
+      symlinkSync(deep, join(dir, "deep"));
+    },
+    show: [],
+    args: ["report", STUDY, "--out", "deep/report", "--quiet"],
+    status: 1,
+    // 4053 + "/report/tables/morning/runs/day-1/queue.csv" (43) = 4096 bytes
+    message: () => outputMessages.reportFileNameTooLong("deep/report", "tables/morning/runs/day-1/queue.csv", 4096),
+  },
+  {
+    id: "out-path-blocked",
+    title: "A file where the output path needs a folder",
+    what: "`--out notes.txt/report`, where `notes.txt` is a file.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "notes.txt": "ideas\n" },
+    show: [],
+    args: ["report", STUDY, "--out", "notes.txt/report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outPathBlocked("notes.txt/report", "notes.txt"),
+    afterwards: { "notes.txt": "ideas\n" },
+  },
+  {
+    id: "out-parent-not-writable",
+    unprivileged: true,
+    title: "An output folder inside a folder the user may not write to",
+    what: "`locked` may be read but not written by the user; the report folder cannot be created in it.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "locked/readme.txt": "shared\n" },
+    setup: (dir) => chmodSync(join(dir, "locked"), 0o555),
+    show: [],
+    args: ["report", STUDY, "--out", "locked/report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outReadOnly("locked/report", "locked", "EACCES"),
+  },
+  {
+    id: "out-read-only",
+    title: "An output folder on a read-only file system (simulated)",
+    what: "The file system refuses every write with EROFS, as a disk mounted read-only does. The test simulates it with `SOJOURN_TEST_FAULT` (src/record/fileSystem.ts), since a real read-only mount needs privileges.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "EROFS:mkdir:report" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outReadOnly("report", "the current folder", "EROFS"),
+  },
+  {
+    id: "disk-full",
+    title: "The disk fills up while the report is written (simulated)",
+    what: "An earlier report is in `report`; the disk fills up while the new one writes its first calculation table (simulated with `SOJOURN_TEST_FAULT`, as ENOSPC). The unfinished report is removed and the earlier one stays as it was.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => earlierReport(dir, "report"),
+    env: { SOJOURN_TEST_FAULT: "ENOSPC:write:tables/" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.reportDiskFull("report", "tables/morning/runs/day-1/queue.csv", "ENOSPC", true),
+  },
+  {
+    id: "disk-full-at-start",
+    title: "The disk is full before the report folder can be made (simulated)",
+    what: "ENOSPC when the report folder is created (simulated with `SOJOURN_TEST_FAULT`).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "ENOSPC:mkdir:report" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outDiskFull("report", "ENOSPC"),
+    afterwards: { "report/results.json": null },
+  },
+  {
+    id: "disk-error",
+    title: "The disk fails while the report is written (simulated)",
+    what: "An input/output error (EIO) while `report.html` is written (simulated with `SOJOURN_TEST_FAULT`).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "EIO:write:report.html" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.reportFileUnwritable("report", "report.html", "EIO", false),
+    afterwards: { "report/results.json": null },
+  },
+  {
+    id: "table-disk-full",
+    title: "The disk is full when `table --out` writes (simulated)",
+    what: "ENOSPC while the full table is written (simulated with `SOJOURN_TEST_FAULT`): the file is written beside its place and renamed, so nothing half-written is left.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "ENOSPC:write:queue-full" },
+    show: [],
+    args: ["table", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--out", "queue-full.csv"],
+    status: 1,
+    message: () => outputMessages.outFileUnwritable("queue-full.csv", "ENOSPC", false),
+    afterwards: { "queue-full.csv": null },
   },
   {
     id: "pdf-no-browser",
