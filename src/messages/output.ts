@@ -205,10 +205,6 @@ export const pdfUnwritable = (dir: string, code: string) =>
 export const pdfInterrupted = (dir: string) =>
   new UserError(`Interrupted: the PDF was not written; the report folder ${shown(dir)} is complete without it, and the browser's temporary files were removed.`);
 
-/** Ctrl-C or SIGTERM in the moment the finished report folder was being put in place. */
-export const interruptedAfterCommit = (dir: string) =>
-  new UserError(`Interrupted: the report folder ${shown(dir)} had just been put in place and is complete.`);
-
 /** The disk is full before anything of the report could be written. */
 export const outDiskFull = (dir: string, code: string) =>
   new UserError(
