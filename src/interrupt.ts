@@ -7,9 +7,9 @@
  * that was given is printed, and the process exits with 128 + the signal's number (130 for
  * SIGINT, 143 for SIGTERM: common practice of shells).
  *
- * A piece of work can also hold signals off for a moment (`hold`) when it must not stop halfway,
- * such as the two renames that put a finished report folder in place; a signal that arrives
- * meanwhile is acted on when the hold ends.
+ * Node runs a signal handler only between two pieces of JavaScript, so synchronous work (such as
+ * the two renames that put a finished report folder in place) is never cut in half by it; only a
+ * SIGKILL or a power loss can, and src/record/outputDir.ts repairs that on the next run.
  */
 
 interface Cleanup {
@@ -18,20 +18,10 @@ interface Cleanup {
 }
 
 const cleanups: Cleanup[] = [];
-let held = 0;
-let pending: NodeJS.Signals | null = null;
 
 const EXIT: Record<string, number> = { SIGINT: 130, SIGTERM: 143 };
 
-function onSignal(signal: NodeJS.Signals): void {
-  if (held > 0) {
-    pending = signal;
-    return;
-  }
-  stop(signal);
-}
-
-function stop(signal: NodeJS.Signals): never {
+function onSignal(signal: NodeJS.Signals): never {
   let message: string | undefined;
   for (const c of [...cleanups].reverse()) {
     message ??= c.message?.();
@@ -64,23 +54,6 @@ export function onInterrupt(cleanup: () => void, message?: () => string): () => 
     const i = cleanups.indexOf(entry);
     if (i < 0) return;
     cleanups.splice(i, 1);
-    if (cleanups.length === 0 && held === 0) listen(false);
+    if (cleanups.length === 0) listen(false);
   };
-}
-
-/** Runs `work` with signals held off; a signal that came meanwhile is acted on afterwards. */
-export function hold<T>(work: () => T): T {
-  if (held === 0 && cleanups.length === 0) listen(true);
-  held++;
-  try {
-    return work();
-  } finally {
-    held--;
-    if (held === 0) {
-      const signal = pending;
-      pending = null;
-      if (signal !== null) stop(signal);
-      if (cleanups.length === 0) listen(false);
-    }
-  }
 }

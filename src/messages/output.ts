@@ -140,7 +140,7 @@ export const reportFileNameTooLong = (dir: string, file: string, pathBytes: numb
       : `its full path would be ${pathBytes} bytes long, more than the system takes (4095 bytes on Linux)`;
   const todo =
     bytes > 255
-      ? "the name is made from a scenario, run or measure name (a character other than a letter, digit, `_` or `-` takes three bytes or more); shorten that name in the manifest."
+      ? "the name is made from a scenario, run or measure name (a character other than a lowercase letter, a digit, `_` or `-` is written with two bytes or more); shorten that name in the manifest."
       : "write the report to a folder with a shorter path (--out), or shorten the scenario, run or measure names in the manifest.";
   return new UserError(
     `${shown(abbreviated(dir))}: cannot write ${shown(abbreviated(file))}: ${what} (ENAMETOOLONG). Nothing was replaced: any earlier report in the folder is intact.\n  What to do: ${todo}`,
@@ -204,10 +204,6 @@ export const pdfUnwritable = (dir: string, code: string) =>
 /** Ctrl-C or SIGTERM while the PDF was being printed. */
 export const pdfInterrupted = (dir: string) =>
   new UserError(`Interrupted: the PDF was not written; the report folder ${shown(dir)} is complete without it, and the browser's temporary files were removed.`);
-
-/** Ctrl-C or SIGTERM in the moment the finished report folder was being put in place. */
-export const interruptedAfterCommit = (dir: string) =>
-  new UserError(`Interrupted: the report folder ${shown(dir)} had just been put in place and is complete.`);
 
 /** The disk is full before anything of the report could be written. */
 export const outDiskFull = (dir: string, code: string) =>

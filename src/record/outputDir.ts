@@ -1,7 +1,7 @@
 import { existsSync, lstatSync, readdirSync, statSync } from "node:fs";
 import { basename, dirname, isAbsolute, join, relative, resolve } from "node:path";
 import { sha256 } from "../digest.js";
-import { hold, onInterrupt } from "../interrupt.js";
+import { onInterrupt } from "../interrupt.js";
 import * as msg from "../messages/output.js";
 import { UserError } from "../messages/index.js";
 import { errorCode, nodeFs, type OutputFs } from "./fileSystem.js";
@@ -87,7 +87,7 @@ export class StagedDir {
     }
     this.release = onInterrupt(
       () => this.abandon(),
-      () => (this.done ? msg.interruptedAfterCommit(this.shown) : msg.interrupted()).message,
+      () => msg.interrupted().message,
     );
   }
 
@@ -111,21 +111,22 @@ export class StagedDir {
     return join(dirname(this.final), `${stagePrefix(basename(this.final))}${kind}-${process.pid}`);
   }
 
-  /** Moves the finished folder into place; signals wait until both renames are done. */
+  /**
+   * Moves the finished folder into place. It is synchronous, so a signal cannot come between the
+   * two renames (src/interrupt.ts); a failed second rename puts the earlier folder back.
+   */
   commit(): void {
     const old = this.scratch("old");
     const hadOld = existsSync(this.final);
     try {
-      hold(() => {
-        if (hadOld) this.fs.rename(this.final, old);
-        try {
-          this.fs.rename(this.temp, this.final);
-        } catch (e) {
-          if (hadOld) this.fs.rename(old, this.final);
-          throw e;
-        }
-        this.done = true;
-      });
+      if (hadOld) this.fs.rename(this.final, old);
+      try {
+        this.fs.rename(this.temp, this.final);
+      } catch (e) {
+        if (hadOld) this.fs.rename(old, this.final);
+        throw e;
+      }
+      this.done = true;
     } catch (e) {
       throw this.writeError(e, ".");
     }

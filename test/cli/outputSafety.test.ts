@@ -6,7 +6,7 @@
  * Every study is invented.
  */
 import { spawn, spawnSync } from "node:child_process";
-import { existsSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync, realpathSync, statSync, symlinkSync, writeFileSync } from "node:fs";
 import { join, relative } from "node:path";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
@@ -173,6 +173,21 @@ describe("report --out in places the system refuses", () => {
     expect(r.status).toBe(1);
     expect(r.stderr).toBe(err(msg.cannotWrite("/proc/sojourn-report", `${msg.writeReason("ENOENT")}, ENOENT`)));
     expect(Date.now() - started).toBeLessThan(20_000);
+  });
+
+  it("report with a measure name too long for a table file name says which file, never an internal error", () => {
+    const name = "m".repeat(300);
+    const dir = tempFolder({ "study.yaml": MANIFEST.replace("name: queue", `name: ${name}`), "runs/day-1.csv": RUN });
+    const r = run(["report", "study.yaml", "--out", "report", "--quiet"], dir);
+    // Table names made from long names may be shortened (then the report is written); if not,
+    // the file system refuses the name and the message says which file.
+    if (r.status === 0) expect(existsSync(join(dir, "report", "results.json"))).toBe(true);
+    else {
+      const rel = `tables/morning/runs/day-1/${name}.csv`;
+      expect(r.stderr).toBe(err(msg.reportFileNameTooLong("report", rel, Buffer.byteLength(join(realpathSync(dir), "report", rel)))));
+      expect(existsSync(join(dir, "report"))).toBe(false);
+    }
+    expect(readdirSync(dir).filter((n) => n.includes(".sojourn-"))).toEqual([]);
   });
 
   it("report --out below a file names the file; --out too long names the limit", () => {
