@@ -91,10 +91,10 @@ export async function verifyReport(dir: string, options: { inputs?: string } = {
     return { ok: false, lines };
   }
 
-  const { outcome, tableFiles } = await runStudy(study);
+  const { outcome } = await runStudy(study);
   const recomputed = new Map<string, string>();
   recomputed.set("results.json", sha256(resultsJson(outcome)));
-  for (const f of tableFiles) recomputed.set(f.record.file, f.record.sha256);
+  for (const t of outcome.tables) recomputed.set(t.file, t.sha256);
 
   for (const out of record.outputs) {
     const onDisk = resolve(dir, ...out.file.split("/"));
