@@ -3,6 +3,7 @@ import type { Study } from "../manifest/types.js";
 import type { InputRecord } from "../study/outcome.js";
 import { sha256 } from "../digest.js";
 import { checkShape, type Shape, shapeText } from "../shape.js";
+import { INPUT_RECORD_SHAPE } from "../study/runSummary.js";
 import { toolVersion } from "./version.js";
 
 /** The study record: what anyone needs to re-derive a report folder later (issue 5). */
@@ -39,20 +40,7 @@ export const RECORD_SHAPE: Shape = {
     tool: { object: { name: "string", version: "string" } },
     node: "string",
     manifest: { object: { path: "string", sha256: "sha256", text: "string" } },
-    inputs: {
-      array: {
-        object: {
-          scenario: "string",
-          run: "string",
-          file: "string",
-          bytes: "number",
-          sha256: "sha256",
-          rows: "number",
-          left_out: { object: { after_end: "number", before_window: "number", unused_series: "number" } },
-          series_rows: { record: "number" },
-        },
-      },
-    },
+    inputs: { array: INPUT_RECORD_SHAPE },
     outputs: { array: FILE_DIGEST },
     report: { object: { generated_at: "string" } },
     pdf: { object: { file: "string", sha256: "sha256", pages: "number" } },

@@ -9,7 +9,8 @@ import type { StudyOutcome } from "../study/outcome.js";
 import { sha256 } from "../digest.js";
 import { reportHtml, resultsJson } from "./publish.js";
 import { parseRecord, recordedManifest, type StudyRecord } from "./record.js";
-import { fileBytes, fileDigest, isInside, place, type Placed } from "./safeFile.js";
+import { fileBytes, fileDigest } from "../regularFile.js";
+import { isInside, place, type Placed } from "./safeFile.js";
 import { toolVersion } from "./version.js";
 
 export interface VerifyLine {
