@@ -3,6 +3,7 @@ import { dirname, join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
 import { UserError } from "../messages/index.js";
+import { terminalJson, terminalText } from "../messages/terminal.js";
 import { mark } from "../timing.js";
 
 // Each command loads what it needs when it runs, so that starting the command line stays quick.
@@ -14,8 +15,11 @@ export function exitStatus(): number {
   return status;
 }
 
-const say = (line: string) => process.stdout.write(line + "\n");
-const progressTo = (quiet: boolean | undefined) => (quiet ? undefined : (m: string) => process.stderr.write(`  ${m}\n`));
+// Every line shown holds names from files and manifests: control characters in them are escaped
+// (messages/terminal.ts), line feeds too, so that a name can neither drive the terminal nor fake a line.
+const say = (line: string) => process.stdout.write(terminalText(line) + "\n");
+const sayJson = (value: unknown, indent?: number) => process.stdout.write(terminalJson(value, indent) + "\n");
+const progressTo = (quiet: boolean | undefined) => (quiet ? undefined : (m: string) => process.stderr.write(`  ${terminalText(m)}\n`));
 
 export async function report(
   manifest: string,
@@ -52,7 +56,7 @@ export async function check(manifest: string, o: { json?: boolean; workers?: num
   const [{ runStudy }, { studyPlan, planText }] = await Promise.all([import("../study/runStudy.js"), import("./plan.js")]);
   const { outcome } = await runStudy(study, { workers: o.workers });
   const plan = studyPlan(study, outcome);
-  if (o.json) say(JSON.stringify(plan, null, 2));
+  if (o.json) sayJson(plan, 2);
   else for (const line of planText(plan)) say(line);
 }
 
@@ -60,7 +64,7 @@ export async function at(manifest: string, o: { scenario: string; run: string; m
   const study = await loadStudy(manifest);
   const { timeAverageAt } = await import("../study/at.js");
   const r = await timeAverageAt(study, o, o.time);
-  if (o.json) say(JSON.stringify(r.result));
+  if (o.json) sayJson(r.result);
   else for (const line of r.lines) say(line);
 }
 
@@ -69,7 +73,8 @@ export async function table(manifest: string, o: { scenario: string; run: string
   const { fullTable } = await import("../study/fullTable.js");
   const tables = await fullTable(study, o);
   if (o.out === undefined) {
-    process.stdout.write(tables[0].csv);
+    // CSV is data: written as it is, unless a terminal shows it
+    process.stdout.write(process.stdout.isTTY ? terminalText(tables[0].csv, { keepNewlines: true }) : tables[0].csv);
     return;
   }
   for (const t of tables) {
@@ -117,7 +122,7 @@ export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; qui
 export async function init(runsDir: string, o: { out?: string; force?: boolean }): Promise<void> {
   const { initStudy } = await import("../init/initStudy.js");
   const { relative } = await import("node:path");
-  const r = await initStudy(runsDir, { out: o.out, force: o.force ?? false, onSkip: (s) => process.stderr.write(`  skipped ${s.display}: ${s.reason}\n`) });
+  const r = await initStudy(runsDir, { out: o.out, force: o.force ?? false, onSkip: (s) => process.stderr.write(`  ${terminalText(`skipped ${s.display}: ${s.reason}`)}\n`) });
   const rel = relative(process.cwd(), r.manifest);
   const shown = o.out ?? (rel.startsWith("..") ? r.manifest : rel);
   const runs = r.scan.scenarios.reduce((n, s) => n + s.runs.length, 0);

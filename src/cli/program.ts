@@ -1,5 +1,6 @@
 import { Command, CommanderError, InvalidArgumentError, Option } from "commander";
 import { UserError } from "../messages/index.js";
+import { terminalText } from "../messages/terminal.js";
 import { toolVersion } from "../record/version.js";
 import * as commands from "./commands.js";
 
@@ -21,6 +22,11 @@ export function program(): Command {
     .version(toolVersion().version)
     .option("--debug", "show a stack trace when something fails (any command)")
     .exitOverride()
+    // usage errors repeat what was typed: its control characters are escaped as in every message
+    .configureOutput({
+      writeOut: (text) => process.stdout.write(terminalText(text, { keepNewlines: true })),
+      writeErr: (text) => process.stderr.write(terminalText(text, { keepNewlines: true })),
+    })
     .showHelpAfterError("(run with --help for usage)");
 
   p.command("init")
@@ -108,13 +114,15 @@ export async function run(argv: string[]): Promise<number> {
       if (e.code === "commander.helpDisplayed" || e.code === "commander.version" || e.code === "commander.help") return 0;
       return 2;
     }
+    // A message quotes names from files and manifests: control characters in it are escaped.
+    const shown = (text: string) => terminalText(text, { keepNewlines: true });
     if (e instanceof UserError) {
-      process.stderr.write(`sojourn: ${e.message}\n`);
-      if (debug && e.stack) process.stderr.write(e.stack + "\n");
+      process.stderr.write(`sojourn: ${shown(e.message)}\n`);
+      if (debug && e.stack) process.stderr.write(shown(e.stack) + "\n");
       return e.exitCode;
     }
-    process.stderr.write(`sojourn: internal error: ${(e as Error)?.message ?? String(e)}\n`);
-    if (debug) process.stderr.write(String((e as Error)?.stack) + "\n");
+    process.stderr.write(`sojourn: internal error: ${shown((e as Error)?.message ?? String(e))}\n`);
+    if (debug) process.stderr.write(shown(String((e as Error)?.stack)) + "\n");
     else process.stderr.write("  This is a bug in Sojourn. Run again with --debug to see where it happened, and report it.\n");
     return 1;
   }

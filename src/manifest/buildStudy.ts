@@ -20,13 +20,15 @@ import {
   type TargetSpec,
   type WarmupSpec,
 } from "./spec.js";
-import type { Analysis, ColumnMap, Comparison, Measure, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
+import type { Analysis, ColumnMap, Comparison, Measure, MeasureSource, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
 
 export const DEFAULT_COLUMNS: ColumnMap = { time: "time", series: "series", value: "value", entity: "entity" };
 export const DEFAULT_QUANTILES: readonly number[] = [0.5, 0.9, 0.95];
 export const DEFAULT_CONFIDENCE = 0.95;
 export const DEFAULT_TIME_UNIT = "time";
 export const DEFAULT_TABLES = { maxRows: 5000, edgeRows: 500 };
+/** The most time slices an MSER-5 warm-up may cut one run's window into (docs/manifest.md). */
+export const MAX_SLICES = 100_000;
 
 /** What `buildStudy` needs besides the spec. */
 export interface StudyContext {
@@ -54,6 +56,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
   const confidence = spec.confidence ?? DEFAULT_CONFIDENCE;
   if (!(confidence > 0 && confidence < 1)) throw manifestMessages.confidenceOutOfRange(place(["confidence"]), confidence);
   checkAnalysis(spec.analysis, ["analysis"]);
+  const tables = toTables(spec.tables);
   checkUniqueNames("scenario", scenarioNames, "scenarios");
   checkUniqueNames("measure", measureNames, "measures");
 
@@ -89,12 +92,26 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     warmup,
     scenarios,
     measureNames,
+    measureSources: new Map(
+      spec.measures.map((m, i): [string, MeasureSource] => {
+        const key = m.series !== undefined ? "series" : m.from !== undefined ? "from" : null;
+        return [m.name, { place: place(key === null ? ["measures", i] : ["measures", i, key]), mayBeAbsent: m.may_be_absent === true }];
+      }),
+    ),
     comparisons,
-    tables: {
-      maxRows: spec.tables?.max_rows ?? DEFAULT_TABLES.maxRows,
-      edgeRows: spec.tables?.edge_rows ?? DEFAULT_TABLES.edgeRows,
-    },
+    tables,
   };
+
+  /**
+   * The table options. An edge_rows as written must leave room for checkpoints (2 · edge_rows
+   * < max_rows); the default 500 gives way to a quarter of a smaller max_rows (TableBuilder).
+   */
+  function toTables(written: StudySpec["tables"]): Study["tables"] {
+    const maxRows = written?.max_rows ?? DEFAULT_TABLES.maxRows;
+    const edgeRows = written?.edge_rows ?? DEFAULT_TABLES.edgeRows;
+    if (written?.edge_rows !== undefined && 2 * edgeRows >= maxRows) throw manifestMessages.edgeRowsTooMany(place(["tables", "edge_rows"]), edgeRows, maxRows);
+    return { maxRows, edgeRows };
+  }
 
   function checkUniqueNames(what: "scenario" | "measure", names: string[], key: string): void {
     names.forEach((name, i) => {
@@ -117,6 +134,13 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     (options.quantiles ?? []).forEach((p, j) => {
       if (!(p >= 0 && p <= 1)) throw manifestMessages.quantileOutOfRange(place([...path, "quantiles", j]), p);
     });
+    for (const key of ["quantiles", "within", "at_least"] as const) {
+      (options[key] ?? []).forEach((x, j, all) => {
+        // === takes 0 and -0 as one number, as their figure keys ("0") do
+        const first = all.findIndex((y) => y === x);
+        if (first !== j) throw manifestMessages.listedTwice(place([...path, key, j]), key, x, first);
+      });
+    }
   }
 
   /** An override's keys must apply to the measure's kind, and its values must be valid. */
@@ -172,10 +196,25 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
       const open = runs.find((run) => run.end === null);
       if (open !== undefined) throw manifestMessages.needsEnd(place(path), measure.name, measure.kind, name, open.id);
     }
+    if (warmup.type === "mser-5") checkSlices(warmup, measures, runs, name, [...warmupPath, "slice"]);
 
     const analysis: Analysis = toAnalysis(scenario.analysis ?? spec.analysis);
     const columns: ColumnMap = { ...DEFAULT_COLUMNS, ...spec.columns, ...scenario.columns };
     return { name, runs, measures, warmup, analysis, columns };
+  }
+
+  /**
+   * MSER-5 on a level or utilization keeps one average per slice of each run's window: the
+   * number of slices, (end - start) / slice, is bounded once the windows are known.
+   */
+  function checkSlices(warmup: Extract<Warmup, { type: "mser-5" }>, measures: Measure[], runs: RunRef[], scenario: string, slicePath: KeyPath): void {
+    const measure = measures.find((m) => m.name === warmup.measure);
+    if (measure === undefined || (measure.kind !== "level" && measure.kind !== "utilization")) return;
+    for (const run of runs) {
+      if (run.end === null) continue;
+      const slices = Math.floor((run.end - run.start) / warmup.slice);
+      if (slices > MAX_SLICES) throw manifestMessages.tooManySlices(place(slicePath), scenario, run.id, warmup.slice, run.start, run.end, slices, MAX_SLICES);
+    }
   }
 
   function toRunRef(run: ResolvedRun, scenario: ScenarioSpec, scenarioPath: KeyPath): RunRef {

@@ -1,7 +1,8 @@
 /**
  * Reading a study manifest: the edge where what the user wrote becomes the trusted `Study`.
  *
- *   manifest file ──read──▶ text ──parseManifest──▶ YAML document with positions
+ *   manifest file ──read, decodeManifest (UTF-8 only)──▶ text
+ *        ──parseManifest (bounded depth and aliases)──▶ YAML document with positions
  *        ──checkSchema (docs/manifest.schema.json)──▶ StudySpec
  *        ──buildStudy (names, windows, globs, overrides, defaults)──▶ Study
  *
@@ -13,7 +14,7 @@ import { basename, dirname, extname, resolve } from "node:path";
 import { manifestMessages } from "../messages/index.js";
 import { buildStudy } from "./buildStudy.js";
 import { checkSchema } from "./checkSchema.js";
-import { parseManifest } from "./manifestSource.js";
+import { decodeManifest, parseManifest } from "./manifestSource.js";
 import type { Study } from "./types.js";
 
 export interface LoadOptions {
@@ -41,8 +42,9 @@ export async function loadStudy(manifestPath: string, options: LoadOptions = {})
 }
 
 async function readManifest(path: string): Promise<string> {
+  let bytes: Buffer;
   try {
-    return await readFile(path, "utf8");
+    bytes = await readFile(path);
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
     if (code === "ENOENT") throw manifestMessages.manifestNotFound(path);
@@ -50,4 +52,5 @@ async function readManifest(path: string): Promise<string> {
     if (code === "EACCES" || code === "EPERM") throw manifestMessages.manifestUnreadable(path, "permission denied");
     throw manifestMessages.manifestUnreadable(path, (error as Error).message);
   }
+  return decodeManifest(bytes, path);
 }

@@ -180,12 +180,20 @@ function emptyForNaN(rows: Cell[][]): Cell[][] {
   return rows.map((r) => (r.some((c) => c !== c) ? r.map((c) => (c !== c ? null : c)) : r));
 }
 
-/** One CSV cell: numbers in shortest round-trip form, text quoted when it needs to be (RFC 4180). */
+/**
+ * One CSV cell: numbers in shortest round-trip form (a negative number as `-2.5`), text quoted when
+ * it needs to be (RFC 4180). A text that starts with `=`, `+`, `-`, `@`, a tab or a carriage
+ * return, which a spreadsheet would take for a formula, gets a leading `'` so that it is shown as
+ * text (the common guidance against CSV formula injection): the entity `=1+2` is written `'=1+2`.
+ */
 export function csvCell(c: Cell): string {
   if (c === null) return "";
   if (typeof c === "number") return Object.is(c, -0) ? "0" : String(c);
-  return /[",\r\n]/.test(c) || c !== c.trim() ? `"${c.replace(/"/g, '""')}"` : c;
+  const text = FORMULA_START.test(c) ? `'${c}` : c;
+  return /[",\r\n]/.test(text) || text !== text.trim() ? `"${text.replace(/"/g, '""')}"` : text;
 }
+
+const FORMULA_START = /^[=+\-@\t\r]/;
 
 export function tableToCsv(t: BuiltTable): string {
   const lines = [t.columns.map(csvCell).join(",")];

@@ -5,6 +5,8 @@
  * (`src/messages/*.ts`); the command line's top-level handler prints `message` and exits with
  * `exitCode`. Anything else that escapes is a bug and is shown as one.
  */
+import { terminalText } from "./terminal.js";
+
 export class UserError extends Error {
   override readonly name = "UserError";
   constructor(
@@ -24,14 +26,17 @@ export interface Place {
   path?: string;
 }
 
-/** `file:line:column (at key.path)`: the prefix of every located message. */
+/**
+ * `file:line:column (at key.path)`: the prefix of every located message. A line feed or other
+ * control character in the file name is written `\uXXXX`, so the place stays on its line.
+ */
 export function formatPlace(place: Place): string {
-  let s = place.file;
+  let s = terminalText(place.file);
   if (place.line !== undefined) {
     s += `:${place.line}`;
     if (place.column !== undefined) s += `:${place.column}`;
   }
-  if (place.path !== undefined && place.path !== "") s += ` (at ${place.path})`;
+  if (place.path !== undefined && place.path !== "") s += ` (at ${terminalText(place.path)})`;
   return s;
 }
 

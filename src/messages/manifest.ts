@@ -61,6 +61,59 @@ export function yamlSyntax(place: Place, code: string, reason: string): UserErro
   );
 }
 
+/** The manifest's bytes are not UTF-8 text; `byte` is the first byte that cannot be read. */
+export function manifestNotUtf8(place: Place, byte: number, offset: number): UserError {
+  const hex = `0x${byte.toString(16).toUpperCase().padStart(2, "0")}`;
+  const latin = byte >= 0xa0 ? ` (${hex} is ${JSON.stringify(String.fromCharCode(byte))} in Latin-1 or Windows-1252, a common cause)` : "";
+  return located(
+    place,
+    `the manifest is not valid UTF-8 text: the byte ${hex} at byte offset ${offset} does not belong to a UTF-8 character${latin}`,
+    "Save the manifest as UTF-8 (in most editors: Save with encoding, UTF-8), then run the command again.",
+  );
+}
+
+/** The manifest starts with a UTF-16 or UTF-32 byte-order mark. */
+export function manifestWideEncoding(file: string, encoding: string): UserError {
+  return located({ file }, `the manifest is saved as ${encoding}, and Sojourn reads manifests in UTF-8`, "Save the manifest as UTF-8 (in most editors: Save with encoding, UTF-8), then run the command again.");
+}
+
+/** Mappings and lists nested deeper than `limit` levels. */
+export function manifestTooDeep(place: Place, limit: number): UserError {
+  return located(
+    place,
+    `the manifest nests mappings and lists more than ${limit} levels deep here`,
+    `A study manifest needs fewer than 10 levels (${REFERENCE} shows every key). Look for brackets [ { that are opened and never closed, or an indentation that keeps growing.`,
+  );
+}
+
+/** An alias (*name) with no anchor (&name) before it. */
+export function aliasWithoutAnchor(place: Place, name: string): UserError {
+  return located(
+    place,
+    `the alias *${name} refers to no anchor: there is no &${name} before it`,
+    `Write &${name} on the value to repeat, before its first *${name}; or write the value itself here.`,
+  );
+}
+
+/** An alias inside the value its own anchor marks: the manifest would never end. */
+export function aliasInsideItself(place: Place, name: string): UserError {
+  return located(place, `the alias *${name} is inside the value that &${name} marks, so that value would contain itself without end`, `Move *${name} out of the value marked &${name}, or write the value itself.`);
+}
+
+/** With every alias written out, the manifest would hold more than `limit` values. */
+export function manifestTooLarge(place: Place, limit: number): UserError {
+  return located(
+    place,
+    `with its aliases (*name) written out, the manifest would hold more than ${limit.toLocaleString("en-US")} values; the count passes that here`,
+    "Aliases that repeat other aliases multiply: repeat the values you need once each, or list fewer values. A study manifest holds a few hundred values.",
+  );
+}
+
+/** A mapping key written as a list, a mapping or an alias. */
+export function keyNotText(place: Place, found: string): UserError {
+  return located(place, `a mapping key must be a text, found ${found}`, "Write the key as a plain name followed by a colon, such as name: queue.");
+}
+
 export function duplicateKey(place: Place, key: string): UserError {
   return located(place, `the key ${quote(key)} is written twice in the same mapping`, "Keep one of the two entries.");
 }
@@ -245,4 +298,36 @@ export function tooFewBatches(place: Place, batches: number): UserError {
 export function quantileOutOfRange(place: Place, p: number): UserError {
   const hint = p > 1 && p < 100 ? ` ${p} looks like a percentage: write ${p / 100}.` : "";
   return located(place, `the quantile probability ${p} is not between 0 and 1`, `Write probabilities such as 0.5 or 0.95.${hint}`);
+}
+
+/** A number written twice in one list of quantiles or thresholds. */
+export function listedTwice(place: Place, key: string, value: number, firstIndex: number): UserError {
+  return located(place, `${value} is listed twice in ${key} (first as item ${firstIndex}, counting from 0)`, "List each number once: each one names a figure, a calculation table and an interval of its own.");
+}
+
+/** `tables.edge_rows` leaves no room for checkpoint rows within `tables.max_rows`. */
+export function edgeRowsTooMany(place: Place, edgeRows: number, maxRows: number): UserError {
+  return located(
+    place,
+    `edge_rows ${edgeRows} keeps ${2 * edgeRows} rows at the head and the tail, which is not less than max_rows ${maxRows}`,
+    `Make edge_rows less than half of max_rows (such as ${Math.max(1, Math.floor(maxRows / 10))}), or raise max_rows.`,
+  );
+}
+
+/** The MSER-5 slice width cuts a run's window into more slices than Sojourn keeps. */
+export function tooManySlices(place: Place, scenario: string, run: string, slice: number, start: number, end: number, slices: number, limit: number): UserError {
+  const count = slices < 1e15 ? slices.toLocaleString("en-US") : slices.toExponential(2);
+  return located(
+    place,
+    `the MSER-5 slice ${slice} cuts the window [${start}, ${end}] of run ${quote(run)} of scenario ${quote(scenario)} into ${count} slices; at most ${limit.toLocaleString("en-US")} are kept`,
+    `Use a slice of at least ${roundUp((end - start) / limit)} (a slice is usually a few times the time between changes of the level, and a run has a few hundred to a few thousand of them).`,
+  );
+}
+
+/** `x` rounded up to 3 significant digits: 0.30000000000000004 -> 0.301, 12345 -> 12400. */
+function roundUp(x: number): number {
+  if (!(x > 0) || !Number.isFinite(x)) return x;
+  const step = 10 ** (Math.floor(Math.log10(x)) - 2);
+  const up = Number((Math.ceil(x / step - 1e-9) * step).toPrecision(3));
+  return up >= x ? up : Number((up + step).toPrecision(3));
 }

@@ -6,6 +6,7 @@
  */
 import type { TopLevelSpec } from "vega-lite";
 import type { TraceLine } from "../measures/trace.js";
+import { fsum } from "../stats/fsum.js";
 
 /** The report's palette; the CSS in templates/report.css uses the same values. */
 export const PALETTE = {
@@ -48,6 +49,33 @@ function config() {
   } as const;
 }
 
+/**
+ * The value a chart groups, facets, colours or places on a nominal axis by, in place of a name.
+ * Vega keeps facets and aggregate groups in plain objects keyed by that value, so a scenario
+ * named `__proto__` lost its facet and its bars, and one named `constructor` or `valueOf` could
+ * meet a member of every object. A key never is such a member's name (it starts with `n:`);
+ * axes, legends and facet headers show the name again (`NAME_LABEL`), and each mark's
+ * accessible description is written from the name, not the key.
+ */
+export function nameKey(name: string): string {
+  return `n:${name}`;
+}
+
+/** The vega expression that shows a key's name: the key without its `n:`. */
+const NAME_LABEL = "slice(datum.value, 2)";
+
+/**
+ * An axis title. Vega reads a title that is exactly the name of a member of every object
+ * (`constructor`, `valueOf`, `toString`, ...) as a reference to that member and fails to draw the
+ * chart; a space after the text (not drawn) keeps it a text.
+ */
+export function axisTitle(text: string): string;
+export function axisTitle(text: string | null): string | null;
+export function axisTitle(text: string | null): string | null {
+  if (text === null) return null;
+  return text === "__proto__" || text in Object.prototype ? `${text} ` : text;
+}
+
 /** One scenario's interval for the interval chart. `label` is the rounded mean as shown. */
 export interface IntervalPoint {
   scenario: string;
@@ -59,19 +87,23 @@ export interface IntervalPoint {
 
 /** Mean and confidence interval of one measure, one row per scenario. */
 export function intervalChart(points: IntervalPoint[], valueTitle: string): TopLevelSpec {
-  const order = points.map((p) => p.scenario);
-  const y = { field: "scenario", type: "nominal", scale: { domain: order }, title: null } as const;
-  const x = { field: "mean", type: "quantitative", title: valueTitle, scale: { zero: false } } as const;
+  const order = points.map((p) => nameKey(p.scenario));
+  const y = { field: "scenario_key", type: "nominal", scale: { domain: order }, title: null, axis: { labelExpr: NAME_LABEL } } as const;
+  const x = { field: "mean", type: "quantitative", title: axisTitle(valueTitle), scale: { zero: false } } as const;
+  const description = { field: "about" } as const;
+  const values = points
+    .filter((p) => p.mean !== null)
+    .map((p) => ({ ...p, scenario_key: nameKey(p.scenario), about: `${p.scenario}: mean ${p.label}` }));
   return {
     $schema: SCHEMA,
     width: WIDTH,
     height: { step: 34 },
-    data: { values: points.filter((p) => p.mean !== null) },
+    data: { values },
     layer: [
       {
         mark: { type: "rule", strokeWidth: 3, color: PALETTE.kiln },
         transform: [{ filter: "datum.low !== null && datum.high !== null" }],
-        encoding: { y, x: { field: "low", type: "quantitative", title: valueTitle }, x2: { field: "high" } },
+        encoding: { y, x: { field: "low", type: "quantitative", title: axisTitle(valueTitle) }, x2: { field: "high" }, description },
       },
       {
         mark: { type: "tick", thickness: 2, size: 14, color: PALETTE.kiln },
@@ -85,11 +117,11 @@ export function intervalChart(points: IntervalPoint[], valueTitle: string): TopL
       },
       {
         mark: { type: "point", filled: true, size: 70, color: PALETTE.ink, opacity: 1 },
-        encoding: { y, x },
+        encoding: { y, x, description },
       },
       {
         mark: { type: "text", dy: -11, fontSize: 10, color: PALETTE.ink },
-        encoding: { y, x, text: { field: "label" } },
+        encoding: { y, x, text: { field: "label" }, description },
       },
     ],
     config: config(),
@@ -103,24 +135,40 @@ export interface RunPoint {
   value: number;
 }
 
-/** Each run's value as a dot on its scenario's row, with the scenario mean as a bar. */
+/**
+ * Each run's value as a dot on its scenario's row, with the scenario mean (the plain mean of the
+ * values drawn, compensated sum) as a bar. The means are computed here rather than by vega, whose
+ * aggregate groups by a plain object.
+ */
 export function runsChart(points: RunPoint[], scenarios: string[], valueTitle: string): TopLevelSpec {
-  const y = { field: "scenario", type: "nominal", scale: { domain: scenarios }, title: null } as const;
+  const y = { field: "scenario_key", type: "nominal", scale: { domain: scenarios.map(nameKey) }, title: null, axis: { labelExpr: NAME_LABEL } } as const;
+  const byScenario = new Map<string, number[]>();
+  for (const p of points) {
+    const list = byScenario.get(p.scenario);
+    if (list === undefined) byScenario.set(p.scenario, [p.value]);
+    else list.push(p.value);
+  }
+  const means = [...byScenario].map(([scenario, values]) => {
+    const mean = fsum(values) / values.length;
+    return { scenario, scenario_key: nameKey(scenario), mean, about: `${scenario}: mean of the runs ${mean}` };
+  });
   return {
     $schema: SCHEMA,
     width: WIDTH,
     height: { step: 30 },
-    data: { values: points },
     layer: [
       {
+        data: { values: means },
         mark: { type: "tick", thickness: 2, size: 20, color: PALETTE.kiln },
-        encoding: { y, x: { aggregate: "mean", field: "value", type: "quantitative", title: valueTitle } },
+        encoding: { y, x: { field: "mean", type: "quantitative", title: axisTitle(valueTitle) }, description: { field: "about" } },
       },
       {
+        data: { values: points.map((p) => ({ ...p, scenario_key: nameKey(p.scenario), about: `${p.scenario}, run ${p.run}: ${p.value}` })) },
         mark: { type: "point", filled: true, size: 48, color: PALETTE.tide, opacity: 0.75 },
         encoding: {
           y,
-          x: { field: "value", type: "quantitative", title: valueTitle, scale: { zero: false } },
+          x: { field: "value", type: "quantitative", title: axisTitle(valueTitle), scale: { zero: false } },
+          description: { field: "about" },
         },
       },
     ],
@@ -235,14 +283,14 @@ export function traceChart(args: TraceChartArgs): TopLevelSpec {
   const series = [args.levelLabel, ...(capacity !== null ? [args.capacityLabel] : []), args.averageLabel];
   const colorScale = { domain: series, range: [PALETTE.ink, ...(capacity !== null ? [PALETTE.tide] : []), PALETTE.kiln] };
   const color = { field: "series", type: "nominal", scale: colorScale, legend: { title: null } } as const;
-  const xTime = { field: "time", type: "quantitative", title: args.timeTitle, scale: { domain: [args.start, args.to], nice: false, zero: false } } as const;
+  const xTime = { field: "time", type: "quantitative", title: axisTitle(args.timeTitle), scale: { domain: [args.start, args.to], nice: false, zero: false } } as const;
   const lows = [level.min, ...(capacity !== null ? [capacity.min] : [])];
   const highs = [level.max, ...(capacity !== null ? [capacity.max] : [])];
   const yLow = Math.min(0, ...lows);
   let yHigh = Math.max(0, ...highs);
   if (yHigh === yLow) yHigh = yLow + 1;
   const yScale = { domain: [yLow, yHigh] };
-  const yValue = { field: "value", type: "quantitative", title: args.valueTitle, scale: yScale } as const;
+  const yValue = { field: "value", type: "quantitative", title: axisTitle(args.valueTitle), scale: yScale } as const;
   const layer: object[] = [];
   if (args.from > args.start) {
     const w = { start: args.start, end: args.from, label: args.warmupLabel };
@@ -287,7 +335,7 @@ export function traceChart(args: TraceChartArgs): TopLevelSpec {
         data: { values: slices },
         // A stroke as wide as a pixel keeps a band one slice wide (a spike of an instant) visible at its height.
         mark: { type: "rect", color: name === "level" ? PALETTE.ochre : PALETTE.tide, opacity: name === "level" ? 0.8 : 0.3, stroke: name === "level" ? PALETTE.ochre : PALETTE.tide, strokeWidth: 0.8 },
-        encoding: { x: { field: "start", type: "quantitative", title: args.timeTitle, scale: xTime.scale }, x2: { field: "end" }, y: { field: "low", type: "quantitative", title: args.valueTitle, scale: yScale }, y2: { field: "high" } },
+        encoding: { x: { field: "start", type: "quantitative", title: axisTitle(args.timeTitle), scale: xTime.scale }, x2: { field: "end" }, y: { field: "low", type: "quantitative", title: axisTitle(args.valueTitle), scale: yScale }, y2: { field: "high" } },
       });
       const means = line.slices.map((s) => ({ time: s.from, value: s.mean, series: label }));
       const lastSlice = line.slices[line.slices.length - 1];
@@ -311,7 +359,7 @@ export function traceChart(args: TraceChartArgs): TopLevelSpec {
         x: xTime,
         y: args.averageTitle === null
           ? { field: "mean", type: "quantitative", scale: yScale }
-          : { field: "mean", type: "quantitative", title: args.averageTitle, scale: { domain: [0, Math.max(1, ...running.map((p) => p.mean))] }, axis: { orient: "right" } },
+          : { field: "mean", type: "quantitative", title: axisTitle(args.averageTitle), scale: { domain: [0, Math.max(1, ...running.map((p) => p.mean))] }, axis: { orient: "right" } },
         color,
       },
     };
@@ -335,19 +383,20 @@ export function evenSample(values: number[], max: number = MAX_HISTOGRAM_VALUES)
 }
 
 /**
- * One facet row per scenario, in the study's order, labelled above the row. The order comes from
- * a `scenario_order` field (see `withOrder`), never from a list of names: vega looks a sort list
- * up in a plain object, so a scenario called "constructor" or "toString" would break the chart.
- * (For the same reason the y scales take the names as their domain, which vega handles safely.)
+ * One facet row per scenario, in the study's order, labelled above the row with its name. The
+ * facet is by the scenario's key (`nameKey`) and the order comes from a `scenario_order` field
+ * (see `withOrder`), never from a list of names: vega looks facets and sort lists up in plain
+ * objects, where a scenario called "__proto__" or "constructor" would break the chart.
  */
 function scenarioRows() {
-  return { row: { field: "scenario", type: "nominal" as const, sort: { field: "scenario_order", op: "min" as const }, title: null, header: { labelAngle: 0, labelAlign: "left" as const, labelAnchor: "start" as const, labelOrient: "top" as const } } };
+  const header = { labelAngle: 0, labelAlign: "left" as const, labelAnchor: "start" as const, labelOrient: "top" as const, labelExpr: NAME_LABEL };
+  return { row: { field: "scenario_key", type: "nominal" as const, sort: { field: "scenario_order", op: "min" as const }, title: null, header } };
 }
 
-/** Rows with their scenario's position in the study, for `scenarioRows`. */
-function withOrder<R extends { scenario: string }>(rows: R[], scenarios: string[]): (R & { scenario_order: number })[] {
+/** Rows with their scenario's key and position in the study, for `scenarioRows`. */
+function withOrder<R extends { scenario: string }>(rows: R[], scenarios: string[]): (R & { scenario_key: string; scenario_order: number })[] {
   const position = new Map(scenarios.map((name, i) => [name, i]));
-  return rows.map((r) => ({ ...r, scenario_order: position.get(r.scenario) ?? scenarios.length }));
+  return rows.map((r) => ({ ...r, scenario_key: nameKey(r.scenario), scenario_order: position.get(r.scenario) ?? scenarios.length }));
 }
 
 /** A chart drawn once per scenario, one row each, in the study's order. */
@@ -367,8 +416,8 @@ export function histogramChart(
     height: 80,
     mark: { type: "bar", color: PALETTE.tide, opacity: 0.85, binSpacing: 1 },
     encoding: {
-      x: { field: "value", type: "quantitative", bin: { maxbins: 30 }, title: valueTitle },
-      y: { aggregate: "count", type: "quantitative", title: countTitle },
+      x: { field: "value", type: "quantitative", bin: { maxbins: 30 }, title: axisTitle(valueTitle) },
+      y: { aggregate: "count", type: "quantitative", title: axisTitle(countTitle) },
     },
   });
 }
@@ -433,8 +482,8 @@ export function welchChart(args: {
     scale: { domain: [args.sliceLabel, args.smoothLabel], range: [PALETTE.tide, PALETTE.kiln] },
     legend: { title: null },
   } as const;
-  const x = { field: "time", type: "quantitative", title: args.timeTitle, scale: { nice: false } } as const;
-  const y = { field: "mean", type: "quantitative", title: args.valueTitle } as const;
+  const x = { field: "time", type: "quantitative", title: axisTitle(args.timeTitle), scale: { nice: false } } as const;
+  const y = { field: "mean", type: "quantitative", title: axisTitle(args.valueTitle) } as const;
   const layer: object[] = [
     {
       data: { values: pick(args.slices).map((p) => ({ time: p.time, mean: p.mean, series: args.sliceLabel })) },
@@ -491,12 +540,13 @@ export function ecdfChart(args: {
   const colors = [PALETTE.tide, PALETTE.kiln, PALETTE.ink, PALETTE.ochre, PALETTE.muted];
   const layer: object[] = [
     {
-      data: { values: args.rows },
+      data: { values: args.rows.map((r) => ({ ...r, scenario_key: nameKey(r.scenario), about: `${r.scenario}: empirical distribution` })) },
       mark: { type: "line", interpolate: "step-after", strokeWidth: 1.8 },
       encoding: {
-        x: { field: "value", type: "quantitative", title: args.valueTitle },
-        y: { field: "share", type: "quantitative", title: args.shareTitle, scale: { domain: [0, 1] }, axis: { format: ".0%" } },
-        color: { field: "scenario", type: "nominal", scale: { domain: args.scenarios, range: colors }, legend: { title: null } },
+        x: { field: "value", type: "quantitative", title: axisTitle(args.valueTitle) },
+        y: { field: "share", type: "quantitative", title: axisTitle(args.shareTitle), scale: { domain: [0, 1] }, axis: { format: ".0%" } },
+        color: { field: "scenario_key", type: "nominal", scale: { domain: args.scenarios.map(nameKey), range: colors }, legend: { title: null, labelExpr: NAME_LABEL } },
+        description: { field: "about" },
       },
     },
   ];
@@ -527,8 +577,8 @@ export function timeAtValueChart(
     height: 90,
     mark: { type: "bar", color: PALETTE.ochre, opacity: 0.9 },
     encoding: {
-      x: { field: "value", type: "ordinal", sort: "ascending", title: valueTitle, axis: { labelAngle: 0, labelOverlap: "parity" } },
-      y: { field: "share", type: "quantitative", title: shareTitle, axis: { format: ".0%" } },
+      x: { field: "value", type: "ordinal", sort: "ascending", title: axisTitle(valueTitle), axis: { labelAngle: 0, labelOverlap: "parity" } },
+      y: { field: "share", type: "quantitative", title: axisTitle(shareTitle), axis: { format: ".0%" } },
     },
   });
 }

@@ -25,7 +25,8 @@ export const LITTLE_TOLERANCE = 1e-9;
  *
  * - Little's law (Little 1961) as a sample-path identity: when an entity level (enter A, leave B)
  *   and an entity duration (start A, end B) follow the same events and the system is empty at the
- *   window's start and end, area = sum of durations, so L = (n / T) · W exactly.
+ *   window's start and end, area = sum of durations, so L = (n / T) · W exactly. L counts the
+ *   entities inside: the level less its `initial`.
  * - Conservation: level at c + entered − left = inside at the end.
  * - Utilization within [0, 1].
  * - Entity levels never negative.
@@ -63,7 +64,9 @@ export function runChecks(scenario: Scenario, a: Pick<RunAnalysis, "result" | "o
       const obs = a.result.measures[om.name] as Record<string, number | null>;
       const n = obs.n as number;
       const T = st.duration;
-      const L = st.mean;
+      // L is the time-average number inside: the level less its `initial` (a level that starts at
+      // 3 with nobody inside has L = 0, not 3). Older run summaries lack insideArea.
+      const L = (out.insideArea ?? st.area - lm.initial * T) / T;
       const W = obs.mean ?? 0;
       const lambdaW = (n / T) * W;
       const applies = insideAtStart === 0 && st.inside_at_end === 0;
@@ -74,7 +77,7 @@ export function runChecks(scenario: Scenario, a: Pick<RunAnalysis, "result" | "o
         measure: `${lm.name} / ${om.name}`,
         passed: !applies || diff <= LITTLE_TOLERANCE,
         message: applies
-          ? `L = ${L}; λ·W = (${n} / ${T}) · ${W} = ${lambdaW}; relative difference ${diff}`
+          ? `L = ${L}${lm.initial !== 0 ? ` (time-average number inside: the level less its initial ${lm.initial})` : ""}; λ·W = (${n} / ${T}) · ${W} = ${lambdaW}; relative difference ${diff}`
           : `not an identity here (${insideAtStart} inside at the start, ${st.inside_at_end} at the end): L = ${L}, λ·W = ${lambdaW}`,
         applies,
         L,

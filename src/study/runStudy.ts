@@ -3,6 +3,7 @@ import { batchMeansInterval, observationBatches } from "../stats/batchMeans.js";
 import type { Scenario, Study } from "../manifest/types.js";
 import type { MeasureOutput } from "../measures/accumulator.js";
 import { type RunAnalysis, type RunPlan, runTableFiles } from "./analyzeRun.js";
+import { checkSeriesPresent } from "./absentSeries.js";
 import { compareScenarios } from "./compare.js";
 import { type Check, runChecks } from "./consistency.js";
 import type { InputRecord, LevelTrace, Results, RunResult, ScenarioResult, StudyOutcome, TableRecord, Warning } from "./outcome.js";
@@ -13,6 +14,7 @@ import { type ResolvedWarmup, resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
 import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
 import * as summaryMessages from "../messages/summary.js";
+import { runsWithoutValue } from "../messages/warnings.js";
 
 export interface StudyRun {
   outcome: StudyOutcome;
@@ -176,6 +178,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     if (warmup.estimate !== null) sc.warmup_estimate = warmup.estimate;
     if (scenario.analysis.type === "batch-means") sc.analysis = { method: "batch-means", batches: scenario.analysis.batches };
 
+    outcome.warnings.push(...checkSeriesPresent(study, scenario, runs.map((r) => r.input)));
     for (const r of runs) {
       outcome.inputs.push(r.input);
       outcome.warnings.push(...r.warnings);
@@ -185,6 +188,10 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     for (const m of scenario.measures) {
       const s = summarizeMeasure(scenario.name, m, sc.runs, study.confidence);
       sc.summary[m.name] = s.summary;
+      const without = s.summary.runs_without_value as string[] | undefined;
+      if (without !== undefined) {
+        outcome.warnings.push({ scenario: scenario.name, run: null, measure: m.name, message: runsWithoutValue(without, s.summary.n, sc.runs.length) });
+      }
       for (const iv of s.intervals) {
         outcome.intervals.push(iv);
         const f = tableFile({ scenario: scenario.name, run: null, measure: m.name, kind: "interval" }, intervalTablePath(scenario.name, m.name, iv.figure), intervalTable(iv));
@@ -202,7 +209,22 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
 
   const comparisons = compareScenarios(study, outcome.results);
   if (comparisons.length > 0) outcome.results.comparisons = comparisons;
+  assertDistinctFiles(outcome.tables);
   return { outcome };
+}
+
+/**
+ * Two tables at one file name (also compared without case) would overwrite each other. The
+ * names of `tables.ts` are made so that this cannot happen; this is the check that it did not.
+ */
+function assertDistinctFiles(tables: TableRecord[]): void {
+  const seen = new Map<string, string>();
+  for (const record of tables) {
+    const key = record.file.toLowerCase();
+    const before = seen.get(key);
+    if (before !== undefined) throw new Error(`two calculation tables would share one file: ${before} and ${record.file}`);
+    seen.set(key, record.file);
+  }
 }
 
 function readIfThere(path: string): string | null {

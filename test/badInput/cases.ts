@@ -17,6 +17,7 @@ import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
+import * as warnings from "../../src/messages/warnings.js";
 
 export interface BadInputCase {
   /** Anchor of the entry in docs/bad-input.md. */
@@ -99,7 +100,32 @@ const M_EXT = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*}");
 const M_MISSKEY = manifest("  - {name: queue, series: queue}\n");
 const M_KIND = manifest("  - {name: queue, kind: levle, series: queue}\n");
 const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue}\n");
+const M_OVER = manifest("  - {name: oven, kind: utilization, series: busy, capacity: ovens}\n");
+const M_CLOCK = manifest(QUEUE, "{name: morning, start: 1000000000, end: 1000000000.01, runs: runs/*.csv}");
+const M_ABSENT = manifest(QUEUE + "  - {name: served, kind: count, series: sevred}\n");
 const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
+
+// --- manifests for the encoding, nesting, alias and bounds cases --------------------------------
+const M_LATIN1 = manifest(QUEUE, "{name: café, end: 10, runs: runs/*.csv}");
+const M_DEEP = `title: ${"[".repeat(70)}${"]".repeat(70)}\n` + manifest(QUEUE).replace("title: Bakery counter\n", "");
+const M_BOMB = [
+  "a: &a [loaf, loaf, loaf, loaf, loaf, loaf, loaf, loaf, loaf, loaf]",
+  "b: &b [*a, *a, *a, *a, *a, *a, *a, *a, *a, *a]",
+  "c: &c [*b, *b, *b, *b, *b, *b, *b, *b, *b, *b]",
+  "d: &d [*c, *c, *c, *c, *c, *c, *c, *c, *c, *c]",
+  "e: &e [*d, *d, *d, *d, *d, *d, *d, *d, *d, *d]",
+  "f: &f [*e, *e, *e, *e, *e, *e, *e, *e, *e, *e]",
+  "g: &g [*f, *f, *f, *f, *f, *f, *f, *f, *f, *f]",
+  "",
+].join("\n") + manifest(QUEUE);
+const M_NOANCHOR = manifest(QUEUE, "{name: morning, end: *closing, runs: runs/*.csv}");
+const M_SELFALIAS = manifest(QUEUE, "{name: morning, end: 10, runs: &days [runs/day-1.csv, *days]}");
+const M_LISTKEY = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, [a, b]: 1}");
+const M_TWICE = manifest("  - {name: wait, kind: observation, series: wait, quantiles: [0.5, 0.9, 0.5]}\n");
+const M_EDGE = manifest(QUEUE, undefined, "tables: {max_rows: 1000, edge_rows: 500}\n");
+const M_SLICES = manifest(QUEUE, "{name: morning, end: 600, runs: runs/*.csv}", "warmup: {method: mser-5, measure: queue, slice: 0.001}\n");
+const M_QUANTILES = manifest(`  - {name: wait, kind: observation, series: wait, quantiles: [${Array.from({ length: 101 }, (_, i) => i / 100).join(", ")}]}\n`);
+const M_BATCHES = manifest(QUEUE, undefined, "analysis: {method: batch-means, batches: 50000}\n");
 
 function gzipCut(text: string): Buffer {
   const z = gzipSync(Buffer.from(text));
@@ -421,6 +447,30 @@ export const CASES: BadInputCase[] = [
     place: "runs/day-1.csv:3",
   },
   {
+    id: "series-in-no-run",
+    title: "A measure's series that appears in no run",
+    what: "A measure reads a series that has no row in any run of a scenario: almost always a misspelt name, which would otherwise give a confident 0. A series of a rare event that may truly never happen says `may_be_absent: true` (see docs/manifest.md).",
+    files: { [STUDY]: M_ABSENT, "runs/day-1.csv": "time,series,value\n0,queue,2\n3,served,\n5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,queue,1\n4,served,\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.seriesInNoRun(at(M_ABSENT, "sevred", "measures[1].series"), "served", "sevred", "morning", 2, "served", ["queue", "served"]),
+  },
+  {
+    id: "capacity-series-absent",
+    title: "A capacity series with no row in a run",
+    what: "A utilization's capacity series has no row in a run and `capacity_initial` is 0, so the capacity would be 0 throughout: usually the capacity series' name is misspelt.",
+    files: {
+      [STUDY]: manifest("  - {name: oven, kind: utilization, series: busy, capacity: open_oven}\n"),
+      "runs/day-1.csv": "time,series,value\n0,open_ovens,2\n1,busy,1\n",
+    },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.capacitySeriesAbsent("runs/day-1.csv", "oven", "open_oven", "open_ovens"),
+    place: "runs/day-1.csv",
+  },
+  {
     id: "capacity-area-zero",
     title: "A capacity series that is zero over the whole window",
     what: "Utilization divides by the capacity's area; a capacity series that stays 0 leaves nothing to divide by.",
@@ -458,17 +508,60 @@ export const CASES: BadInputCase[] = [
   },
   {
     id: "series-never-appears",
-    title: "A measure whose series never appears (a warning per run)",
-    what: "A measure reads a series no row of the run belongs to (often a misspelt name). Each run without it gets a warning; the level stays at its `initial` value.",
-    files: { [STUDY]: manifest("  - {name: queue, kind: level, series: queu}\n"), "runs/day-1.csv": GOOD_CSV, "runs/day-2.csv": GOOD_CSV },
-    show: [STUDY],
+    title: "A measure whose series is missing from some runs (a warning per run)",
+    what: "A measure reads a series that some runs have no row of. Each run without it gets a warning; in those runs the level stays at its `initial` value. (A series in no run at all is an error: see the entry \"A measure's series that appears in no run\".)",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,served,\n4,served,\n" },
+    show: [STUDY, "runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: ['1 warning(s):', 'morning / day-2 / queue: series "queue" never appears in runs/day-2.csv'],
+  },
+  {
+    id: "busy-above-capacity",
+    title: "A busy level above its capacity (a warning per run)",
+    what: "The capacity series drops below the busy level for a while. The ratio of areas (here 20/34) stays below 1 and would hide it; the warning names the first interval, the line that started it and the total time.",
+    files: { [STUDY]: M_OVER, "runs/day-1.csv": "time,series,value\n0,busy,2\n0,ovens,4\n6,ovens,1\n8,ovens,4\n9.5,busy,2\n" },
+    show: [STUDY, "runs/day-1.csv"],
     args: check,
     status: 0,
     contains: [
-      '2 warning(s):',
-      'morning / day-1 / queue: series "queu" never appears in runs/day-1.csv',
-      'morning / day-2 / queue: series "queu" never appears in runs/day-2.csv',
+      "1 warning(s):",
+      `morning / day-1 / oven: ${warnings.busyAboveCapacity("oven", "runs/day-1.csv", { intervals: 1, time: 2, from: 6, to: 8, busy: 2, capacity: 1, line: 4, series: "ovens" }, 20 / 34)}`,
     ],
+  },
+  {
+    id: "durations-few-digits",
+    title: "Clock values so large that durations lose digits (a warning per run)",
+    what: "Times near 1e9 with steps of a thousandth: a double holds 1e9 to about 1.2e-7, so a duration of 0.001 keeps about 4 significant digits. The warning says how many, from the spacing of doubles at the largest time and the shortest duration.",
+    files: { [STUDY]: M_CLOCK, "runs/day-1.csv": "time,series,value\n1000000000,queue,2\n1000000000.001,queue,3\n1000000000.002,queue,1\n1000000000.01,queue,0\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 0,
+    contains: ["1 warning(s):", "morning / day-1: runs/day-1.csv: the run's times reach 1000000000.01, where one step of a double is 1.1920928955078125e-7", "durations keep only about 3.9 significant digits (fewer than 6)"],
+  },
+  {
+    id: "run-ends-early",
+    title: "A run whose rows stop long before the end (a warning on the run and its summary rows)",
+    what: "`day-2` has no row after time 4 in a window that ends at 10: more than a tenth of the window is empty, so the run may have stopped early or its file been cut short. The report says so on the scenario's summary rows too.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,queue,2\n4,queue,0\n" },
+    show: ["runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: ["1 warning(s):", `morning / day-2: ${warnings.runEndsEarly("runs/day-2.csv", 4, 10, 0, 0.1)}`],
+  },
+  {
+    id: "runs-without-value",
+    title: "A run left out of a summary (a warning on the summary row)",
+    what: "`day-2` has no `wait` observation inside its window, so the interval of `wait` is over 1 of 2 runs; the warning (and the summary row of the report) names the run.",
+    files: {
+      [STUDY]: manifest("  - {name: wait, kind: observation, series: wait}\n"),
+      "runs/day-1.csv": "time,series,value\n2,wait,1.5\n9.5,wait,2\n",
+      "runs/day-2.csv": "time,series,value\n9.5,tick,\n12,wait,3\n",
+    },
+    show: ["runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: [`morning / wait: ${warnings.runsWithoutValue(["day-2"], 1, 2)}`],
   },
   // --- the manifest -------------------------------------------------------------------------
   {
@@ -636,6 +729,131 @@ export const CASES: BadInputCase[] = [
     status: 1,
     startsWith: () => "study.yaml:4:",
     contains: ['there is no measure named "queeu"', 'Did you mean "queue"?'],
+  },
+  // --- manifest: encoding, nesting, aliases and bounds ---------------------------------------
+  {
+    id: "manifest-not-utf8",
+    title: "A manifest that is not UTF-8",
+    what: "The manifest was saved in Latin-1 (Windows-1252), where `é` is the single byte `0xE9`; Sojourn reads manifests as UTF-8 and names the line, column and byte offset of the first byte that is not UTF-8.",
+    files: { [STUDY]: Buffer.from(M_LATIN1, "latin1"), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestNotUtf8({ file: STUDY, ...positionOf(M_LATIN1, "é") }, 0xe9, Buffer.from(M_LATIN1, "latin1").indexOf(0xe9)),
+  },
+  {
+    id: "manifest-utf16",
+    title: "A manifest saved as UTF-16",
+    what: "Some editors save text as UTF-16 with a byte-order mark; Sojourn reads manifests as UTF-8.",
+    files: { [STUDY]: Buffer.concat([Buffer.from([0xff, 0xfe]), Buffer.from(manifest(QUEUE), "utf16le")]), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestWideEncoding(STUDY, "UTF-16"),
+    place: STUDY,
+  },
+  {
+    id: "manifest-too-deep",
+    title: "Lists nested deeper than 64 levels",
+    what: "A manifest needs fewer than 10 levels of nesting; more than 64 is a typing slip or a hostile file, stopped before it can exhaust the reader.",
+    files: { [STUDY]: M_DEEP, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestTooDeep({ file: STUDY, line: 1, column: 8 + 63 }, 64),
+  },
+  {
+    id: "manifest-alias-bomb",
+    title: "Aliases that expand without end",
+    what: "Each list repeats the one before ten times (a \"billion laughs\" file): seven short lines stand for ten million values. Sojourn counts the values as the aliases would write them out and stops at a million.",
+    files: { [STUDY]: M_BOMB, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    // Counted by hand: the list a holds 11 values, b 111, ..., e 111111; with the root and the keys
+    // 134463 values come before f's first alias, and the 8th *e, f[7], passes a million; "f: &f [" is
+    // 7 characters and each "*e, " 4.
+    startsWith: () => `study.yaml:6:${positionOf(M_BOMB, "f: ").column + 7 + 4 * 7} (at f[7]): with its aliases (*name) written out, the manifest would hold more than 1,000,000 values`,
+  },
+  {
+    id: "alias-without-anchor",
+    title: "An alias with no anchor",
+    what: "`*closing` repeats the value marked `&closing`, but nothing is marked so before it.",
+    files: { [STUDY]: M_NOANCHOR, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.aliasWithoutAnchor(at(M_NOANCHOR, "*closing", "scenarios[0].end"), "closing"),
+  },
+  {
+    id: "alias-inside-itself",
+    title: "An alias inside the value it repeats",
+    what: "The list marked `&days` contains `*days`, so it would contain itself without end.",
+    files: { [STUDY]: M_SELFALIAS, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.aliasInsideItself(at(M_SELFALIAS, "*days", "scenarios[0].runs[1]"), "days"),
+  },
+  {
+    id: "key-not-text",
+    title: "A list used as a key",
+    what: "YAML allows a list as a mapping key; a manifest's keys are names.",
+    files: { [STUDY]: M_LISTKEY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.keyNotText(at(M_LISTKEY, "[a, b]", "scenarios[0]"), "a list"),
+  },
+  {
+    id: "listed-twice",
+    title: "A quantile listed twice",
+    what: "Each number in `quantiles`, `within` or `at_least` names a figure, an interval and a calculation table of its own, so a number may be listed once.",
+    files: { [STUDY]: M_TWICE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.listedTwice(at(M_TWICE, "0.5]", "measures[0].quantiles[2]"), "quantiles", 0.5, 0),
+  },
+  {
+    id: "too-many-quantiles",
+    title: "More than 100 quantiles",
+    what: "`quantiles`, `within` and `at_least` take at most 100 numbers each.",
+    files: { [STUDY]: M_QUANTILES, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    startsWith: () => `study.yaml:${positionOf(M_QUANTILES, "[0,").line}:${positionOf(M_QUANTILES, "[0,").column} (at measures[0].quantiles): this list has 101 items, and it must have at most 100 items`,
+  },
+  {
+    id: "too-many-batches",
+    title: "More than 10000 batches",
+    what: "Batch means takes from 2 to 10000 batches per run (20 to 30 is common).",
+    files: { [STUDY]: M_BATCHES, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => `study.yaml:${positionOf(M_BATCHES, "50000").line}:${positionOf(M_BATCHES, "50000").column} (at analysis.batches): 50000 is out of range: it must be at most 10000`,
+  },
+  {
+    id: "edge-rows-too-many",
+    title: "edge_rows that leave no room in max_rows",
+    what: "A shortened table keeps `edge_rows` rows at each end and checkpoints in between, so `2 × edge_rows` must be less than `max_rows`.",
+    files: { [STUDY]: M_EDGE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.edgeRowsTooMany(at(M_EDGE, "500}", "tables.edge_rows"), 500, 1000),
+  },
+  {
+    id: "too-many-slices",
+    title: "An MSER-5 slice far too short for the run",
+    what: "A slice of 0.001 cuts a window of 600 into 600,000 slices; Sojourn keeps at most 100,000 per run, and says the shortest slice that fits.",
+    files: { [STUDY]: M_SLICES, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.tooManySlices(at(M_SLICES, "0.001", "warmup.slice"), "morning", "day-1", 0.001, 0, 600, 600000, 100000),
   },
   // --- output and PDF -----------------------------------------------------------------------
   {

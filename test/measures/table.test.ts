@@ -59,4 +59,21 @@ describe("TableBuilder", () => {
     expect(csvCell(null)).toBe("");
     expect(tableToCsv({ columns: ["a"], rows: [[1]], rowsTotal: 1, shortened: false })).toBe("a\n1\n");
   });
+
+  it("csvCell writes text a spreadsheet would take for a formula with a leading apostrophe, and numbers as they are (common practice against CSV injection)", () => {
+    for (const text of ["=1+2", "+cmd", "-2+3", "@SUM(A1)", "=HYPERLINK(\"x\")"]) {
+      const cell = csvCell(text);
+      // read back as RFC 4180 does: unquote, then the first character must be the apostrophe
+      const read = cell.startsWith('"') ? cell.slice(1, -1).replace(/""/g, '"') : cell;
+      expect(read, text).toBe(`'${text}`);
+    }
+    expect(csvCell("\tx")).toBe("'\tx");
+    expect(csvCell("\rx")).toBe("\"'\rx\""); // a carriage return also needs quotes (RFC 4180)
+    expect(csvCell("-")).toBe("'-");
+    expect(csvCell("a=b")).toBe("a=b"); // only the first character counts
+    expect(csvCell("rep-01")).toBe("rep-01");
+    expect(csvCell(-2.5)).toBe("-2.5");
+    expect(csvCell(-1e-300)).toBe("-1e-300");
+    expect(tableToCsv({ columns: ["entity", "value"], rows: [["-7", -7], ["@x", 1]], rowsTotal: 2, shortened: false })).toBe("entity,value\n'-7,-7\n'@x,1\n");
+  });
 });
