@@ -104,6 +104,11 @@ describe(`sojourn report on ${RUNS} small runs`, () => {
     const shown = new Set([...page.matchAll(/<h4>[^<]* — small — run (rep-\d+)/g)].map((m) => m[1]));
     expect([...shown].sort()).toEqual(Array.from({ length: PREVIEW_RUNS }, (_, i) => `rep-${String(i + 1).padStart(4, "0")}`));
     expect(page).toContain('id="tables-elsewhere"');
+    // Every link in the page leads to an element of the page (a later run's value to the note).
+    const ids = new Set([...page.matchAll(/\sid="([^"]+)"/g)].map((m) => m[1]));
+    const targets = new Set([...page.matchAll(/href="#([^"]+)"/g)].map((m) => m[1]));
+    expect([...targets].filter((t) => !ids.has(t))).toEqual([]);
+    expect(targets.has("tables-elsewhere")).toBe(true);
     // Every table is still a file, listed in the record.
     const record = JSON.parse(readFileSync(join(dir, "one", "record.json"), "utf8"));
     const tables = (record.outputs as { file: string }[]).filter((o) => o.file.startsWith("tables/small/runs/"));
