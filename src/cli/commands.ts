@@ -95,7 +95,7 @@ export async function summarizeRun(manifest: string, o: { scenario: string; run:
   say(`wrote ${o.out}: run ${o.run} of scenario ${o.scenario}, ${analysis.input.rows} rows, input sha256 ${analysis.input.sha256}`);
 }
 
-export async function verify(dir: string, o: { inputs?: string }): Promise<void> {
+export async function verify(dir: string, o: { inputs?: string; root?: string }): Promise<void> {
   const { verifyReport } = await import("../record/verify.js");
   const v = await verifyReport(dir, o);
   for (const l of v.lines) say(`${l.ok ? "ok      " : "FAILED  "}${l.item}: ${l.detail}`);

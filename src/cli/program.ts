@@ -89,6 +89,7 @@ export function program(): Command {
     .description("re-derive a report folder from its study record and check every digest and number")
     .argument("<dir>", "a report folder written by `sojourn report`")
     .option("--inputs <path>", "the folder the manifest's run paths are relative to, when the inputs moved")
+    .option("--root <path>", "the folder verify may read run files from (default: --inputs, else the folder that holds <dir>)")
     .action(commands.verify);
 
   p.command("demo")

@@ -1,7 +1,7 @@
 import type { Study } from "../manifest/types.js";
 import { runStudy } from "../study/runStudy.js";
 import { sha256 } from "../digest.js";
-import { makeRecord, type StudyRecord } from "./record.js";
+import { makeRecord, recordJson, type StudyRecord } from "./record.js";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { StagedDir } from "./outputDir.js";
@@ -42,6 +42,15 @@ export function resultsJson(outcome: StudyOutcome): string {
   return JSON.stringify(outcome.results, null, 2) + "\n";
 }
 
+/**
+ * report.html's exact bytes: a pure function of the study, its outcome, the tool's version and
+ * the report's date, so that `verify` can make the page again from the record.
+ */
+export async function reportHtml(study: Study, outcome: StudyOutcome, meta: { toolVersion: string; generatedAt: string }): Promise<string> {
+  const [{ buildReportModel }, { renderHtml }] = await Promise.all([import("../report/model.js"), import("../report/html.js")]);
+  return renderHtml(buildReportModel(study, outcome, meta));
+}
+
 export function reportDate(): string {
   const epoch = process.env.SOURCE_DATE_EPOCH;
   if (epoch !== undefined && /^\d+$/.test(epoch)) return new Date(Number(epoch) * 1000).toISOString();
@@ -51,7 +60,8 @@ export function reportDate(): string {
 /**
  * Computes a study and writes its report folder atomically:
  *
- *   runStudy ──▶ results.json, tables/*.csv ──▶ report.html ──▶ record.json ──▶ commit ──▶ report.pdf
+ *   runStudy (tables/*.csv written as each run ends) ──▶ results.json ──▶ report.html ──▶ record.json
+ *     ──▶ commit ──▶ report.pdf ──▶ record.json again, with the PDF's digest
  *
  * The PDF comes last, after the folder is in place, so that a missing browser still leaves a
  * complete HTML report (and the command then fails with a message on how to get one).
@@ -62,27 +72,33 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
   const staged = new StagedDir(options.out, { force: options.force, inputs: studyInputs(study, options.fromSummaries), fs });
   let record: StudyRecord;
   try {
-    const computed = runStudy(study, { onProgress: progress, workers: options.workers, fromSummaries: options.fromSummaries });
+    // Each run's calculation tables go to disk as soon as the run is analysed (memory stays flat).
+    const computed = runStudy(study, {
+      onProgress: progress,
+      workers: options.workers,
+      fromSummaries: options.fromSummaries,
+      writeTable: (file, csv) => staged.write(file, csv),
+    });
     // The report's modules (templates, chart renderer) and the t quantile load while the runs are read.
     const reportModules = Promise.all([import("../report/model.js"), import("../report/html.js")]);
     setImmediate(loadTQuantile);
-    const { outcome, tableFiles } = await computed;
+    const { outcome } = await computed;
     mark("runs analysed");
-    const [{ buildReportModel }, { renderHtml }] = await reportModules;
+    await reportModules;
     const outputs: StudyRecord["outputs"] = [];
     const put = (file: string, data: string) => {
       staged.write(file, data);
       outputs.push({ file, sha256: sha256(data) });
     };
     put("results.json", resultsJson(outcome));
-    for (const f of tableFiles) put(f.record.file, f.csv);
-    progress(`wrote ${tableFiles.length} calculation tables`);
+    for (const t of outcome.tables) outputs.push({ file: t.file, sha256: t.sha256 });
+    progress(`wrote ${outcome.tables.length} calculation tables`);
     mark("results and tables written");
-    const model = buildReportModel(study, outcome, { toolVersion: toolVersion().version, generatedAt: options.generatedAt ?? reportDate() });
-    put("report.html", await renderHtml(model));
+    const page = { toolVersion: toolVersion().version, generatedAt: options.generatedAt ?? reportDate() };
+    put("report.html", await reportHtml(study, outcome, page));
     mark("report.html written");
     progress("wrote report.html");
-    record = makeRecord(study, staged.final, outcome.inputs, outputs);
+    record = makeRecord(study, staged.final, outcome.inputs, outputs, page.generatedAt);
     staged.write("record.json", recordJson(record));
     staged.commit();
     mark("report folder in place");
@@ -92,10 +108,6 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
     staged.abandon();
     throw e;
   }
-}
-
-function recordJson(record: StudyRecord): string {
-  return JSON.stringify(record, null, 2) + "\n";
 }
 
 /**
@@ -119,7 +131,7 @@ async function addPdf(staged: StagedDir, study: Study, record: StudyRecord, opti
   const release = onInterrupt(clean, () => msg.pdfInterrupted(staged.shown).message);
   try {
     const r = await renderPdf(html, scratch, { chrome: options.chrome, paper: options.paper, title: study.title, onProgress: progress, fs });
-    record.pdf = { file: "report.pdf", sha256: sha256(readFileSync(scratch)) };
+    record.pdf = { file: "report.pdf", sha256: sha256(readFileSync(scratch)), pages: r.pages };
     fs.writeFile(scratchRecord, recordJson(record));
     fs.rename(scratchRecord, join(staged.final, "record.json"));
     fs.rename(scratch, join(staged.final, "report.pdf"));

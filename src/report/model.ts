@@ -39,11 +39,11 @@ import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
 import { runsEndEarlyOnRow, runsNeededWhy, runsWithoutValue, runWarningsOnRow } from "../messages/warnings.js";
 import { LATE_FRACTION } from "../study/runChecks.js";
-import { meanCorrectionMatters } from "../study/tables.js";
+import { meanCorrectionMatters, PREVIEW_HEAD, PREVIEW_RUNS, PREVIEW_TAIL } from "../study/tables.js";
 
-/** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS`. */
-export const TABLE_HEAD_ROWS = 20;
-export const TABLE_TAIL_ROWS = 10;
+/** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS` (the rows the study keeps as the table's preview). */
+export const TABLE_HEAD_ROWS = PREVIEW_HEAD;
+export const TABLE_TAIL_ROWS = PREVIEW_TAIL;
 /** The most rows the appendix shows per calculation table. */
 export const TABLE_ROW_CAP = TABLE_HEAD_ROWS + TABLE_TAIL_ROWS;
 
@@ -221,6 +221,8 @@ export interface ReportModel {
     inputsIntro: string;
     tablesIntro: string;
     tables: CalcTable[];
+    /** Where the tables not shown are (runs after the first `PREVIEW_RUNS` of a scenario); null when every table is shown. */
+    tablesElsewhere: { id: string; text: string } | null;
     intervals: IntervalView[];
     /** Consistency checks of the run data, one row per check and run; null when there are none. */
     checks: { intro: string; table: TableView } | null;
@@ -495,7 +497,8 @@ export function buildReportModel(
 
   // Anchors of calculation tables and interval derivations, assigned once.
   // Every table has its own anchor; a run value links to its measure's first (main) table.
-  const tableAnchors = outcome.tables.map((t, i) => anchor("table", i + 1, t.measure, t.scenario, t.run));
+  // A table the page does not show (no preview rows) links to the note that says where its file is.
+  const tableAnchors = outcome.tables.map((t, i) => (t.preview === null ? TABLES_ELSEWHERE : anchor("table", i + 1, t.measure, t.scenario, t.run)));
   const tableIds = new Map<string, string>();
   outcome.tables.forEach((t, i) => {
     const k = key(t.scenario, t.run, t.measure);
@@ -676,7 +679,8 @@ export function buildReportModel(
       sha256: r.sha256,
     };
   });
-  const tables: CalcTable[] = outcome.tables.map((t, i) => calcTable(t, tableAnchors[i]));
+  const tables: CalcTable[] = outcome.tables.flatMap((t, i) => (t.preview === null ? [] : [calcTable(t, t.preview, tableAnchors[i])]));
+  const tablesElsewhere = elsewhereNote(outcome.tables);
   const intervals: IntervalView[] = outcome.intervals.map((a, i) => {
     const kind = (() => { try { return measureOf(a.scenario, a.measure).kind; } catch { return "level" as const; } })();
     return intervalView(a, intervalIds.get(key(a.scenario, a.measure, a.figure)) ?? anchor("calc", i + 1), figureLabel(kind, a.figure), tbId);
@@ -738,6 +742,7 @@ export function buildReportModel(
       tablesIntro: `Each calculation table shows at most ${TABLE_ROW_CAP} rows here (the first ${TABLE_HEAD_ROWS} and the last ${TABLE_TAIL_ROWS}); ` +
         "the full table is the CSV file named under it, whose SHA-256 digest is given.",
       tables,
+      tablesElsewhere,
       intervals,
       checks,
       batchValues,
@@ -931,16 +936,41 @@ const TABLE_EXPLAIN: Record<string, { label: string; text: string }> = {
   },
 };
 
-function calcTable(t: TableRecord, id: string): CalcTable {
-  const preview = t.preview;
+/** The anchor of the note on the calculation tables that are files only. */
+const TABLES_ELSEWHERE = "tables-elsewhere";
+
+/** The note on the tables the page does not show: how many, of which runs, and where they are. */
+function elsewhereNote(tables: TableRecord[]): { id: string; text: string } | null {
+  const byScenario = new Map<string, { runs: string[]; tables: number }>();
+  for (const t of tables) {
+    if (t.preview !== null || t.run === null) continue;
+    const s = byScenario.get(t.scenario) ?? { runs: [], tables: 0 };
+    if (s.runs.at(-1) !== t.run) s.runs.push(t.run);
+    s.tables++;
+    byScenario.set(t.scenario, s);
+  }
+  if (byScenario.size === 0) return null;
+  const parts = [...byScenario].map(([scenario, s]) =>
+    `${q(scenario)}: ${fmt(s.tables)} tables of ${fmt(s.runs.length)} runs (${s.runs.length === 1 ? `run ${s.runs[0]}` : `runs ${s.runs[0]} to ${s.runs.at(-1)}`})`);
+  return {
+    id: TABLES_ELSEWHERE,
+    text: `This page shows the calculation tables of the first ${PREVIEW_RUNS} runs of each scenario. The tables of the later runs are files only, ` +
+      `tables/<scenario>/runs/<run>/<measure>.csv in the report folder, each listed with its SHA-256 digest in record.json: ${parts.join("; ")}. ` +
+      "`sojourn table` writes any of them in full.",
+  };
+}
+
+/** A calculation table as the appendix shows it, from its preview rows (head and tail of the written rows). */
+function calcTable(t: TableRecord, preview: NonNullable<TableRecord["preview"]>, id: string): CalcTable {
+  const written = t.rows_written;
   const show = preview.length <= TABLE_ROW_CAP ? preview : [...preview.slice(0, TABLE_HEAD_ROWS), ...preview.slice(-TABLE_TAIL_ROWS)];
   const cell = (v: number | string | null) => (typeof v === "number" ? fmt(v) : v === null ? MISSING : roundNumbersIn(v));
   const rows: CalcTable["rows"] = show.map((r) => ({ cells: r.map(cell), gap: null }));
   const numeric = t.columns.map((_, j) => show.every((r) => typeof r[j] !== "string" || NUMERIC.test(r[j] as string)));
-  const hiddenHere = preview.length - show.length;
+  const hiddenHere = written - show.length;
   const hiddenTotal = t.rows_total - show.length;
   if (hiddenTotal > 0) {
-    const at = preview.length <= TABLE_ROW_CAP ? Math.min(rows.length, Math.ceil(rows.length / 2)) : TABLE_HEAD_ROWS;
+    const at = written <= TABLE_ROW_CAP ? Math.min(rows.length, Math.ceil(rows.length / 2)) : TABLE_HEAD_ROWS;
     rows.splice(at, 0, { cells: null, gap: `… ${fmt(hiddenTotal)} rows not shown: see ${t.file} …` });
   }
   const parts = [`${fmt(t.rows_total)} rows in full; ${fmt(show.length)} shown here.`];

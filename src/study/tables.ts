@@ -77,6 +77,21 @@ export interface TableFile {
   csv: string;
 }
 
+/** Rows of a calculation table the report page shows: the first `PREVIEW_HEAD` and the last `PREVIEW_TAIL`. */
+export const PREVIEW_HEAD = 20;
+export const PREVIEW_TAIL = 10;
+
+/**
+ * Runs per scenario whose calculation tables the report page shows (their preview rows); the
+ * tables of later runs are files only. This bounds the page and the memory of a study of
+ * thousands of runs; `sojourn table` gives any table in full.
+ */
+export const PREVIEW_RUNS = 10;
+
+/** The rows of a table the page shows: all when few, else the head and the tail. */
+export function previewRows(rows: BuiltTable["rows"]): BuiltTable["rows"] {
+  return rows.length <= PREVIEW_HEAD + PREVIEW_TAIL ? rows : [...rows.slice(0, PREVIEW_HEAD), ...rows.slice(-PREVIEW_TAIL)];
+}
 
 /** A calculation table as a file: its CSV text, digest and index entry. */
 export function tableFile(
@@ -95,7 +110,7 @@ export function tableFile(
       rows_written: table.rows.length,
       shortened: table.shortened,
       sha256: sha256(csv),
-      preview: table.rows,
+      preview: previewRows(table.rows),
     },
   };
 }

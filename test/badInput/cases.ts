@@ -11,6 +11,7 @@
  * words.
  */
 import { spawnSync } from "node:child_process";
+import { createHash } from "node:crypto";
 import { appendFileSync, chmodSync, mkdirSync, realpathSync, symlinkSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -20,6 +21,8 @@ import { type Place, type UserError, ingestMessages, manifestMessages, reportMes
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
 import * as warnings from "../../src/messages/warnings.js";
+import * as summaryMessages from "../../src/messages/summary.js";
+import * as verifyMessages from "../../src/messages/verify.js";
 
 export interface BadInputCase {
   /** Anchor of the entry in docs/bad-input.md. */
@@ -157,6 +160,44 @@ function deepFolder(dir: string, length: number): string {
   mkdirSync(path, { recursive: true });
   return path;
 }
+// --- report folders and run summaries (verify, report --from-summaries) ----------------------------
+const sha = (text: string) => createHash("sha256").update(text).digest("hex");
+const M_PLAIN = manifest(QUEUE);
+/** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
+const RECORD_NO_OUTPUTS = JSON.stringify(
+  {
+    format: "sojourn-record/1",
+    tool: { name: "sojourn", version: "0.1.0" },
+    node: "v20.20.2",
+    manifest: { path: "../study.yaml", sha256: sha(M_PLAIN), text: M_PLAIN },
+    inputs: [],
+  },
+  null,
+  2,
+) + "\n";
+const RECORD_CUT = RECORD_NO_OUTPUTS.slice(0, 60);
+function notJson(text: string): string {
+  try {
+    JSON.parse(text);
+  } catch (e) {
+    return `it is not JSON (${(e as Error).message})`;
+  }
+  throw new Error("test setup: the text is JSON");
+}
+/** A summary with its own digest right but no analysis in it (src/study/runSummary.ts, encodeSummary). */
+const SUMMARY_EMPTY = (() => {
+  const body: Record<string, unknown> = {
+    format: "sojourn-run-summary/1",
+    scenario: "morning",
+    run: "day-1",
+    file: "runs/day-1.csv",
+    input_sha256: sha(GOOD_CSV),
+    plan_sha256: sha("made by hand"),
+  };
+  body.digest = sha(JSON.stringify(body));
+  return JSON.stringify(body) + "\n";
+})();
+const CHANGED_CSV = GOOD_CSV.replace("3,queue,5", "3,queue,6");
 
 const LONG_TEXT = Array.from({ length: 400 }, (_, i) => `${4 + i / 10},queue,${i % 7},`).join("\n") + "\n";
 
@@ -1093,6 +1134,80 @@ export const CASES: BadInputCase[] = [
     status: 1,
     message: () => reportMessages.browserMissing("/opt/no-such-browser/chromium", "--chrome"),
     afterwards: { "report/report.pdf": null },
+  },
+  // --- verify and run summaries ---------------------------------------------------------------
+  {
+    id: "record-malformed",
+    debug: true,
+    title: "A report folder whose record.json lacks a key",
+    what: "`sojourn verify` checks record.json's shape before it trusts anything in it: a key missing or of the wrong type is named with its path. Here `outputs` is missing.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "report/record.json": RECORD_NO_OUTPUTS },
+    show: [],
+    args: ["verify", "report"],
+    status: 1,
+    message: () => verifyMessages.recordMalformed("report", "at outputs: expected a list, found nothing (the key is missing)"),
+    place: "report/record.json",
+  },
+  {
+    id: "record-not-json",
+    title: "A record.json cut short",
+    what: "record.json ends in the middle (a copy that stopped, a disk that filled).",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "report/record.json": RECORD_CUT },
+    show: [],
+    args: ["verify", "report"],
+    status: 1,
+    message: () => verifyMessages.recordMalformed("report", notJson(RECORD_CUT)),
+  },
+  {
+    id: "record-fifo",
+    title: "A record.json that is a named pipe",
+    what: "record.json is a named pipe (FIFO), not a file. Reading it would wait for a writer for ever; `verify` checks the kind first and reads nothing.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "report/results.json": "{}\n" },
+    show: [],
+    setup: (dir) => {
+      if (spawnSync("mkfifo", [join(dir, "report", "record.json")]).status !== 0) throw new Error("test setup: mkfifo failed");
+    },
+    args: ["verify", "report"],
+    status: 1,
+    message: () => verifyMessages.recordNotAFile("report", "a named pipe (FIFO)"),
+  },
+  {
+    id: "report-folder-missing",
+    title: "verify on a folder that does not exist",
+    what: "The folder given to `sojourn verify` is not there.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["verify", "reprot"],
+    status: 1,
+    message: () => verifyMessages.reportDirMissing("reprot", "it does not exist"),
+  },
+  {
+    id: "summary-stale",
+    debug: true,
+    title: "A run summary made from an older version of its run file",
+    what: "`report --from-summaries` computes the SHA-256 of each run file it can read and compares it with the one the summary was made from. Here `runs/day-1.csv` was changed after `summarize-run` wrote its summary.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    setup: (dir) => {
+      const r = spawnSync(process.execPath, [MAIN, "summarize-run", STUDY, "--scenario", "morning", "--run", "day-1", "--out", "sums/morning/day-1.json"], { cwd: dir, encoding: "utf8" });
+      if (r.status !== 0) throw new Error(`test setup: summarize-run failed: ${r.stderr}`);
+      writeFileSync(join(dir, "runs", "day-1.csv"), CHANGED_CSV);
+    },
+    args: ["report", STUDY, "--out", "report", "--from-summaries", "sums", "--quiet"],
+    status: 1,
+    message: () => summaryMessages.summaryStale("sums/morning/day-1.json", "runs/day-1.csv", sha(CHANGED_CSV), sha(GOOD_CSV)),
+    afterwards: { "report/results.json": null },
+  },
+  {
+    id: "summary-malformed",
+    title: "A run summary that is not what summarize-run writes",
+    what: "A summary whose own digest matches, made by hand: it has no `analysis`. Its shape is checked before anything in it is used.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "sums/morning/day-1.json": SUMMARY_EMPTY },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--from-summaries", "sums", "--quiet"],
+    status: 1,
+    message: () => summaryMessages.summaryMalformed("sums/morning/day-1.json", "at analysis: expected an object, found nothing (the key is missing)"),
+    afterwards: { "report/results.json": null },
   },
   // --- usage ------------------------------------------------------------------------------
   {

@@ -67,7 +67,7 @@ describe("level statistics on a hand-worked trace", () => {
     expect(q.final).toBe(4);
     const t = outcome.tables.find((x) => x.run === "r1" && x.measure === "q")!;
     expect(t.rows_total).toBe(5);
-    expect(t.preview.map((r) => r[4])).toEqual([0, 3, 0, 0, 7]);
+    expect(t.preview!.map((r) => r[4])).toEqual([0, 3, 0, 0, 7]);
   });
 
   it("a row exactly at the end is inside the window and sets the final value", async () => {
