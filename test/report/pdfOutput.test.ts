@@ -65,7 +65,8 @@ describe.skipIf(chrome === null)("report --pdf", () => {
     const dir = bakery();
     expect(sojourn(["report", "study.yaml", "--out", "report", "--pdf", "--quiet"], dir).status).toBe(0);
     const record = JSON.parse(readFileSync(join(dir, "report", "record.json"), "utf8"));
-    expect(record.pdf).toEqual({ file: "report.pdf", sha256: sha256(readFileSync(join(dir, "report", "report.pdf"))) });
+    expect(record.pdf).toEqual({ file: "report.pdf", sha256: sha256(readFileSync(join(dir, "report", "report.pdf"))), pages: expect.any(Number) });
+    expect(record.pdf.pages).toBeGreaterThan(0);
     const again = sojourn(["report", "study.yaml", "--out", "report", "--quiet"], dir);
     expect(again.stderr).toBe("");
     expect(again.status).toBe(0);
