@@ -13,8 +13,8 @@
  */
 import { createHash } from "node:crypto";
 import { pipelineWanted, readRunPipelined } from "./pipeline.js";
-import { createReadStream } from "node:fs";
-import { open } from "node:fs/promises";
+import { constants } from "node:fs";
+import { type FileHandle, lstat, open, stat } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import type { ColumnMap } from "../manifest/types.js";
 import { UserError } from "../messages/error.js";
@@ -22,7 +22,7 @@ import * as ingestMessages from "../messages/ingest.js";
 import { CsvParser } from "./csvParser.js";
 import { ChunkFeeder } from "./feeder.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
-import { RUN_EXTENSIONS, runFormat } from "./runFile.js";
+import { RUN_EXTENSIONS, notFileKind, runFormat } from "./runFile.js";
 import { SeriesTable, type RowSink } from "./seriesTable.js";
 import { mark } from "../timing.js";
 
@@ -126,41 +126,45 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
     }
   };
   try {
-    if (!format.gzip) {
-      const file = await open(opts.path, "r");
-      // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
-      let here = Buffer.allocUnsafe(chunkSize);
-      let there = Buffer.allocUnsafe(chunkSize);
-      let next = file.read(here, 0, chunkSize, null);
-      try {
-        for (;;) {
-          const { bytesRead: n } = await next;
-          if (n === 0) break;
-          const chunk = here.subarray(0, n);
-          [here, there] = [there, here];
-          next = file.read(here, 0, chunkSize, null);
-          stored(chunk);
-          bytes += n;
-          parsed(() => feeder.push(chunk));
+    const file = await openRunFile(opts.path, display);
+    try {
+      if (!format.gzip) {
+        // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
+        let here = Buffer.allocUnsafe(chunkSize);
+        let there = Buffer.allocUnsafe(chunkSize);
+        let next = file.read(here, 0, chunkSize, null);
+        try {
+          for (;;) {
+            const { bytesRead: n } = await next;
+            if (n === 0) break;
+            const chunk = here.subarray(0, n);
+            [here, there] = [there, here];
+            next = file.read(here, 0, chunkSize, null);
+            stored(chunk);
+            bytes += n;
+            parsed(() => feeder.push(chunk));
+          }
+        } finally {
+          await next.catch(() => {}); // the read ahead, also when parsing stopped at an error
         }
-      } finally {
-        await next.catch(() => {}); // the read ahead, also when parsing stopped at an error
-        await file.close();
+      } else {
+        const raw = file.createReadStream({ highWaterMark: chunkSize, autoClose: false });
+        try {
+          const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
+          raw.on("data", (chunk: Buffer | string) => {
+            stored(chunk as Buffer);
+            bytes += chunk.length;
+          });
+          raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
+          raw.pipe(gunzip);
+          for await (const chunk of gunzip) parsed(() => feeder.push(chunk as Buffer));
+        } finally {
+          raw.destroy();
+          if (!raw.closed) await new Promise<void>((done) => raw.once("close", () => done()));
+        }
       }
-    } else {
-      const raw = createReadStream(opts.path, { highWaterMark: chunkSize });
-      try {
-        const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
-        raw.on("data", (chunk: Buffer | string) => {
-          stored(chunk as Buffer);
-          bytes += chunk.length;
-        });
-        raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
-        raw.pipe(gunzip);
-        for await (const chunk of gunzip) parsed(() => feeder.push(chunk as Buffer));
-      } finally {
-        raw.destroy();
-      }
+    } finally {
+      await file.close();
     }
   } catch (e) {
     if (e === failure || e instanceof UserError) throw e;
@@ -170,6 +174,28 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   feeder.finish();
   mark(`read ${display}`);
   return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
+}
+
+/**
+ * Opens a run file for reading, and refuses what is not a regular file (a pipe, a socket, a device,
+ * itself or through a link) by what it is. The path is looked at before it is opened, since opening
+ * a socket fails and opening a pipe waits for a writer; the open file is looked at again, so a path
+ * replaced in between is caught too. Opened without blocking: reading a regular file never blocks.
+ */
+async function openRunFile(path: string, display: string): Promise<FileHandle> {
+  const refuse = async (kind: string) => {
+    const link = await lstat(path).then((s) => s.isSymbolicLink(), () => false);
+    return kind === "a folder" ? ingestMessages.unreadableFile(display, "EISDIR") : ingestMessages.notARegularFile(display, kind, link);
+  };
+  const before = await stat(path).then(notFileKind, () => null); // a missing file: `open` says so
+  if (before !== null) throw await refuse(before);
+  const file = await open(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
+  const kind = notFileKind(await file.stat());
+  if (kind !== null) {
+    await file.close();
+    throw await refuse(kind);
+  }
+  return file;
 }
 
 /** The user's message for an error of the file system or of gunzip. */

@@ -51,6 +51,20 @@ export function unreadableFile(file: string, code: string | undefined): UserErro
   return located({ file }, `cannot read this run file: ${systemReason(code)}`, todo);
 }
 
+/**
+ * The run path is a pipe, a socket or a device (`kind` in words, see `notFileKind`), itself or
+ * through a symbolic link (`link`).
+ */
+export function notARegularFile(file: string, kind: string, link: boolean): UserError {
+  const what = link ? `this run path is a symbolic link to ${kind}, not to a regular file` : `this run path is ${kind}, not a regular file`;
+  const device = kind.endsWith("device") ? " (a device such as /dev/zero gives bytes without end)" : "";
+  return located(
+    { file },
+    `${what}${device}: Sojourn reads a run file to its end and records its bytes, so it reads regular files only`,
+    "save the run's output to a regular file first (for example `cat PIPE > runs/rep-01.csv`) and name that file in the scenario's `runs:`",
+  );
+}
+
 /** The file name ends in none of the run-file extensions. */
 export function unsupportedExtension(file: string, supported: readonly string[]): UserError {
   return located(
