@@ -14,7 +14,8 @@
 import type { ColumnMap } from "../manifest/types.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { parseDecimalBytes, parseDecimalText, scanDecimal, scanned } from "./decimal.js";
-import type { ChunkParser } from "./feeder.js";
+import type { UserError } from "../messages/error.js";
+import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
 import type { SeriesEntry, SeriesTable } from "./seriesTable.js";
 
 const COMMA = 44;
@@ -65,6 +66,8 @@ export class CsvParser implements ChunkParser {
     private readonly table: SeriesTable,
     private readonly display: string,
     private readonly columns: ColumnMap,
+    /** The longest row, in bytes, its line break not counted (see `ChunkFeeder`). */
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
   ) {}
 
   parse(buf: Buffer, pos: number, final: boolean): number {
@@ -90,6 +93,7 @@ export class CsvParser implements ChunkParser {
         }
       }
       let next: number;
+      const line = this.line;
       if (!this.haveHeader) {
         next = this.readFields(buf, pos, end, final);
         if (next !== INCOMPLETE) this.useHeader();
@@ -101,6 +105,10 @@ export class CsvParser implements ChunkParser {
         }
       }
       if (next === INCOMPLETE) return pos;
+      if (next - pos > this.limit && lengthWithoutBreak(buf, pos, next) > this.limit) {
+        this.line = line;
+        throw this.tooLong(buf, pos, this.limit);
+      }
       pos = next;
     }
     return pos;
@@ -108,6 +116,37 @@ export class CsvParser implements ChunkParser {
 
   finish(): void {
     if (!this.haveHeader) throw ingestMessages.emptyFile(this.display, "csv");
+  }
+
+  /**
+   * The error for the row from `start`, longer than `limit` bytes: an unterminated quote when a
+   * quoted field is open at its `limit`-th byte (named by the line the quote opened on), else a
+   * long row (named by the line the row starts on). Decided on the first `limit` bytes only, so the
+   * message is the same wherever chunks end and whether or not the row ends later.
+   */
+  tooLong(buf: Buffer, start: number, limit: number): UserError {
+    const stop = start + limit;
+    let line = this.line;
+    let atFieldStart = true;
+    let quoteLine = -1;
+    for (let p = start; p < stop; p++) {
+      const c = buf[p];
+      if (quoteLine >= 0) {
+        if (c === LF) line++;
+        else if (c === QUOTE) {
+          if (p + 1 < stop && buf[p + 1] === QUOTE) p++;
+          else quoteLine = -1;
+        }
+      } else if (atFieldStart && c === QUOTE) {
+        quoteLine = line;
+        atFieldStart = false;
+      } else {
+        if (c === LF) line++;
+        atFieldStart = c === COMMA || c === LF;
+      }
+    }
+    if (quoteLine >= 0) return ingestMessages.quoteTooLong(this.display, quoteLine, limit, ROW_LIMIT_MAX);
+    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
   }
 
   /**
@@ -436,6 +475,13 @@ function simpleQuoted(buf: Buffer, p: number, end: number): number {
   const c = buf[k + 1];
   if (c === COMMA || c === LF || (c === CR && buf[k + 2] === LF)) return k;
   return QUOTED;
+}
+
+/** The length of the row `buf[a..b)` without its line feed or carriage return and line feed. */
+function lengthWithoutBreak(buf: Buffer, a: number, b: number): number {
+  if (b > a && buf[b - 1] === LF) b--;
+  if (b > a && buf[b - 1] === CR) b--;
+  return b - a;
 }
 
 /** Whether `buf[a..a+n)` equals `buf[b..b+n)`, compared from the last byte. */

@@ -7,7 +7,26 @@
  * Chunks are copied in (`push`), the reader's buffers stay free for the next read. After each
  * parse the unparsed tail moves to the front. The buffer grows only when one row is longer than
  * half of it.
+ *
+ * A row (a record: a quoted field may hold line breaks) may be at most `limit` bytes long, its
+ * line break not counted. The parsers check each complete row; the feeder checks the row still
+ * open at the end of the bytes at hand, so a file without line breaks (a 1 GB line, a gzip member
+ * that expands to one, an unterminated quote) is refused once `limit` bytes of it are held, and
+ * the working buffer never grows much past `limit` plus one fill.
  */
+import type { UserError } from "../messages/error.js";
+
+/** The longest row read by default: 1 MiB. A manifest may change it (`max_row_bytes`). */
+export const DEFAULT_ROW_LIMIT = 1 << 20;
+/** The range a manifest may set the row limit in: 1 KiB to 256 MiB. */
+export const ROW_LIMIT_MIN = 1 << 10;
+export const ROW_LIMIT_MAX = 1 << 28;
+
+/**
+ * Bytes a parser may look past the end of a complete row before it hands it over (a closing quote
+ * waits for the comma or the line feed after it, a carriage return for its line feed).
+ */
+const LOOKAHEAD = 2;
 
 /** A parser of rows from bytes. */
 export interface ChunkParser {
@@ -18,6 +37,11 @@ export interface ChunkParser {
   parse(buf: Buffer, pos: number, final: boolean): number;
   /** Called once after the final `parse`: throws when the file held no header or no row at all. */
   finish(): void;
+  /**
+   * The error for the row starting at `start` (the first incomplete one, as `parse` returned it),
+   * which runs on past `limit` bytes to the end of `buf` with no end in sight.
+   */
+  tooLong(buf: Buffer, start: number, limit: number): UserError;
 }
 
 /** A row left over longer than this waits until as many bytes again arrived before it is retried. */
@@ -33,10 +57,11 @@ export class ChunkFeeder {
   private wait = 0;
   private started = false;
 
-  /** `size`: the largest number of bytes one fill brings. */
+  /** `size`: the largest number of bytes one fill brings; `limit`: the longest row, in bytes. */
   constructor(
     private readonly parser: ChunkParser,
     private readonly size: number,
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
   ) {
     this.work = Buffer.allocUnsafe(Math.max(2 * size, 64));
   }
@@ -55,7 +80,8 @@ export class ChunkFeeder {
   private filled(n: number): void {
     if (n === 0) return;
     this.held += n;
-    if (this.held - this.carried < this.wait) return;
+    // While a long row waits for more bytes, it is parsed again once it may be too long.
+    if (this.held - this.carried < this.wait && this.held <= this.limit + LOOKAHEAD) return;
     this.run(false);
   }
 
@@ -87,6 +113,7 @@ export class ChunkFeeder {
     }
     const used = this.parser.parse(buf, pos, final);
     if (used < buf.length && final) throw new Error(`ingest: the parser left ${buf.length - used} bytes at the end of the data`);
+    if (buf.length - used > this.limit + LOOKAHEAD) throw this.parser.tooLong(buf, used, this.limit);
     this.keep(used);
   }
 

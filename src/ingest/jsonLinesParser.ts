@@ -8,10 +8,12 @@
 import type { ColumnMap } from "../manifest/types.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { parseDecimalText } from "./decimal.js";
-import type { ChunkParser } from "./feeder.js";
+import type { UserError } from "../messages/error.js";
+import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
 import type { SeriesTable } from "./seriesTable.js";
 
 const LF = 10;
+const CR = 13;
 const BLANK = /^[ \t\r]*$/;
 
 /** A JSON value described for a message: "a string", "null", "an array"... */
@@ -40,6 +42,8 @@ export class JsonLinesParser implements ChunkParser {
     private readonly table: SeriesTable,
     private readonly display: string,
     private readonly columns: ColumnMap,
+    /** The longest line, in bytes, its line break not counted (see `ChunkFeeder`). */
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
   ) {}
 
   parse(buf: Buffer, pos: number, final: boolean): number {
@@ -49,6 +53,9 @@ export class JsonLinesParser implements ChunkParser {
       if (lf === -1) {
         if (!final) return pos;
         lf = end;
+      }
+      if (lf - pos > this.limit && lf - pos - (buf[lf - 1] === CR ? 1 : 0) > this.limit) {
+        throw ingestMessages.rowTooLong(this.display, this.line, this.limit, ROW_LIMIT_MAX);
       }
       const text = buf.toString("utf8", pos, lf);
       if (!BLANK.test(text)) this.row(text, this.line);
@@ -60,6 +67,11 @@ export class JsonLinesParser implements ChunkParser {
 
   finish(): void {
     if (!this.sawObject) throw ingestMessages.emptyFile(this.display, "jsonl");
+  }
+
+  /** The line from `start` runs past the row limit with no line feed. */
+  tooLong(_buf: Buffer, _start: number, limit: number): UserError {
+    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
   }
 
   private row(text: string, line: number): void {

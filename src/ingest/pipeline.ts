@@ -69,8 +69,8 @@ export function pipelineWanted(path: string): boolean {
 export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
   const control = new SharedArrayBuffer(4);
   const inFlight = new Int32Array(control);
-  const { path, display, columns, series } = opts;
-  const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series }, control } });
+  const { path, display, columns, series, maxRowBytes } = opts;
+  const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series, maxRowBytes }, control } });
   const hash = createHash("sha256");
   const giveBack = (spare: SpareBuffers, buffers: ArrayBufferLike[]) => worker.postMessage(spare, buffers as ArrayBuffer[]);
   return new Promise<ReadReport>((resolve, reject) => {

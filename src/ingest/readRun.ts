@@ -8,7 +8,7 @@
  * parsed; the feeder copies each chunk into its working buffer.
  *
  * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
- * end, and one entry per distinct series. A large file read from the main thread is parsed on a
+ * end (at most the row limit, `maxRowBytes`), and one entry per distinct series. A large file read from the main thread is parsed on a
  * second thread while this one feeds the measures (`pipeline.ts`).
  */
 import { createHash } from "node:crypto";
@@ -20,7 +20,7 @@ import type { ColumnMap } from "../manifest/types.js";
 import { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { CsvParser } from "./csvParser.js";
-import { ChunkFeeder } from "./feeder.js";
+import { ChunkFeeder, DEFAULT_ROW_LIMIT } from "./feeder.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
 import { RUN_EXTENSIONS, notFileKind, runFormat } from "./runFile.js";
 import { SeriesTable, type RowSink } from "./seriesTable.js";
@@ -60,6 +60,11 @@ export interface ReadOptions {
   onRow: RowSink;
   /** Read buffer size in bytes (default 1 MiB). */
   chunkSize?: number;
+  /**
+   * The longest row in bytes, its line break not counted (default `DEFAULT_ROW_LIMIT`, 1 MiB): a
+   * longer row is an input error, found once that many bytes of it are held (`ChunkFeeder`).
+   */
+  maxRowBytes?: number;
   /**
    * Where the file's bytes as stored go, in order, for the SHA-256 to be computed elsewhere (the
    * reader thread hands them to the main thread, which has time to spare); the report's `sha256`
@@ -105,12 +110,13 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
 
+  const limit = opts.maxRowBytes ?? DEFAULT_ROW_LIMIT;
   const table = new SeriesTable(opts.series, opts.onRow, display);
   const parser =
     format.format === "csv"
-      ? new CsvParser(table, display, opts.columns)
-      : new JsonLinesParser(table, display, opts.columns);
-  const feeder = new ChunkFeeder(parser, chunkSize);
+      ? new CsvParser(table, display, opts.columns, limit)
+      : new JsonLinesParser(table, display, opts.columns, limit);
+  const feeder = new ChunkFeeder(parser, chunkSize, limit);
   const hash = opts.storedBytes === undefined ? createHash("sha256") : null;
   const stored = opts.storedBytes ?? ((chunk: Buffer) => hash!.update(chunk));
   let bytes = 0;

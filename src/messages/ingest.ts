@@ -130,6 +130,41 @@ export function unterminatedQuote(file: string, line: number): UserError {
   );
 }
 
+/** A byte count in words: `1 MiB (1048576 bytes)`, `1500 bytes`. */
+export function byteCount(n: number): string {
+  for (const [unit, size] of [
+    ["GiB", 2 ** 30],
+    ["MiB", 2 ** 20],
+    ["KiB", 2 ** 10],
+  ] as const) {
+    if (n >= size && n % size === 0) return `${n / size} ${unit} (${n} bytes)`;
+  }
+  return `${n} byte${n === 1 ? "" : "s"}`;
+}
+
+/** How to raise the row limit, for the messages about long rows. */
+function raiseLimit(limit: number, max: number): string {
+  return `if the rows really are this long, raise the limit in the manifest with \`max_row_bytes: ${Math.min(2 * limit, max)}\` (in bytes, at most ${max}; at the top or in the scenario)`;
+}
+
+/** A row (CSV record or JSON line) longer than the row limit. */
+export function rowTooLong(file: string, line: number, limit: number, max: number): UserError {
+  return located(
+    { file, line },
+    `this row is longer than the row limit of ${byteCount(limit)}: a line this long is rarely a row of a run file (a file that is not a run file, or one whose lines end in something other than a line feed)`,
+    `check that the file holds one row per line; ${raiseLimit(limit, max)}`,
+  );
+}
+
+/** A quoted CSV field still open after the row limit's worth of bytes. */
+export function quoteTooLong(file: string, line: number, limit: number, max: number): UserError {
+  return located(
+    { file, line },
+    `a quoted field opened on this line is still open after ${byteCount(limit)} (the row limit): either its closing quote is missing, so that the rest of the file reads as inside it, or the row is longer than the limit`,
+    `close the field with a double quote; inside a quoted field, write a double quote as two (""); ${raiseLimit(limit, max)}`,
+  );
+}
+
 /** Something other than a comma or the end of the line follows a closing quote. */
 export function textAfterQuote(file: string, line: number): UserError {
   return located(
