@@ -13,6 +13,11 @@
  * open at the end of the bytes at hand, so a file without line breaks (a 1 GB line, a gzip member
  * that expands to one, an unterminated quote) is refused once `limit` bytes of it are held, and
  * the working buffer never grows much past `limit` plus one fill.
+ *
+ * Line ends: the file's first line break decides. When it is a carriage return alone (the line
+ * end of some old systems), every carriage return not followed by a line feed is read as a line
+ * feed, in the working copy (the bytes hashed are the file's own); else the bytes are left as
+ * they are (line feeds, or carriage return and line feed).
  */
 import type { UserError } from "../messages/error.js";
 
@@ -47,6 +52,13 @@ export interface ChunkParser {
 /** A row left over longer than this waits until as many bytes again arrived before it is retried. */
 const RETRY_LIMIT = 1 << 16;
 
+const LF = 10;
+const CR = 13;
+/** How the file's lines end, as its first line break says. */
+const ENDS_UNKNOWN = 0;
+const ENDS_LF = 1;
+const ENDS_CR = 2;
+
 export class ChunkFeeder {
   private work: Buffer;
   /** Bytes held at the front of `work`: the carried tail plus bytes not yet parsed. */
@@ -56,6 +68,9 @@ export class ChunkFeeder {
   /** Bytes to hold beyond the carried tail before it is parsed again (0: at the next fill). */
   private wait = 0;
   private started = false;
+  private endings = ENDS_UNKNOWN;
+  /** Whether the last byte held is a carriage return whose next byte has not arrived yet. */
+  private pendingCR = false;
 
   /** `size`: the largest number of bytes one fill brings; `limit`: the longest row, in bytes. */
   constructor(
@@ -79,6 +94,7 @@ export class ChunkFeeder {
   /** `n` bytes were written at the start of the last `space()`. */
   private filled(n: number): void {
     if (n === 0) return;
+    if (this.endings !== ENDS_LF) this.lineEnds(this.held, this.held + n);
     this.held += n;
     // While a long row waits for more bytes, it is parsed again once it may be too long.
     if (this.held - this.carried < this.wait && this.held <= this.limit + LOOKAHEAD) return;
@@ -94,8 +110,49 @@ export class ChunkFeeder {
     }
   }
 
+  /**
+   * Reads the line ends of the new bytes `work[from..to)` (see the class comment). A carriage
+   * return at the end of the held bytes stays unparsed (no row ends there before its next byte),
+   * so it is still the last byte held when the next bytes arrive.
+   */
+  private lineEnds(from: number, to: number): void {
+    const work = this.work;
+    if (this.pendingCR) {
+      this.pendingCR = false;
+      const lf = work[from] === LF;
+      if (this.endings === ENDS_UNKNOWN) this.endings = lf ? ENDS_LF : ENDS_CR;
+      if (this.endings === ENDS_LF) return;
+      if (!lf) work[from - 1] = LF;
+    }
+    if (this.endings === ENDS_UNKNOWN) {
+      let i = from;
+      while (i < to && work[i] !== LF && work[i] !== CR) i++;
+      if (i === to) return;
+      if (work[i] === LF || (i + 1 < to && work[i + 1] === LF)) {
+        this.endings = ENDS_LF;
+        return;
+      }
+      if (i + 1 === to) {
+        this.pendingCR = true;
+        return;
+      }
+      this.endings = ENDS_CR;
+      from = i;
+    }
+    const bytes = work.subarray(0, to);
+    for (let i = bytes.indexOf(CR, from); i !== -1; i = bytes.indexOf(CR, i + 1)) {
+      if (i + 1 === to) {
+        this.pendingCR = true;
+        break;
+      }
+      if (bytes[i + 1] !== LF) bytes[i] = LF;
+    }
+  }
+
   /** The end of the data: parses what is left and lets the parser check the file as a whole. */
   finish(): void {
+    if (this.pendingCR && this.endings !== ENDS_LF) this.work[this.held - 1] = LF;
+    this.pendingCR = false;
     this.run(true);
     this.parser.finish();
   }
