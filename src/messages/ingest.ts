@@ -98,6 +98,24 @@ export function missingColumns(
   );
 }
 
+/** A CSV header names one column twice (columns counted from 1). */
+export function duplicateColumn(file: string, line: number, name: string, first: number, second: number): UserError {
+  return located(
+    { file, line },
+    `the header names the column \`${name}\` twice (columns ${first} and ${second}), so which of its cells a row means would be a guess`,
+    "rename one of the two columns in the header, or leave the extra one out of the file",
+  );
+}
+
+/** A JSON Lines object with one key twice. */
+export function duplicateKey(file: string, line: number, key: string): UserError {
+  return located(
+    { file, line },
+    `the object has the key \`${key}\` twice; JSON readers keep only one of the two values, so the other would be lost without a word`,
+    "write each key once in every object",
+  );
+}
+
 /** An entity-based measure needs the entity column and the header has none. */
 export function missingEntityColumn(
   file: string,
@@ -118,6 +136,26 @@ export function tooFewFields(file: string, line: number, found: number, needed: 
     { file, line },
     `this row has ${found} field${found === 1 ? "" : "s"}, but the time and series columns need at least ${needed}`,
     "check the row for a missing comma or a row cut short",
+  );
+}
+
+/**
+ * A CSV row with more cells than the header has columns. `decimalComma`: the extra cells look
+ * like numbers written with a decimal comma (`1,5` for 1.5).
+ */
+export function tooManyFields(file: string, line: number, found: number, columns: number, decimalComma: boolean): UserError {
+  const what = `this row has ${found} cells, but the header names only ${columns} column${columns === 1 ? "" : "s"}`;
+  if (decimalComma) {
+    return located(
+      { file, line },
+      `${what}: the extra cells look like numbers written with a decimal comma (\`1,5\` for 1.5), which a CSV file reads as two cells`,
+      "write decimal numbers with a point (1.5): set the model's or the spreadsheet's export to use a point as the decimal separator",
+    );
+  }
+  return located(
+    { file, line },
+    `${what}, so it is not clear which cell belongs to which column`,
+    'give every row at most as many cells as the header: name the extra columns in the header, or quote a cell that holds a comma ("a,b")',
   );
 }
 
@@ -182,9 +220,10 @@ export function missingTime(file: string, line: number): UserError {
 /** A time or value that is not a finite decimal number. */
 export function notANumber(file: string, line: number, cell: "time" | "value", text: string): UserError {
   const allowed = "a decimal number such as 12, -0.5 or 1.5e3 (no hex, Infinity or NaN; at most about 1.8e308)";
+  const comma = /^\s*[-+]?\d+,\d+\s*$/.test(text) ? " (it looks like a number with a decimal comma: write 1.5, not 1,5)" : "";
   return located(
     { file, line },
-    `the ${cell} \`${text}\` is not a finite decimal number`,
+    `the ${cell} \`${text}\` is not a finite decimal number${comma}`,
     cell === "time" ? `write the time as ${allowed}` : `write the value as ${allowed}, or leave it empty`,
   );
 }
