@@ -71,3 +71,12 @@ export const summaryFigureOverflow = (scenario: string, measure: string, figure:
   new UserError(
     `Scenario "${scenario}", measure "${measure}": the across-run ${figure} is too large to compute (beyond about 1.8e308), because the runs' values differ by too much.\n  What to do: write the values in a larger unit, or check the runs for a misplaced exponent.`,
   );
+
+/**
+ * A note (not an error): fewer worker threads are used than `--workers` or `SOJOURN_WORKERS`
+ * (`from`) asked for, because there are fewer cores or runs.
+ */
+export function workersCapped(from: string, asked: number, used: number, cores: number, runs: number): string {
+  const why = [used === cores ? `this machine has ${cores} core${cores === 1 ? "" : "s"}` : null, used === runs ? `the study has ${runs} run${runs === 1 ? "" : "s"}` : null].filter((x) => x !== null);
+  return `note: ${from} asked for ${asked} workers; using ${used}, since ${why.join(" and ")} (a worker more than the cores or the runs would only wait)`;
+}
