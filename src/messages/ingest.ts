@@ -189,7 +189,7 @@ function raiseLimit(limit: number, max: number): string {
 export function rowTooLong(file: string, line: number, limit: number, max: number): UserError {
   return located(
     { file, line },
-    `this row is longer than the row limit of ${byteCount(limit)}: a line this long is rarely a row of a run file (a file that is not a run file, or one whose lines end in something other than a line feed)`,
+    `this row is longer than the row limit of ${byteCount(limit)}; rows of run files are short, so this is likely a file that is not a run file, or one without line breaks`,
     `check that the file holds one row per line; ${raiseLimit(limit, max)}`,
   );
 }
