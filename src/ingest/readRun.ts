@@ -189,19 +189,32 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
  * replaced in between is caught too. Opened without blocking: reading a regular file never blocks.
  */
 async function openRunFile(path: string, display: string): Promise<FileHandle> {
-  const refuse = async (kind: string) => {
-    const link = await lstat(path).then((s) => s.isSymbolicLink(), () => false);
-    return kind === "a folder" ? ingestMessages.unreadableFile(display, "EISDIR") : ingestMessages.notARegularFile(display, kind, link);
-  };
-  const before = await stat(path).then(notFileKind, () => null); // a missing file: `open` says so
-  if (before !== null) throw await refuse(before);
+  await refuseIfNotAFile(path, display);
   const file = await open(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
   const kind = notFileKind(await file.stat());
   if (kind !== null) {
     await file.close();
-    throw await refuse(kind);
+    throw await refusal(path, display, kind);
   }
   return file;
+}
+
+/**
+ * Throws the reader's message when `path` leads to something other than a regular file (a pipe, a
+ * socket, a device, a folder), itself or through a link; a path that does not exist passes (the
+ * open that follows says so). For readers that open the file by other means first (`init`).
+ */
+export async function refuseIfNotAFile(path: string, display: string): Promise<void> {
+  const kind = await stat(path).then(notFileKind, () => null);
+  if (kind !== null) throw await refusal(path, display, kind);
+}
+
+async function refusal(path: string, display: string, kind: string): Promise<UserError> {
+  const link = await lstat(path).then(
+    (s) => s.isSymbolicLink(),
+    () => false,
+  );
+  return kind === "a folder" ? ingestMessages.unreadableFile(display, "EISDIR") : ingestMessages.notARegularFile(display, kind, link);
 }
 
 /** The user's message for an error of the file system or of gunzip. */
