@@ -20,12 +20,20 @@ const say = (line: string) => process.stdout.write(terminalText(line) + "\n");
 const sayJson = (value: unknown, indent?: number) => process.stdout.write(terminalJson(value, indent) + "\n");
 const progressTo = (quiet: boolean | undefined) => (quiet ? undefined : (m: string) => process.stderr.write(`  ${terminalText(m)}\n`));
 
+/** Says on standard error when fewer workers are used than `--workers` or SOJOURN_WORKERS asked for. */
+async function noteWorkers(study: Study, workers: number | undefined): Promise<void> {
+  const { chooseWorkers } = await import("../study/pool.js");
+  const { note } = chooseWorkers(study.scenarios.reduce((n, s) => n + s.runs.length, 0), workers);
+  if (note !== null) process.stderr.write(`sojourn: ${terminalText(note)}\n`);
+}
+
 export async function report(
   manifest: string,
   o: { out: string; pdf?: boolean; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
 ): Promise<void> {
   const study = await loadStudy(manifest);
   mark("manifest loaded");
+  await noteWorkers(study, o.workers);
   const started = Date.now();
   const { publishStudy } = await publishing();
   mark("report modules loaded");
@@ -52,6 +60,7 @@ function summarize(dir: string, warnings: number, ms: number, pdfPages: number |
 
 export async function check(manifest: string, o: { json?: boolean; workers?: number }): Promise<void> {
   const study = await loadStudy(manifest);
+  await noteWorkers(study, o.workers);
   const [{ runStudy }, { studyPlan, planText }] = await Promise.all([import("../study/runStudy.js"), import("./plan.js")]);
   const { outcome } = await runStudy(study, { workers: o.workers });
   const plan = studyPlan(study, outcome);

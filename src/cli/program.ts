@@ -45,7 +45,7 @@ export function program(): Command {
     .option("--chrome <path>", "the Chromium or Chrome executable for the PDF (else $SOJOURN_CHROME, then usual places)")
     .option("--force", "replace --out even if it holds files Sojourn did not write (never a folder holding the manifest or an input)")
     .option("--quiet", "print no progress")
-    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; 1: no worker)", count)
+    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; never more than the cores or the runs; 1: no worker)", count)
     .option("--from-summaries <folder>", "take each run from <folder>/<scenario>/<run>.json (written by summarize-run) instead of its run file")
     .action(commands.report);
 
@@ -53,7 +53,7 @@ export function program(): Command {
     .description("validate the manifest and read every run file without writing anything; print the plan")
     .argument("<manifest>", "the study manifest")
     .option("--json", "print the plan as JSON for scripts")
-    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; 1: no worker)", count)
+    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; never more than the cores or the runs; 1: no worker)", count)
     .action(commands.check);
 
   p.command("summarize-run")

@@ -14,7 +14,8 @@
 import type { ColumnMap } from "../manifest/types.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { parseDecimalBytes, parseDecimalText, scanDecimal, scanned } from "./decimal.js";
-import type { ChunkParser } from "./feeder.js";
+import type { UserError } from "../messages/error.js";
+import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
 import type { SeriesEntry, SeriesTable } from "./seriesTable.js";
 
 const COMMA = 44;
@@ -47,6 +48,8 @@ export class CsvParser implements ChunkParser {
   private roles = new Uint8Array(0);
   /** Fields a row needs: up to the time and the series columns. */
   private required = 0;
+  /** Fields the header has: a row may have fewer, never more. */
+  private width = 0;
   private timeColumn = -1;
   private seriesColumn = -1;
   private valueColumn = -1;
@@ -65,6 +68,8 @@ export class CsvParser implements ChunkParser {
     private readonly table: SeriesTable,
     private readonly display: string,
     private readonly columns: ColumnMap,
+    /** The longest row, in bytes, its line break not counted (see `ChunkFeeder`). */
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
   ) {}
 
   parse(buf: Buffer, pos: number, final: boolean): number {
@@ -90,6 +95,7 @@ export class CsvParser implements ChunkParser {
         }
       }
       let next: number;
+      const line = this.line;
       if (!this.haveHeader) {
         next = this.readFields(buf, pos, end, final);
         if (next !== INCOMPLETE) this.useHeader();
@@ -101,6 +107,10 @@ export class CsvParser implements ChunkParser {
         }
       }
       if (next === INCOMPLETE) return pos;
+      if (next - pos > this.limit && lengthWithoutBreak(buf, pos, next) > this.limit) {
+        this.line = line;
+        throw this.tooLong(buf, pos, this.limit);
+      }
       pos = next;
     }
     return pos;
@@ -108,6 +118,37 @@ export class CsvParser implements ChunkParser {
 
   finish(): void {
     if (!this.haveHeader) throw ingestMessages.emptyFile(this.display, "csv");
+  }
+
+  /**
+   * The error for the row from `start`, longer than `limit` bytes: an unterminated quote when a
+   * quoted field is open at its `limit`-th byte (named by the line the quote opened on), else a
+   * long row (named by the line the row starts on). Decided on the first `limit` bytes only, so the
+   * message is the same wherever chunks end and whether or not the row ends later.
+   */
+  tooLong(buf: Buffer, start: number, limit: number): UserError {
+    const stop = start + limit;
+    let line = this.line;
+    let atFieldStart = true;
+    let quoteLine = -1;
+    for (let p = start; p < stop; p++) {
+      const c = buf[p];
+      if (quoteLine >= 0) {
+        if (c === LF) line++;
+        else if (c === QUOTE) {
+          if (p + 1 < stop && buf[p + 1] === QUOTE) p++;
+          else quoteLine = -1;
+        }
+      } else if (atFieldStart && c === QUOTE) {
+        quoteLine = line;
+        atFieldStart = false;
+      } else {
+        if (c === LF) line++;
+        atFieldStart = c === COMMA || c === LF;
+      }
+    }
+    if (quoteLine >= 0) return ingestMessages.quoteTooLong(this.display, quoteLine, limit, ROW_LIMIT_MAX);
+    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
   }
 
   /**
@@ -148,10 +189,15 @@ export class CsvParser implements ChunkParser {
     }
     let entity: string | undefined;
     if (buf[q] === COMMA) {
-      // The rest of the row: the entity cell first when this series wants it, then up to the line feed.
+      // The rest of the row: the entity cell first when this series wants it, then up to the line
+      // feed, counting the cells (time, series, value, and one more per comma from here on).
       p = ++q;
-      while (q < end && (c = buf[q]) !== LF && c !== QUOTE) q++;
-      if (q >= end || c === QUOTE) return this.fastRow(buf, rowStart, end, final);
+      let cells = 4;
+      while (q < end && (c = buf[q]) !== LF && c !== QUOTE) {
+        if (c === COMMA) cells++;
+        q++;
+      }
+      if (q >= end || c === QUOTE || cells > this.width) return this.fastRow(buf, rowStart, end, final);
       if (entry.entity && this.entityColumn === 3) {
         let e = p;
         while (e < q && buf[e] !== COMMA) e++;
@@ -175,6 +221,8 @@ export class CsvParser implements ChunkParser {
     let entityStart = -1;
     let entityEnd = -1;
     let entityQuoted = false;
+    /** Fields past the first one that the REST step skips. */
+    let restFields = 0;
     let q: number;
     for (;;) {
       const role = field < known ? roles[field] : REST;
@@ -190,7 +238,7 @@ export class CsvParser implements ChunkParser {
           if (x !== x || scanned.end !== close) {
             const text = buf.toString("utf8", a, close);
             const y = parseDecimalText(text);
-            if (y === undefined) throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+            if (y === undefined) return this.notANumber(buf, rowStart, end, final, role, text);
             x = y;
           }
           if (role === TIME) time = x;
@@ -217,7 +265,7 @@ export class CsvParser implements ChunkParser {
             const y = parseDecimalBytes(buf, p, q);
             if (y === undefined) {
               const text = buf.toString("utf8", p, q).trim();
-              throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+              return this.notANumber(buf, rowStart, end, final, role, text);
             }
             x = y;
           }
@@ -257,6 +305,7 @@ export class CsvParser implements ChunkParser {
             while (q < end && buf[q] !== COMMA && buf[q] !== LF) q++;
           }
           if (q >= end || buf[q] === LF) break;
+          restFields++;
           q++;
         }
       } else {
@@ -288,6 +337,7 @@ export class CsvParser implements ChunkParser {
       }
       throw ingestMessages.tooFewFields(this.display, line, field, this.required);
     }
+    if (field + restFields > this.width) throw this.tooManyFields(splitCells(buf.toString("utf8", rowStart, q)), line);
     if (time !== time) throw ingestMessages.missingTime(this.display, line);
     const e = entry as SeriesEntry;
     let entity: string | undefined;
@@ -366,6 +416,12 @@ export class CsvParser implements ChunkParser {
   /** The header: finds the columns (after renaming) and sets the role of each field. */
   private useHeader(): void {
     const names = this.fields.map((name) => name.trim());
+    const seen = new Map<string, number>();
+    names.forEach((name, i) => {
+      const first = seen.get(name);
+      if (first !== undefined) throw ingestMessages.duplicateColumn(this.display, this.fieldsLine, name, first + 1, i + 1);
+      if (name !== "") seen.set(name, i);
+    });
     const columns = this.columns;
     this.haveHeader = true;
     this.timeColumn = names.indexOf(columns.time);
@@ -387,8 +443,41 @@ export class CsvParser implements ChunkParser {
     roles[this.seriesColumn] = SERIES;
     roles[this.timeColumn] = TIME;
     this.roles = roles;
+    this.width = names.length;
     this.required = Math.max(this.timeColumn, this.seriesColumn) + 1;
     this.standard = this.timeColumn === 0 && this.seriesColumn === 1 && this.valueColumn === 2 && (this.entityColumn === 3 || this.entityColumn === -1);
+  }
+
+  /**
+   * A time or value cell of the row from `rowStart` is not a number: when the row has more cells
+   * than the header, that is the error to show (a decimal comma shifts the cells: `1,5,queue`
+   * puts `queue` under the value); else the number's. INCOMPLETE while the row's end is not at hand.
+   */
+  private notANumber(buf: Buffer, rowStart: number, end: number, final: boolean, role: number, text: string): number {
+    let lf = buf.indexOf(LF, rowStart);
+    if (lf === -1 || lf >= end) {
+      if (!final) return INCOMPLETE;
+      lf = end;
+    }
+    const cells = splitCells(buf.toString("utf8", rowStart, lf));
+    if (cells.length > this.width) throw this.tooManyFields(cells, this.line);
+    throw ingestMessages.notANumber(this.display, this.line, role === TIME ? "time" : "value", text);
+  }
+
+  /**
+   * The error for a row with more cells than the header; when the cells split a number in two
+   * where the time or the value belongs (`1,5` for 1.5), the message says so.
+   */
+  private tooManyFields(cells: string[], line: number): UserError {
+    const extra = cells.length - this.width;
+    let splits = 0;
+    for (let i = 0; i + 1 < cells.length; i++) {
+      if (INTEGER.test(cells[i]) && DIGITS.test(cells[i + 1])) {
+        splits++;
+        i++;
+      }
+    }
+    return ingestMessages.tooManyFields(this.display, line, cells.length, this.width, splits >= extra);
   }
 
   /** A row read by `readFields`. */
@@ -398,6 +487,7 @@ export class CsvParser implements ChunkParser {
     if (fields.length < this.required) {
       throw ingestMessages.tooFewFields(this.display, line, fields.length, this.required);
     }
+    if (fields.length > this.width) throw this.tooManyFields(fields, line);
     const time = parseDecimalText(fields[this.timeColumn]);
     if (time === undefined) throw ingestMessages.notANumber(this.display, line, "time", fields[this.timeColumn]);
     const entry = this.table.lookupName(fields[this.seriesColumn]);
@@ -436,6 +526,46 @@ function simpleQuoted(buf: Buffer, p: number, end: number): number {
   const c = buf[k + 1];
   if (c === COMMA || c === LF || (c === CR && buf[k + 2] === LF)) return k;
   return QUOTED;
+}
+
+/** A cell that may be the whole part of a number written with a decimal comma, and its fraction part. */
+const INTEGER = /^\s*[-+]?\d+\s*$/;
+const DIGITS = /^\d+\s*$/;
+
+/**
+ * The cells of one line of CSV text (for a message), its line break left out: split at commas
+ * outside quotes, quoted cells without their quotes.
+ */
+function splitCells(text: string): string[] {
+  const line = text.replace(/\r?\n$/, "");
+  const cells: string[] = [];
+  let cell = "";
+  let quoted = false;
+  let atStart = true;
+  for (let i = 0; i < line.length; i++) {
+    const c = line[i];
+    if (quoted) {
+      if (c !== '"') cell += c;
+      else if (line[i + 1] === '"') cell += line[++i];
+      else quoted = false;
+    } else if (c === ",") {
+      cells.push(cell);
+      cell = "";
+      atStart = true;
+      continue;
+    } else if (c === '"' && atStart) quoted = true;
+    else cell += c;
+    atStart = false;
+  }
+  cells.push(cell);
+  return cells;
+}
+
+/** The length of the row `buf[a..b)` without its line feed or carriage return and line feed. */
+function lengthWithoutBreak(buf: Buffer, a: number, b: number): number {
+  if (b > a && buf[b - 1] === LF) b--;
+  if (b > a && buf[b - 1] === CR) b--;
+  return b - a;
 }
 
 /** Whether `buf[a..a+n)` equals `buf[b..b+n)`, compared from the last byte. */

@@ -8,10 +8,12 @@
 import type { ColumnMap } from "../manifest/types.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { parseDecimalText } from "./decimal.js";
-import type { ChunkParser } from "./feeder.js";
+import type { UserError } from "../messages/error.js";
+import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
 import type { SeriesTable } from "./seriesTable.js";
 
 const LF = 10;
+const CR = 13;
 const BLANK = /^[ \t\r]*$/;
 
 /** A JSON value described for a message: "a string", "null", "an array"... */
@@ -32,6 +34,73 @@ function describe(x: unknown): string {
   }
 }
 
+const QUOTE = 34;
+const BACKSLASH = 92;
+const COLON = 58;
+
+/**
+ * The number of keys of the object a valid JSON text holds, each written key counted (a key
+ * written twice counts twice, where `JSON.parse` keeps one): the strings at depth 1 followed by a
+ * colon.
+ */
+function topLevelKeys(text: string): number {
+  let depth = 0;
+  let keys = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === QUOTE) {
+      const close = closingQuote(text, i);
+      if (depth === 1) {
+        let k = close + 1;
+        while (isSpace(text.charCodeAt(k))) k++;
+        if (text.charCodeAt(k) === COLON) keys++;
+      }
+      i = close;
+    } else if (c === 123 || c === 91) depth++; // { [
+    else if (c === 125 || c === 93) depth--; // } ]
+  }
+  return keys;
+}
+
+/** The key of a valid JSON object text that is written twice (keys compared as JSON decodes them). */
+function duplicateOf(text: string): string {
+  const seen = new Set<string>();
+  let depth = 0;
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i);
+    if (c === QUOTE) {
+      const close = closingQuote(text, i);
+      if (depth === 1) {
+        let k = close + 1;
+        while (isSpace(text.charCodeAt(k))) k++;
+        if (text.charCodeAt(k) === COLON) {
+          const key = JSON.parse(text.slice(i, close + 1)) as string;
+          if (seen.has(key)) return key;
+          seen.add(key);
+        }
+      }
+      i = close;
+    } else if (c === 123 || c === 91) depth++;
+    else if (c === 125 || c === 93) depth--;
+  }
+  return "";
+}
+
+/** The closing quote of the JSON string opening at `open` (the text is valid JSON). */
+function closingQuote(text: string, open: number): number {
+  let j = open;
+  for (;;) {
+    j = text.indexOf('"', j + 1);
+    let escapes = 0;
+    while (text.charCodeAt(j - 1 - escapes) === BACKSLASH) escapes++;
+    if (escapes % 2 === 0) return j;
+  }
+}
+
+function isSpace(c: number): boolean {
+  return c === 32 || c === 9 || c === 10 || c === 13;
+}
+
 export class JsonLinesParser implements ChunkParser {
   private line = 1;
   private sawObject = false;
@@ -40,6 +109,8 @@ export class JsonLinesParser implements ChunkParser {
     private readonly table: SeriesTable,
     private readonly display: string,
     private readonly columns: ColumnMap,
+    /** The longest line, in bytes, its line break not counted (see `ChunkFeeder`). */
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
   ) {}
 
   parse(buf: Buffer, pos: number, final: boolean): number {
@@ -49,6 +120,9 @@ export class JsonLinesParser implements ChunkParser {
       if (lf === -1) {
         if (!final) return pos;
         lf = end;
+      }
+      if (lf - pos > this.limit && lf - pos - (buf[lf - 1] === CR ? 1 : 0) > this.limit) {
+        throw ingestMessages.rowTooLong(this.display, this.line, this.limit, ROW_LIMIT_MAX);
       }
       const text = buf.toString("utf8", pos, lf);
       if (!BLANK.test(text)) this.row(text, this.line);
@@ -62,6 +136,11 @@ export class JsonLinesParser implements ChunkParser {
     if (!this.sawObject) throw ingestMessages.emptyFile(this.display, "jsonl");
   }
 
+  /** The line from `start` runs past the row limit with no line feed. */
+  tooLong(_buf: Buffer, _start: number, limit: number): UserError {
+    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
+  }
+
   private row(text: string, line: number): void {
     const file = this.display;
     let parsed: unknown;
@@ -73,8 +152,9 @@ export class JsonLinesParser implements ChunkParser {
     if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) {
       throw ingestMessages.notAnObject(file, line, describe(parsed));
     }
-    this.sawObject = true;
     const row = parsed as Record<string, unknown>;
+    if (topLevelKeys(text) !== Object.keys(row).length) throw ingestMessages.duplicateKey(file, line, duplicateOf(text));
+    this.sawObject = true;
     const { time: timeKey, series: seriesKey, value: valueKey, entity: entityKey } = this.columns;
     const get = (key: string): unknown => (Object.hasOwn(row, key) ? row[key] : undefined);
 

@@ -16,6 +16,7 @@
  */
 import { createHash } from "node:crypto";
 import { existsSync, statSync } from "node:fs";
+import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
 import { Worker, isMainThread } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
@@ -56,9 +57,12 @@ export type WorkerMessage =
   | { type: "done"; report: ReadReport }
   | { type: "error"; user: boolean; message: string; exitCode: 1 | 2; stack?: string };
 
-/** Whether this file is worth a second thread: large, read from the main thread, worker built. */
+/**
+ * Whether this file is worth a second thread: large, read from the main thread, worker built, and
+ * a second core to run it on.
+ */
 export function pipelineWanted(path: string): boolean {
-  if (!isMainThread || !import.meta.url.endsWith(".js") || !existsSync(fileURLToPath(WORKER_FILE))) return false;
+  if (!isMainThread || availableParallelism() < 2 || !import.meta.url.endsWith(".js") || !existsSync(fileURLToPath(WORKER_FILE))) return false;
   try {
     return statSync(path).size >= PARALLEL_BYTES;
   } catch {
@@ -69,8 +73,8 @@ export function pipelineWanted(path: string): boolean {
 export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
   const control = new SharedArrayBuffer(4);
   const inFlight = new Int32Array(control);
-  const { path, display, columns, series } = opts;
-  const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series }, control } });
+  const { path, display, columns, series, maxRowBytes } = opts;
+  const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series, maxRowBytes }, control } });
   const hash = createHash("sha256");
   const giveBack = (spare: SpareBuffers, buffers: ArrayBufferLike[]) => worker.postMessage(spare, buffers as ArrayBuffer[]);
   return new Promise<ReadReport>((resolve, reject) => {

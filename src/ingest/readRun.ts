@@ -8,21 +8,21 @@
  * parsed; the feeder copies each chunk into its working buffer.
  *
  * Memory stays bounded whatever the file's length: one chunk, the part of a row left over at its
- * end, and one entry per distinct series. A large file read from the main thread is parsed on a
+ * end (at most the row limit, `maxRowBytes`), and one entry per distinct series. A large file read from the main thread is parsed on a
  * second thread while this one feeds the measures (`pipeline.ts`).
  */
 import { createHash } from "node:crypto";
 import { pipelineWanted, readRunPipelined } from "./pipeline.js";
-import { createReadStream } from "node:fs";
-import { open } from "node:fs/promises";
+import { constants } from "node:fs";
+import { type FileHandle, lstat, open, stat } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import type { ColumnMap } from "../manifest/types.js";
 import { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { CsvParser } from "./csvParser.js";
-import { ChunkFeeder } from "./feeder.js";
+import { ChunkFeeder, DEFAULT_ROW_LIMIT } from "./feeder.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
-import { RUN_EXTENSIONS, runFormat } from "./runFile.js";
+import { RUN_EXTENSIONS, notFileKind, runFormat } from "./runFile.js";
 import { SeriesTable, type RowSink } from "./seriesTable.js";
 import { mark } from "../timing.js";
 
@@ -60,6 +60,11 @@ export interface ReadOptions {
   onRow: RowSink;
   /** Read buffer size in bytes (default 1 MiB). */
   chunkSize?: number;
+  /**
+   * The longest row in bytes, its line break not counted (default `DEFAULT_ROW_LIMIT`, 1 MiB): a
+   * longer row is an input error, found once that many bytes of it are held (`ChunkFeeder`).
+   */
+  maxRowBytes?: number;
   /**
    * Where the file's bytes as stored go, in order, for the SHA-256 to be computed elsewhere (the
    * reader thread hands them to the main thread, which has time to spare); the report's `sha256`
@@ -105,12 +110,13 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
 
+  const limit = opts.maxRowBytes ?? DEFAULT_ROW_LIMIT;
   const table = new SeriesTable(opts.series, opts.onRow, display);
   const parser =
     format.format === "csv"
-      ? new CsvParser(table, display, opts.columns)
-      : new JsonLinesParser(table, display, opts.columns);
-  const feeder = new ChunkFeeder(parser, chunkSize);
+      ? new CsvParser(table, display, opts.columns, limit)
+      : new JsonLinesParser(table, display, opts.columns, limit);
+  const feeder = new ChunkFeeder(parser, chunkSize, limit);
   const hash = opts.storedBytes === undefined ? createHash("sha256") : null;
   const stored = opts.storedBytes ?? ((chunk: Buffer) => hash!.update(chunk));
   let bytes = 0;
@@ -126,41 +132,45 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
     }
   };
   try {
-    if (!format.gzip) {
-      const file = await open(opts.path, "r");
-      // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
-      let here = Buffer.allocUnsafe(chunkSize);
-      let there = Buffer.allocUnsafe(chunkSize);
-      let next = file.read(here, 0, chunkSize, null);
-      try {
-        for (;;) {
-          const { bytesRead: n } = await next;
-          if (n === 0) break;
-          const chunk = here.subarray(0, n);
-          [here, there] = [there, here];
-          next = file.read(here, 0, chunkSize, null);
-          stored(chunk);
-          bytes += n;
-          parsed(() => feeder.push(chunk));
+    const file = await openRunFile(opts.path, display);
+    try {
+      if (!format.gzip) {
+        // Two read buffers: the next read runs on libuv's thread while this chunk is parsed.
+        let here = Buffer.allocUnsafe(chunkSize);
+        let there = Buffer.allocUnsafe(chunkSize);
+        let next = file.read(here, 0, chunkSize, null);
+        try {
+          for (;;) {
+            const { bytesRead: n } = await next;
+            if (n === 0) break;
+            const chunk = here.subarray(0, n);
+            [here, there] = [there, here];
+            next = file.read(here, 0, chunkSize, null);
+            stored(chunk);
+            bytes += n;
+            parsed(() => feeder.push(chunk));
+          }
+        } finally {
+          await next.catch(() => {}); // the read ahead, also when parsing stopped at an error
         }
-      } finally {
-        await next.catch(() => {}); // the read ahead, also when parsing stopped at an error
-        await file.close();
+      } else {
+        const raw = file.createReadStream({ highWaterMark: chunkSize, autoClose: false });
+        try {
+          const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
+          raw.on("data", (chunk: Buffer | string) => {
+            stored(chunk as Buffer);
+            bytes += chunk.length;
+          });
+          raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
+          raw.pipe(gunzip);
+          for await (const chunk of gunzip) parsed(() => feeder.push(chunk as Buffer));
+        } finally {
+          raw.destroy();
+          if (!raw.closed) await new Promise<void>((done) => raw.once("close", () => done()));
+        }
       }
-    } else {
-      const raw = createReadStream(opts.path, { highWaterMark: chunkSize });
-      try {
-        const gunzip = createGunzip({ chunkSize: Math.max(chunkSize, 64) });
-        raw.on("data", (chunk: Buffer | string) => {
-          stored(chunk as Buffer);
-          bytes += chunk.length;
-        });
-        raw.on("error", (e) => gunzip.destroy(new SourceError(e)));
-        raw.pipe(gunzip);
-        for await (const chunk of gunzip) parsed(() => feeder.push(chunk as Buffer));
-      } finally {
-        raw.destroy();
-      }
+    } finally {
+      await file.close();
     }
   } catch (e) {
     if (e === failure || e instanceof UserError) throw e;
@@ -170,6 +180,41 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   feeder.finish();
   mark(`read ${display}`);
   return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
+}
+
+/**
+ * Opens a run file for reading, and refuses what is not a regular file (a pipe, a socket, a device,
+ * itself or through a link) by what it is. The path is looked at before it is opened, since opening
+ * a socket fails and opening a pipe waits for a writer; the open file is looked at again, so a path
+ * replaced in between is caught too. Opened without blocking: reading a regular file never blocks.
+ */
+async function openRunFile(path: string, display: string): Promise<FileHandle> {
+  await refuseIfNotAFile(path, display);
+  const file = await open(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
+  const kind = notFileKind(await file.stat());
+  if (kind !== null) {
+    await file.close();
+    throw await refusal(path, display, kind);
+  }
+  return file;
+}
+
+/**
+ * Throws the reader's message when `path` leads to something other than a regular file (a pipe, a
+ * socket, a device, a folder), itself or through a link; a path that does not exist passes (the
+ * open that follows says so). For readers that open the file by other means first (`init`).
+ */
+export async function refuseIfNotAFile(path: string, display: string): Promise<void> {
+  const kind = await stat(path).then(notFileKind, () => null);
+  if (kind !== null) throw await refusal(path, display, kind);
+}
+
+async function refusal(path: string, display: string, kind: string): Promise<UserError> {
+  const link = await lstat(path).then(
+    (s) => s.isSymbolicLink(),
+    () => false,
+  );
+  return kind === "a folder" ? ingestMessages.unreadableFile(display, "EISDIR") : ingestMessages.notARegularFile(display, kind, link);
 }
 
 /** The user's message for an error of the file system or of gunzip. */

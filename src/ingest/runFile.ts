@@ -43,3 +43,28 @@ export function runIdOf(path: string): string {
   }
   return name;
 }
+
+/** What `stat` says a path is (the methods of `fs.Stats`). */
+export interface FileType {
+  isFile(): boolean;
+  isDirectory(): boolean;
+  isFIFO(): boolean;
+  isSocket(): boolean;
+  isCharacterDevice(): boolean;
+  isBlockDevice(): boolean;
+}
+
+/**
+ * What a path that is not a regular file is, in words ("a named pipe (FIFO)", ...), or null for a
+ * regular file. Run files are read to their end and hashed, so only regular files qualify: a pipe
+ * or a device has no end to read to (`/dev/zero` never stops), and no fixed bytes to record.
+ */
+export function notFileKind(type: FileType): string | null {
+  if (type.isFile()) return null;
+  if (type.isDirectory()) return "a folder";
+  if (type.isFIFO()) return "a named pipe (FIFO)";
+  if (type.isSocket()) return "a socket";
+  if (type.isCharacterDevice()) return "a character device";
+  if (type.isBlockDevice()) return "a block device";
+  return "not a regular file";
+}

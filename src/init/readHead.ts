@@ -13,7 +13,8 @@ import { open } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import { StringDecoder } from "node:string_decoder";
 import type { ColumnMap } from "../manifest/types.js";
-import { readRun } from "../ingest/readRun.js";
+import { DEFAULT_ROW_LIMIT } from "../ingest/feeder.js";
+import { readRun, refuseIfNotAFile } from "../ingest/readRun.js";
 import { runFormat } from "../ingest/runFile.js";
 
 /** What the first rows of one series in one file look like. */
@@ -70,6 +71,7 @@ class HeadFull extends Error {}
  * Throws the reader's `UserError` when the file cannot be read as a run file.
  */
 export async function readHead(path: string, display: string, columns: ColumnMap, limit: number): Promise<FileHead> {
+  await refuseIfNotAFile(path, display); // a pipe would block `discover`, a device never end
   const found = await discover(path, columns, limit);
   const names = found.series;
   const heads: SeriesHead[] = names.map((name) => ({
@@ -203,6 +205,7 @@ async function discover(path: string, columns: ColumnMap, limit: number): Promis
         if (!csv.push(text)) break;
       } else {
         pending += text;
+        if (pending.length > DEFAULT_ROW_LIMIT && pending.indexOf("\n") < 0) break; // the reader says the line is too long
         let nl: number;
         while ((nl = pending.indexOf("\n")) >= 0) {
           const line = pending.slice(0, nl);
@@ -233,11 +236,17 @@ class CsvRecords {
   private quoted = false;
   private afterQuote = false;
   private stopped = false;
+  /** Characters of the record read so far: past the row limit the reader proper refuses the file. */
+  private size = 0;
   constructor(private readonly onRecord: (fields: string[]) => boolean) {}
 
   push(text: string): boolean {
     for (let i = 0; i < text.length && !this.stopped; i++) {
       const c = text[i];
+      if (++this.size > DEFAULT_ROW_LIMIT) {
+        this.stopped = true;
+        break;
+      }
       if (this.quoted) {
         if (c === '"') {
           this.quoted = false;
@@ -266,6 +275,7 @@ class CsvRecords {
   }
 
   private end(): void {
+    this.size = 0;
     this.fields.push(this.field);
     const fields = this.fields;
     this.field = "";

@@ -3,6 +3,7 @@
  * every default filled in, every name resolved and every run file found. Each check throws a
  * located message for the first problem it meets.
  */
+import { DEFAULT_ROW_LIMIT } from "../ingest/feeder.js";
 import { manifestMessages } from "../messages/index.js";
 import { closest } from "./didYouMean.js";
 import type { KeyPath } from "./keyPath.js";
@@ -200,7 +201,8 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
 
     const analysis: Analysis = toAnalysis(scenario.analysis ?? spec.analysis);
     const columns: ColumnMap = { ...DEFAULT_COLUMNS, ...spec.columns, ...scenario.columns };
-    return { name, runs, measures, warmup, analysis, columns };
+    const maxRowBytes = scenario.max_row_bytes ?? spec.max_row_bytes ?? DEFAULT_ROW_LIMIT;
+    return { name, runs, measures, warmup, analysis, columns, maxRowBytes };
   }
 
   /**

@@ -2,10 +2,10 @@
  * A scenario's `runs` entry turned into run files: globs expanded (sorted, so the result does not
  * depend on the order a folder lists its files), plain paths checked, ids taken from file names.
  */
-import { statSync } from "node:fs";
+import { lstatSync, statSync } from "node:fs";
 import { relative, resolve, sep } from "node:path";
 import { globSync, isDynamicPattern } from "tinyglobby";
-import { RUN_EXTENSIONS, runFormat, runIdOf } from "../ingest/runFile.js";
+import { RUN_EXTENSIONS, notFileKind, runFormat, runIdOf } from "../ingest/runFile.js";
 import { manifestMessages } from "../messages/index.js";
 import type { KeyPath } from "./keyPath.js";
 import type { ManifestSource } from "./manifestSource.js";
@@ -34,19 +34,41 @@ function relativeFile(baseDir: string, path: string): string {
 /** The files one path or glob names, relative to `baseDir` and sorted. */
 function filesOf(pattern: string, origin: KeyPath, baseDir: string, source: ManifestSource): string[] {
   if (isDynamicPattern(pattern)) {
+    // The walker lists regular files and links; a link may lead to a device (`/dev/zero`).
     const found = globSync(pattern, { cwd: baseDir, onlyFiles: true, expandDirectories: false, absolute: true });
     if (found.length === 0) throw manifestMessages.globMatchedNothing(source.place(origin), pattern, baseDir);
-    return found.map((p) => resolve(p)).sort((a, b) => byCodeUnits(relativeFile(baseDir, a), relativeFile(baseDir, b)));
+    const files = found.map((p) => resolve(p)).sort((a, b) => byCodeUnits(relativeFile(baseDir, a), relativeFile(baseDir, b)));
+    for (const path of files) {
+      const kind = kindOf(path);
+      if (kind !== null && kind !== MISSING) throw manifestMessages.runPathNotAFile(source.place(origin), relativeFile(baseDir, path), kind, isLink(path));
+    }
+    return files;
   }
   const path = resolve(baseDir, pattern);
-  let isFile: boolean;
-  try {
-    isFile = statSync(path).isFile();
-  } catch {
-    throw manifestMessages.runFileMissing(source.place(origin), pattern, baseDir);
-  }
-  if (!isFile) throw manifestMessages.runPathIsFolder(source.place(origin), pattern);
+  const kind = kindOf(path);
+  if (kind === MISSING) throw manifestMessages.runFileMissing(source.place(origin), pattern, baseDir);
+  if (kind === "a folder") throw manifestMessages.runPathIsFolder(source.place(origin), pattern);
+  if (kind !== null) throw manifestMessages.runPathNotAFile(source.place(origin), pattern, kind, isLink(path));
   return [path];
+}
+
+const MISSING = "missing";
+
+/** What the path leads to when it is not a regular file (links followed), MISSING, or null for a file. */
+function kindOf(path: string): string | null {
+  try {
+    return notFileKind(statSync(path));
+  } catch {
+    return MISSING;
+  }
+}
+
+function isLink(path: string): boolean {
+  try {
+    return lstatSync(path).isSymbolicLink();
+  } catch {
+    return false;
+  }
 }
 
 /**

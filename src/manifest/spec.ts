@@ -15,6 +15,7 @@ export interface StudySpec {
   columns?: ColumnsSpec;
   analysis?: AnalysisSpec;
   tables?: { max_rows?: number; edge_rows?: number };
+  max_row_bytes?: number;
   scenarios: ScenarioSpec[];
   measures: MeasureSpec[];
   compare?: ComparisonSpec[];
@@ -44,6 +45,7 @@ export interface ScenarioSpec {
   warmup?: WarmupSpec;
   columns?: ColumnsSpec;
   analysis?: AnalysisSpec;
+  max_row_bytes?: number;
   runs: string | (string | RunSpec)[];
   /** Overrides of measure options, by measure name. */
   measures?: Record<string, OverrideSpec>;

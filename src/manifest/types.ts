@@ -105,6 +105,8 @@ export interface Scenario {
   warmup: Warmup;
   analysis: Analysis;
   columns: ColumnMap;
+  /** The longest row of a run file, in bytes (`max_row_bytes`; the scenario's, else the study's, else 1 MiB). */
+  maxRowBytes: number;
 }
 
 export interface Comparison {

@@ -51,6 +51,20 @@ export function unreadableFile(file: string, code: string | undefined): UserErro
   return located({ file }, `cannot read this run file: ${systemReason(code)}`, todo);
 }
 
+/**
+ * The run path is a pipe, a socket or a device (`kind` in words, see `notFileKind`), itself or
+ * through a symbolic link (`link`).
+ */
+export function notARegularFile(file: string, kind: string, link: boolean): UserError {
+  const what = link ? `this run path is a symbolic link to ${kind}, not to a regular file` : `this run path is ${kind}, not a regular file`;
+  const device = kind.endsWith("device") ? " (a device such as /dev/zero gives bytes without end)" : "";
+  return located(
+    { file },
+    `${what}${device}: Sojourn reads a run file to its end and records its bytes, so it reads regular files only`,
+    "save the run's output to a regular file first (for example `cat PIPE > runs/rep-01.csv`) and name that file in the scenario's `runs:`",
+  );
+}
+
 /** The file name ends in none of the run-file extensions. */
 export function unsupportedExtension(file: string, supported: readonly string[]): UserError {
   return located(
@@ -84,6 +98,24 @@ export function missingColumns(
   );
 }
 
+/** A CSV header names one column twice (columns counted from 1). */
+export function duplicateColumn(file: string, line: number, name: string, first: number, second: number): UserError {
+  return located(
+    { file, line },
+    `the header names the column \`${name}\` twice (columns ${first} and ${second}), so which of its cells a row means would be a guess`,
+    "rename one of the two columns in the header, or leave the extra one out of the file",
+  );
+}
+
+/** A JSON Lines object with one key twice. */
+export function duplicateKey(file: string, line: number, key: string): UserError {
+  return located(
+    { file, line },
+    `the object has the key \`${key}\` twice; JSON readers keep only one of the two values, so the other would be lost without a word`,
+    "write each key once in every object",
+  );
+}
+
 /** An entity-based measure needs the entity column and the header has none. */
 export function missingEntityColumn(
   file: string,
@@ -107,12 +139,67 @@ export function tooFewFields(file: string, line: number, found: number, needed: 
   );
 }
 
+/**
+ * A CSV row with more cells than the header has columns. `decimalComma`: the extra cells look
+ * like numbers written with a decimal comma (`1,5` for 1.5).
+ */
+export function tooManyFields(file: string, line: number, found: number, columns: number, decimalComma: boolean): UserError {
+  const what = `this row has ${found} cells, but the header names only ${columns} column${columns === 1 ? "" : "s"}`;
+  if (decimalComma) {
+    return located(
+      { file, line },
+      `${what}: the extra cells look like numbers written with a decimal comma (\`1,5\` for 1.5), which a CSV file reads as two cells`,
+      "write decimal numbers with a point (1.5): set the model's or the spreadsheet's export to use a point as the decimal separator",
+    );
+  }
+  return located(
+    { file, line },
+    `${what}, so it is not clear which cell belongs to which column`,
+    'give every row at most as many cells as the header: name the extra columns in the header, or quote a cell that holds a comma ("a,b")',
+  );
+}
+
 /** A quoted CSV field is still open at the end of the file. */
 export function unterminatedQuote(file: string, line: number): UserError {
   return located(
     { file, line },
     "a quoted field opened on this line is never closed: the file ends inside the quotes",
     'close the field with a double quote; inside a quoted field, write a double quote as two ("")',
+  );
+}
+
+/** A byte count in words: `1 MiB (1048576 bytes)`, `1500 bytes`. */
+export function byteCount(n: number): string {
+  for (const [unit, size] of [
+    ["GiB", 2 ** 30],
+    ["MiB", 2 ** 20],
+    ["KiB", 2 ** 10],
+  ] as const) {
+    if (n >= size && n % size === 0) return `${n / size} ${unit} (${n} bytes)`;
+  }
+  return `${n} byte${n === 1 ? "" : "s"}`;
+}
+
+/** How to raise the row limit, for the messages about long rows. */
+function raiseLimit(limit: number, max: number): string {
+  return `if the rows really are this long, raise the limit in the manifest with \`max_row_bytes: ${Math.min(2 * limit, max)}\` (in bytes, at most ${max}; at the top or in the scenario)`;
+}
+
+/** A row (CSV record or JSON line) longer than the row limit. */
+export function rowTooLong(file: string, line: number, limit: number, max: number): UserError {
+  return located(
+    { file, line },
+    `this row is longer than the row limit of ${byteCount(limit)}; rows of run files are short, so this is likely a file that is not a run file, or one without line breaks`,
+    `check that the file holds one row per line; ${raiseLimit(limit, max)}`,
+  );
+}
+
+/** A quoted CSV field still open after the row limit's worth of bytes. */
+export function quoteTooLong(file: string, line: number, limit: number, max: number): UserError {
+  return located(
+    { file, line },
+    `a quoted field opened on this line is still open after ${byteCount(limit)} (the row limit): either its closing quote is missing, so that the rest of the file reads as inside it, or the row is longer than the limit`,
+    `close the field with a double quote; inside a quoted field, write a double quote as two (""); ${raiseLimit(limit, max)}`,
   );
 }
 
@@ -133,9 +220,10 @@ export function missingTime(file: string, line: number): UserError {
 /** A time or value that is not a finite decimal number. */
 export function notANumber(file: string, line: number, cell: "time" | "value", text: string): UserError {
   const allowed = "a decimal number such as 12, -0.5 or 1.5e3 (no hex, Infinity or NaN; at most about 1.8e308)";
+  const comma = /^\s*[-+]?\d+,\d+\s*$/.test(text) ? " (it looks like a number with a decimal comma: write 1.5, not 1,5)" : "";
   return located(
     { file, line },
-    `the ${cell} \`${text}\` is not a finite decimal number`,
+    `the ${cell} \`${text}\` is not a finite decimal number${comma}`,
     cell === "time" ? `write the time as ${allowed}` : `write the value as ${allowed}, or leave it empty`,
   );
 }

@@ -232,6 +232,15 @@ export function runPathIsFolder(place: Place, path: string): UserError {
   return located(place, `${quote(path)} is a folder, not a run file`, `Name the files, or use a glob such as ${path.replace(/\/$/, "")}/*.csv.`);
 }
 
+/** A run path (or a glob's match) that is a pipe, a socket or a device: `kind` in words. */
+export function runPathNotAFile(place: Place, path: string, kind: string, link: boolean): UserError {
+  return located(
+    place,
+    `${quote(path)} is ${link ? `a symbolic link to ${kind}` : kind}, not a regular file; Sojourn reads run files to their end and records their bytes, so it reads regular files only`,
+    "Save the run's output to a regular file first (for example cat PIPE > runs/rep-01.csv) and name that file.",
+  );
+}
+
 export function unsupportedRunFile(place: Place, file: string, extensions: readonly string[]): UserError {
   return located(place, `the run file ${quote(file)} has an extension Sojourn does not read`, `Use one of: ${list(extensions)}; or narrow the pattern so it matches only run files.`);
 }

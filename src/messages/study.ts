@@ -99,3 +99,12 @@ export const seriesInNoRun = (
     `${suggestion !== null ? `did you mean "${suggestion}"? ` : ""}correct the series name in the manifest (or map the right column with \`columns:\`); if the series is a rare event that may truly never happen, add \`may_be_absent: true\` to the measure.`,
   );
 };
+
+/**
+ * A note (not an error): fewer worker threads are used than `--workers` or `SOJOURN_WORKERS`
+ * (`from`) asked for, because there are fewer cores or runs.
+ */
+export function workersCapped(from: string, asked: number, used: number, cores: number, runs: number): string {
+  const why = [used === cores ? `this machine has ${cores} core${cores === 1 ? "" : "s"}` : null, used === runs ? `the study has ${runs} run${runs === 1 ? "" : "s"}` : null].filter((x) => x !== null);
+  return `note: ${from} asked for ${asked} workers; using ${used}, since ${why.join(" and ")} (a worker more than the cores or the runs would only wait)`;
+}

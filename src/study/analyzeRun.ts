@@ -106,6 +106,7 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
     path: run.path,
     display: run.file,
     columns: scenario.columns,
+    maxRowBytes: scenario.maxRowBytes,
     series: requests,
     onRow(seriesIndex, time, value, entity, line) {
       if (time > lastRow) lastRow = time;

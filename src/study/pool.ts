@@ -22,6 +22,7 @@ import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { Worker } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
+import * as studyMessages from "../messages/study.js";
 import { analyzeRun, type RunAnalysis, type RunPlan } from "./analyzeRun.js";
 
 /**
@@ -42,18 +43,37 @@ export function workersAvailable(): boolean {
   return import.meta.url.endsWith(".js") && existsSync(fileURLToPath(WORKER_FILE));
 }
 
+/** The workers to use, and a note for the user when fewer are used than were asked for. */
+export interface WorkerChoice {
+  count: number;
+  note: string | null;
+}
+
 /**
- * The number of workers to use: `requested` (the `--workers` flag), else `SOJOURN_WORKERS`, else
- * the machine's available cores; never more than the runs to analyse, never less than 1.
+ * The workers to use: `requested` (the `--workers` flag), else `SOJOURN_WORKERS`, else the
+ * machine's available cores; never more than the cores (a thread more than the cores only waits
+ * for one) nor than the runs to analyse (a thread without a run does nothing), never less than 1.
+ * When the flag or the variable asked for more, `note` says how many are used and why.
  */
-export function workerCount(runs: number, requested?: number): number {
+export function chooseWorkers(runs: number, requested?: number, cores = availableParallelism()): WorkerChoice {
   let n = requested;
+  let from = "--workers";
   if (n === undefined) {
     const env = process.env.SOJOURN_WORKERS;
-    if (env !== undefined && /^\d+$/.test(env.trim())) n = Number(env);
+    if (env !== undefined && /^\d+$/.test(env.trim())) {
+      n = Number(env);
+      from = "SOJOURN_WORKERS";
+    }
   }
-  if (n === undefined || !(n >= 1)) n = availableParallelism();
-  return Math.max(1, Math.min(Math.floor(n), runs));
+  if (n === undefined || !(n >= 1)) return { count: Math.max(1, Math.min(cores, runs)), note: null };
+  const asked = Math.floor(n);
+  const count = Math.max(1, Math.min(asked, cores, runs));
+  return { count, note: count < asked ? studyMessages.workersCapped(from, asked, count, cores, runs) : null };
+}
+
+/** `chooseWorkers(runs, requested).count`. */
+export function workerCount(runs: number, requested?: number): number {
+  return chooseWorkers(runs, requested).count;
 }
 
 /** Analyses the plans one after another in this thread. */

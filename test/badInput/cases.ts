@@ -10,12 +10,13 @@
  * sections 1 and 3 for what counts as bad, and the message catalogue `src/messages/*.ts` for the
  * words.
  */
-import { spawnSync } from "node:child_process";
+import { execFileSync, spawnSync } from "node:child_process";
 import { createHash } from "node:crypto";
 import { appendFileSync, chmodSync, mkdirSync, realpathSync, symlinkSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { gzipSync } from "node:zlib";
+import { ROW_LIMIT_MAX } from "../../src/ingest/feeder.js";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
@@ -108,6 +109,9 @@ const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue
 const M_OVER = manifest("  - {name: oven, kind: utilization, series: busy, capacity: ovens}\n");
 const M_CLOCK = manifest(QUEUE, "{name: morning, start: 1000000000, end: 1000000000.01, runs: runs/*.csv}");
 const M_ABSENT = manifest(QUEUE + "  - {name: served, kind: count, series: sevred}\n");
+const M_PIPE = manifest(QUEUE, "{name: morning, end: 10, runs: [runs/day-1.csv, runs/day-2.csv]}");
+const M_ROWLIMIT = manifest(QUEUE, undefined, "max_row_bytes: 1024\n");
+const M_ROWLIMIT_LOW = manifest(QUEUE, undefined, "max_row_bytes: 100\n");
 const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
 
 // --- manifests for the encoding, nesting, alias and bounds cases --------------------------------
@@ -199,6 +203,8 @@ const SUMMARY_EMPTY = (() => {
 })();
 const CHANGED_CSV = GOOD_CSV.replace("3,queue,5", "3,queue,6");
 
+/** A row of `n` bytes: time, series, value and a long entity cell. */
+const longRow = (time: number, n: number): string => `${time},queue,2,` + "e".repeat(n - `${time},queue,2,`.length);
 const LONG_TEXT = Array.from({ length: 400 }, (_, i) => `${4 + i / 10},queue,${i % 7},`).join("\n") + "\n";
 
 export const CASES: BadInputCase[] = [
@@ -237,6 +243,28 @@ export const CASES: BadInputCase[] = [
     place: "runs/day-1.csv",
     setup: (dir) => chmodSync(join(dir, "runs/day-1.csv"), 0),
     unprivileged: true,
+  },
+  {
+    id: "run-path-pipe",
+    title: "A run path that is a named pipe, a socket or a device",
+    what: "A run path names a named pipe (FIFO), here `runs/day-2.csv` made with `mkfifo`; sockets and devices are refused the same way. A run file is read to its end and its bytes recorded, so it must be a regular file.",
+    files: { [STUDY]: M_PIPE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.runPathNotAFile(at(M_PIPE, "runs/day-2.csv", "scenarios[0].runs[1]"), "runs/day-2.csv", "a named pipe (FIFO)", false),
+    setup: (dir) => execFileSync("mkfifo", [join(dir, "runs/day-2.csv")]),
+  },
+  {
+    id: "run-path-device-link",
+    title: "A run path that is a link to a device",
+    what: "A glob matches a symbolic link to `/dev/zero` (here `runs/day-2.csv`), which would give zero bytes without end. A link to a regular file is read as that file.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.runPathNotAFile(at(manifest(QUEUE), "runs/*.csv", "scenarios[0].runs"), "runs/day-2.csv", "a character device", true),
+    setup: (dir) => symlinkSync("/dev/zero", join(dir, "runs/day-2.csv")),
   },
   {
     id: "empty-file",
@@ -315,6 +343,63 @@ export const CASES: BadInputCase[] = [
     status: 1,
     message: () => ingestMessages.tooFewFields("runs/day-1.csv", 3, 1, 2),
     place: "runs/day-1.csv:3",
+  },
+  {
+    id: "row-too-long",
+    title: "A row longer than the row limit",
+    what: "A row of a run file is longer than `max_row_bytes` (1 MiB unless the manifest says otherwise; 1024 bytes here, and line 3 of `runs/day-1.csv` is 2000 bytes long). A file that is not a run file, or has no line breaks at all, stops here at once, however large it is.",
+    files: { [STUDY]: M_ROWLIMIT, "runs/day-1.csv": Buffer.from(`time,series,value,entity\n0,queue,2,\n${longRow(3, 2000)}\n`) },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.rowTooLong("runs/day-1.csv", 3, 1024, ROW_LIMIT_MAX),
+    place: "runs/day-1.csv:3",
+    // A large file is read on a second thread: the limit must reach it (every file is large here).
+    env: { SOJOURN_PARALLEL_BYTES: "1" },
+  },
+  {
+    id: "quote-too-long",
+    title: "An unterminated quote in a long file",
+    what: "A quoted field opens on line 3 and never closes, so the rest of the file would read as inside it; once the row limit's worth of bytes are inside the quote, Sojourn stops and names the line where the quote opened.",
+    files: { [STUDY]: M_ROWLIMIT, "runs/day-1.csv": Buffer.from(`time,series,value\n0,queue,2\n3,"queue,5\n${LONG_TEXT}`) },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.quoteTooLong("runs/day-1.csv", 3, 1024, ROW_LIMIT_MAX),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "decimal-comma",
+    title: "A decimal comma",
+    what: "A number written with a decimal comma (`1,5` for 1.5) reads as two cells, so the row has more cells than the header has columns.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,1,5\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.tooManyFields("runs/day-1.csv", 3, 4, 3, true),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "too-many-cells",
+    title: "A row with more cells than the header",
+    what: "A row has a cell the header gives no column for, so which cell belongs to which column is a guess.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5,till 2\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.tooManyFields("runs/day-1.csv", 3, 4, 3, false),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "duplicate-column",
+    title: "A header that names a column twice",
+    what: "Two columns of the header have the same name, so a row's cell for that name would be a guess.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value,value\n0,queue,2,3\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.duplicateColumn("runs/day-1.csv", 1, "value", 3, 4),
+    place: "runs/day-1.csv:1",
   },
   {
     id: "empty-time",
@@ -427,6 +512,17 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     startsWith: () => "runs/day-1.jsonl:2: `time` (the time) is",
+    place: "runs/day-1.jsonl:2",
+  },
+  {
+    id: "json-duplicate-key",
+    title: "A JSON object with a key twice",
+    what: "An object of a JSON Lines file has the same key twice; a JSON reader keeps one of the two values and drops the other.",
+    files: { [STUDY]: manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.jsonl}"), "runs/day-1.jsonl": '{"time": 0, "series": "queue", "value": 2}\n{"time": 3, "series": "queue", "value": 5, "value": 4}\n' },
+    show: ["runs/day-1.jsonl"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.duplicateKey("runs/day-1.jsonl", 2, "value"),
     place: "runs/day-1.jsonl:2",
   },
   {
@@ -626,6 +722,16 @@ export const CASES: BadInputCase[] = [
     status: 0,
     contains: [`morning / wait: ${warnings.runsWithoutValue(["day-2"], 1, 2)}`],
   },
+  {
+    id: "carriage-return-line-ends",
+    title: "Lines that end in a carriage return alone (not an error)",
+    what: "Some old programs end each line with a carriage return alone instead of a line feed. The first line break of a file decides: in such a file every lone carriage return is read as a line break, so the rows and their line numbers are those of the same file with line feeds.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": Buffer.from("time,series,value\r0,queue,2\r3,queue,5\r11,queue,1\r") },
+    show: [STUDY],
+    args: check,
+    status: 0,
+    contains: ["3 rows (1 after end, 0 before collection, 0 of unread series)"],
+  },
   // --- the manifest -------------------------------------------------------------------------
   {
     id: "invalid-yaml",
@@ -708,6 +814,22 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.confidenceOutOfRange(at(M_CONFIDENCE, "95", "confidence"), 95),
+  },
+  {
+    id: "row-limit-out-of-range",
+    title: "A row limit out of range",
+    what: "`max_row_bytes` is a number of bytes from 1024 (1 KiB) to 268435456 (256 MiB).",
+    files: { [STUDY]: M_ROWLIMIT_LOW, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () =>
+      manifestMessages.numberOutOfRange(
+        at(M_ROWLIMIT_LOW, "100", "max_row_bytes"),
+        100,
+        "at least 1024",
+        "the longest row of a run file in bytes, a whole number from 1024 (1 KiB) to 268435456 (256 MiB); default 1048576 (1 MiB)",
+      ),
   },
   {
     id: "no-end",

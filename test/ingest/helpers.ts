@@ -41,7 +41,7 @@ export interface Call {
 export async function record(
   path: string,
   series: SeriesRequest[],
-  extra: { columns?: ColumnMap; chunkSize?: number; display?: string } = {},
+  extra: { columns?: ColumnMap; chunkSize?: number; display?: string; maxRowBytes?: number } = {},
 ): Promise<{ calls: Call[]; report: ReadReport }> {
   const calls: Call[] = [];
   const report = await readRun({
@@ -50,6 +50,7 @@ export async function record(
     columns: extra.columns ?? COLUMNS,
     series,
     chunkSize: extra.chunkSize,
+    maxRowBytes: extra.maxRowBytes,
     onRow: (s, time, value, entity, line) => calls.push({ series: s, time, value, entity, line }),
   });
   return { calls, report };

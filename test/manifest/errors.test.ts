@@ -55,8 +55,8 @@ const SCENARIOS = `scenarios:
     runs: runs/three/*.csv
 `;
 const SCENARIO_NAMES = ["two-booths", "three-booths"];
-const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "analysis", "tables", "scenarios", "measures", "compare"];
-const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "analysis", "runs", "measures"];
+const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "analysis", "tables", "max_row_bytes", "scenarios", "measures", "compare"];
+const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "analysis", "max_row_bytes", "runs", "measures"];
 const OVERRIDABLE = ["capacity", "capacity_initial", "initial", "quantiles", "within", "at_least", "target"];
 
 describe("loadStudy: reading and YAML syntax", () => {

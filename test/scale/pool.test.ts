@@ -1,10 +1,12 @@
 import { existsSync, mkdirSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
+import { availableParallelism } from "node:os";
 import { join, relative } from "node:path";
 import { beforeAll, describe, expect, it } from "vitest";
 import { writeRunCsv } from "../../src/demo/ferry.js";
 import { simulateQueue } from "../../src/demo/queue.js";
 import * as summaryMessages from "../../src/messages/summary.js";
-import { workerCount, workersAvailable } from "../../src/study/pool.js";
+import { chooseWorkers, workerCount, workersAvailable } from "../../src/study/pool.js";
+import * as studyMessages from "../../src/messages/study.js";
 import { sojourn } from "../helpers/cli.js";
 import { tempFolder } from "../helpers/tempStudy.js";
 
@@ -70,20 +72,40 @@ compare:
 });
 
 describe("workerCount and the in-process fallback", () => {
-  it("workerCount(runs, n) takes the flag, then SOJOURN_WORKERS, then the cores; never more than the runs, never less than 1", () => {
+  it("workerCount(runs, n) takes the flag, then SOJOURN_WORKERS, then the cores; never more than the cores or the runs, never less than 1", () => {
     expect(workerCount(16, 2)).toBe(2);
     expect(workerCount(1, 2)).toBe(1);
-    expect(workerCount(16, 40)).toBe(16);
+    expect(workerCount(16, 40)).toBe(Math.min(16, availableParallelism())); // never more than the cores
     const before = process.env.SOJOURN_WORKERS;
     process.env.SOJOURN_WORKERS = "3";
     try {
-      expect(workerCount(16)).toBe(3);
+      expect(workerCount(16)).toBe(Math.min(3, availableParallelism()));
       expect(workerCount(16, 1)).toBe(1);
     } finally {
       if (before === undefined) delete process.env.SOJOURN_WORKERS;
       else process.env.SOJOURN_WORKERS = before;
     }
     expect(workerCount(16)).toBeGreaterThanOrEqual(1);
+  });
+
+  it("chooseWorkers(runs, n, cores) never gives more than the cores or the runs, and notes when it gives fewer than asked", () => {
+    // Computed by hand: min(asked, cores, runs), at least 1.
+    expect(chooseWorkers(16, 2, 4)).toEqual({ count: 2, note: null });
+    expect(chooseWorkers(16, 64, 4)).toEqual({ count: 4, note: studyMessages.workersCapped("--workers", 64, 4, 4, 16) });
+    expect(chooseWorkers(3, 64, 4)).toEqual({ count: 3, note: studyMessages.workersCapped("--workers", 64, 3, 4, 3) });
+    expect(chooseWorkers(2, 64, 2).count).toBe(2);
+    expect(chooseWorkers(1, 1, 8)).toEqual({ count: 1, note: null });
+    expect(chooseWorkers(5, undefined, 8)).toEqual({ count: 5, note: null }); // the default asks for nothing
+    expect(studyMessages.workersCapped("--workers", 64, 4, 4, 16)).toContain("this machine has 4 cores");
+    expect(studyMessages.workersCapped("--workers", 64, 3, 4, 3)).toContain("the study has 3 runs");
+    const before = process.env.SOJOURN_WORKERS;
+    process.env.SOJOURN_WORKERS = "12";
+    try {
+      expect(chooseWorkers(16, undefined, 4)).toEqual({ count: 4, note: studyMessages.workersCapped("SOJOURN_WORKERS", 12, 4, 4, 16) });
+    } finally {
+      if (before === undefined) delete process.env.SOJOURN_WORKERS;
+      else process.env.SOJOURN_WORKERS = before;
+    }
   });
 
   it("workersAvailable() is false when the module is a TypeScript source (the pool then runs in process)", () => {
@@ -99,6 +121,14 @@ describe("sojourn report --workers (built command line)", () => {
     expect(sojourn(["report", manifest, "--out", two, "--workers", "2", "--quiet"]).status).toBe(0);
     expectSameFolders(one, two);
     expect(existsSync(join(two, "tables"))).toBe(true);
+  });
+
+  it("--workers 64 on a study of 6 runs uses at most the cores and the runs, and says so on standard error", () => {
+    const r = sojourn(["check", manifest, "--workers", "64"]);
+    expect(r.status).toBe(0);
+    const used = Math.min(64, availableParallelism(), 6);
+    expect(r.stderr).toContain(`sojourn: ${studyMessages.workersCapped("--workers", 64, used, availableParallelism(), 6)}\n`);
+    expect(sojourn(["check", manifest, "--workers", "1"]).stderr).not.toContain("note:");
   });
 
   it("an input error found by a worker gives the same message and status as in process", () => {
