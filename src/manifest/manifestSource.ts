@@ -34,7 +34,6 @@ export function parseManifest(text: string, file: string): ManifestSource {
   if (error !== undefined) {
     const { line, col } = lineCounter.linePos(error.pos[0]);
     const place = { file, line, column: col };
-    if (error.code === "DUPLICATE_KEY") throw manifestMessages.duplicateKey(place, keyTextAt(doc, error.pos[0]));
     throw manifestMessages.yamlSyntax(place, error.code, error.message);
   }
   checkNodes(doc, (node, path) => {
@@ -94,28 +93,14 @@ function keyOf(key: unknown): string | null {
   return null;
 }
 
-/** The text of the mapping key that starts at `offset`, for the duplicate-key message. */
-function keyTextAt(doc: Document, offset: number): string {
-  let text = "";
-  const visit = (node: unknown): void => {
-    if (text !== "") return;
-    if (isMap(node)) {
-      for (const pair of node.items) {
-        if (isScalar(pair.key) && pair.key.range?.[0] === offset) text = String(pair.key.value);
-        visit(pair.value);
-      }
-    } else if (isSeq(node)) node.items.forEach(visit);
-  };
-  visit(doc.contents);
-  return text;
-}
-
 /** Limits on the shape of a manifest, so that no text makes reading it hang or run out of memory. */
 export const MANIFEST_LIMITS = {
   /** Mappings and lists inside each other. */
   depth: 64,
   /** Values (each mapping, list, key and scalar) once every alias is written out. */
   values: 1_000_000,
+  /** Anchors and aliases together (yaml resolves each alias by a walk over all of them). */
+  anchors: 1000,
 };
 
 /**
@@ -191,7 +176,9 @@ export function firstInvalidUtf8(b: Uint8Array): number {
  */
 function compose(tokens: CST.Token[], text: string): Document {
   let doc: Document | null = null;
-  for (const next of new Composer({ uniqueKeys: true }).compose(tokens, true, text.length)) {
+  // Keys are checked for duplicates in checkNodes, in linear time (yaml's own check compares
+  // each key with every earlier one: 20000 keys took 20 s).
+  for (const next of new Composer({ uniqueKeys: false }).compose(tokens, true, text.length)) {
     if (doc === null) doc = next as Document;
     else {
       doc.errors.push(new YAMLParseError([next.range[0], next.range[1]], "MULTIPLE_DOCS", "Source contains multiple documents"));
@@ -241,9 +228,14 @@ function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place
   const limit = MANIFEST_LIMITS.values;
   // The values so far, in text order, each alias counted as the values of its anchor.
   let total = 0;
+  let marks = 0;
+  const mark = (node: Node, path: (string | number)[]) => {
+    if (++marks > MANIFEST_LIMITS.anchors) throw manifestMessages.tooManyAnchors(placeOf(node, path), MANIFEST_LIMITS.anchors);
+  };
   const walk = (node: unknown, path: (string | number)[]): void => {
     if (!isNode(node)) return;
     if (isAlias(node)) {
+      mark(node, path);
       const target = anchors.get(node.source);
       if (target === undefined) throw manifestMessages.aliasWithoutAnchor(placeOf(node, path), node.source);
       const size = sizes.get(target);
@@ -255,15 +247,26 @@ function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place
     const before = total;
     total += 1;
     if (total > limit) throw manifestMessages.manifestTooLarge(placeOf(node, path), limit);
-    if (node.anchor !== undefined) anchors.set(node.anchor, node);
+    if (node.anchor !== undefined) {
+      mark(node, path);
+      anchors.set(node.anchor, node);
+    }
     if (isMap(node)) {
+      // Keys as the parsed data will hold them: `1` and `"1"` are one key there.
+      const keys = new Set<string>();
       for (const pair of node.items) {
         const key = pair.key;
         if (key !== null && !isScalar(key)) {
           const found = isAlias(key) ? "an alias" : isSeq(key) ? "a list" : "a mapping";
           throw manifestMessages.keyNotText(placeOf(key as Node, path), found);
         }
-        const keyPath = [...path, isScalar(key) ? String(key.value) : ""];
+        const text = isScalar(key) ? String(key.value) : "";
+        if (keys.has(text)) {
+          const { line, column, file } = placeOf(key ?? node, path);
+          throw manifestMessages.duplicateKey({ file, line, column }, text);
+        }
+        keys.add(text);
+        const keyPath = [...path, text];
         walk(key, keyPath);
         walk(pair.value, keyPath);
       }

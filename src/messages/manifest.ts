@@ -109,6 +109,11 @@ export function manifestTooLarge(place: Place, limit: number): UserError {
   );
 }
 
+/** More anchors and aliases than Sojourn resolves. */
+export function tooManyAnchors(place: Place, limit: number): UserError {
+  return located(place, `the manifest has more than ${limit.toLocaleString("en-US")} anchors and aliases (&name, *name)`, "Write the repeated values out, or repeat fewer of them: a study manifest needs a handful of aliases at most.");
+}
+
 /** A mapping key written as a list, a mapping or an alias. */
 export function keyNotText(place: Place, found: string): UserError {
   return located(place, `a mapping key must be a text, found ${found}`, "Write the key as a plain name followed by a colon, such as name: queue.");

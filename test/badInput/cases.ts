@@ -114,6 +114,7 @@ const M_BOMB = [
   "g: &g [*f, *f, *f, *f, *f, *f, *f, *f, *f, *f]",
   "",
 ].join("\n") + manifest(QUEUE);
+const M_ALIASES = manifest(QUEUE) + `closing: &closing 10\nrepeats: [${Array.from({ length: 1200 }, () => "*closing").join(", ")}]\n`;
 const M_NOANCHOR = manifest(QUEUE, "{name: morning, end: *closing, runs: runs/*.csv}");
 const M_SELFALIAS = manifest(QUEUE, "{name: morning, end: 10, runs: &days [runs/day-1.csv, *days]}");
 const M_LISTKEY = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, [a, b]: 1}");
@@ -703,6 +704,18 @@ export const CASES: BadInputCase[] = [
     // 134463 values come before f's first alias, and the 8th *e, f[7], passes a million; "f: &f [" is
     // 7 characters and each "*e, " 4.
     startsWith: () => `study.yaml:6:${positionOf(M_BOMB, "f: ").column + 7 + 4 * 7} (at f[7]): with its aliases (*name) written out, the manifest would hold more than 1,000,000 values`,
+  },
+  {
+    id: "too-many-aliases",
+    title: "More than 1000 anchors and aliases",
+    what: "A manifest that repeats one value 1200 times with `*closing` (not shown). Sojourn resolves at most 1000 anchors and aliases, since each one is looked up among all the others.",
+    files: { [STUDY]: M_ALIASES, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    // &closing is the first of the 1000; the alias repeats[998] is the 1000th, repeats[999] the 1001st
+    // "repeats: [" is 10 characters and each "*closing, " 10 more
+    message: () => manifestMessages.tooManyAnchors({ file: STUDY, line: positionOf(M_ALIASES, "repeats:").line, column: 11 + 10 * 999, path: "repeats[999]" }, 1000),
   },
   {
     id: "alias-without-anchor",

@@ -143,6 +143,26 @@ describe("loadStudy: nesting and aliases that never end", () => {
     expect(error.message).toBe(m.yamlSyntax({ file, ...pos(text, "---") }, "MULTIPLE_DOCS", "Source contains multiple documents").message);
   });
 
+  it(`stops at the alias past ${MANIFEST_LIMITS.anchors} anchors and aliases, quickly (yaml resolves each alias by a walk over all of them)`, async () => {
+    const text = GOOD + `x: &x 1\ny: [${Array.from({ length: 40000 }, () => "*x").join(", ")}]\n`;
+    const { error, file, ms } = await failure(text);
+    // the anchor &x is the first mark, so the 1000th alias, y[999], is mark number 1001
+    const column = "y: [".length + 1 + 4 * (MANIFEST_LIMITS.anchors - 1);
+    expect(error.message).toBe(m.tooManyAnchors({ file, line: 6, column, path: `y[${MANIFEST_LIMITS.anchors - 1}]` }, MANIFEST_LIMITS.anchors).message);
+    expect(ms).toBeLessThan(10000); // resolving all 40000 aliases took about 75 s on this machine
+  });
+
+  it("finds a key written twice in linear time, also when the data would merge 1 and \"1\"", async () => {
+    const keys = Array.from({ length: 20000 }, (_, i) => `  k${i}: 1`).join("\n");
+    const text = GOOD + `x:\n${keys}\n  k7: 2\n`;
+    const { error, file, ms } = await failure(text);
+    expect(error.message).toBe(m.duplicateKey({ file, line: 5 + 20000 + 1, column: 3 }, "k7").message);
+    expect(ms).toBeLessThan(10000); // yaml's own check took about 20 s for these 20000 keys on this machine
+    const merged = GOOD + 'x: {1: a, "1": b}\n';
+    const second = await failure(merged);
+    expect(second.error.message).toBe(m.duplicateKey({ file: second.file, ...pos(merged, '"1"') }, "1").message);
+  });
+
   it("still reads aliases that repeat a value a few times", async () => {
     const text = "scenarios:\n  - {name: a, end: &end 600, runs: &runs runs/two/*.csv}\n  - {name: b, end: *end, runs: *runs}\nmeasures:\n  - {name: q, kind: level, series: queue}\n";
     const study = await loads(text);
