@@ -18,6 +18,8 @@ export interface ManifestSource {
   lineOf(path: KeyPath): number | undefined;
   /** True when the node at `path` is a scalar the user wrote without quotes. */
   isPlainScalar(path: KeyPath): boolean;
+  /** How many values (mappings, lists, keys, scalars) the data holds, each alias written out. */
+  size: number;
 }
 
 /**
@@ -36,7 +38,7 @@ export function parseManifest(text: string, file: string): ManifestSource {
     const place = { file, line, column: col };
     throw manifestMessages.yamlSyntax(place, error.code, error.message);
   }
-  checkNodes(doc, (node, path) => {
+  const size = checkNodes(doc, (node, path) => {
     const { line, col } = lineCounter.linePos(node.range?.[0] ?? 0);
     return { file, line, column: col, path: formatKeyPath(path) };
   });
@@ -75,6 +77,7 @@ export function parseManifest(text: string, file: string): ManifestSource {
   return {
     file,
     data,
+    size,
     place(path, options = {}) {
       return { file, ...lineCol(path, options.key === true), path: formatKeyPath(path) };
     },
@@ -222,33 +225,40 @@ function checkNesting(tokens: CST.Token[], lines: LineCounter, file: string): vo
  * a few lines expands to 10⁹ values). Walks the document in text order as the YAML rules resolve
  * aliases (the latest anchor of that name before the alias), counting each anchor's values once.
  */
-function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place): void {
+function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place): number {
   const anchors = new Map<string, Node>();
   const sizes = new Map<Node, number>();
   const limit = MANIFEST_LIMITS.values;
+  // The key path as a chain from the node up (one small object per node), made a list for a message only.
+  type Link = { up: Link; key: string | number } | null;
+  const at = (node: Node, link: Link): Place => {
+    const path: (string | number)[] = [];
+    for (let l = link; l !== null; l = l.up) path.push(l.key);
+    return placeOf(node, path.reverse());
+  };
   // The values so far, in text order, each alias counted as the values of its anchor.
   let total = 0;
   let marks = 0;
-  const mark = (node: Node, path: (string | number)[]) => {
-    if (++marks > MANIFEST_LIMITS.anchors) throw manifestMessages.tooManyAnchors(placeOf(node, path), MANIFEST_LIMITS.anchors);
+  const mark = (node: Node, link: Link) => {
+    if (++marks > MANIFEST_LIMITS.anchors) throw manifestMessages.tooManyAnchors(at(node, link), MANIFEST_LIMITS.anchors);
   };
-  const walk = (node: unknown, path: (string | number)[]): void => {
+  const walk = (node: unknown, link: Link): void => {
     if (!isNode(node)) return;
     if (isAlias(node)) {
-      mark(node, path);
+      mark(node, link);
       const target = anchors.get(node.source);
-      if (target === undefined) throw manifestMessages.aliasWithoutAnchor(placeOf(node, path), node.source);
+      if (target === undefined) throw manifestMessages.aliasWithoutAnchor(at(node, link), node.source);
       const size = sizes.get(target);
-      if (size === undefined) throw manifestMessages.aliasInsideItself(placeOf(node, path), node.source);
+      if (size === undefined) throw manifestMessages.aliasInsideItself(at(node, link), node.source);
       total += size;
-      if (total > limit) throw manifestMessages.manifestTooLarge(placeOf(node, path), limit);
+      if (total > limit) throw manifestMessages.manifestTooLarge(at(node, link), limit);
       return;
     }
     const before = total;
     total += 1;
-    if (total > limit) throw manifestMessages.manifestTooLarge(placeOf(node, path), limit);
+    if (total > limit) throw manifestMessages.manifestTooLarge(at(node, link), limit);
     if (node.anchor !== undefined) {
-      mark(node, path);
+      mark(node, link);
       anchors.set(node.anchor, node);
     }
     if (isMap(node)) {
@@ -258,22 +268,23 @@ function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place
         const key = pair.key;
         if (key !== null && !isScalar(key)) {
           const found = isAlias(key) ? "an alias" : isSeq(key) ? "a list" : "a mapping";
-          throw manifestMessages.keyNotText(placeOf(key as Node, path), found);
+          throw manifestMessages.keyNotText(at(key as Node, link), found);
         }
         const text = isScalar(key) ? String(key.value) : "";
         if (keys.has(text)) {
-          const { line, column, file } = placeOf(key ?? node, path);
+          const { line, column, file } = at(key ?? node, link);
           throw manifestMessages.duplicateKey({ file, line, column }, text);
         }
         keys.add(text);
-        const keyPath = [...path, text];
-        walk(key, keyPath);
-        walk(pair.value, keyPath);
+        const keyLink = { up: link, key: text };
+        walk(key, keyLink);
+        walk(pair.value, keyLink);
       }
     } else if (isSeq(node)) {
-      node.items.forEach((item, i) => walk(item, [...path, i]));
+      node.items.forEach((item, i) => walk(item, { up: link, key: i }));
     }
-    sizes.set(node, total - before);
+    if (node.anchor !== undefined) sizes.set(node, total - before);
   };
-  walk(doc.contents, []);
+  walk(doc.contents, null);
+  return total;
 }
