@@ -38,6 +38,13 @@ export function parseManifest(text: string, file: string): ManifestSource {
     const place = { file, line, column: col };
     throw manifestMessages.yamlSyntax(place, error.code, error.message);
   }
+  // yaml warns of a tag it cannot resolve (`!foo x`, `!!float 1`) and keeps the text: an error here.
+  const warning = doc.warnings.find((w) => w.code === "TAG_RESOLVE_FAILED");
+  if (warning !== undefined) {
+    const { line, col } = lineCounter.linePos(warning.pos[0]);
+    const tag = /Unresolved tag: (\S+)/.exec(warning.message)?.[1] ?? "";
+    throw manifestMessages.tagNotAllowed({ file, line, column: col }, shortTag(tag));
+  }
   const size = checkNodes(doc, (node, path) => {
     const { line, col } = lineCounter.linePos(node.range?.[0] ?? 0);
     return { file, line, column: col, path: formatKeyPath(path) };
@@ -219,6 +226,14 @@ function checkNesting(tokens: CST.Token[], lines: LineCounter, file: string): vo
   }
 }
 
+/** The explicit tags that give what JSON has: texts, numbers, booleans, null, lists, mappings. */
+const PLAIN_TAGS = new Set(["str", "int", "float", "bool", "null", "map", "seq"].map((t) => `tag:yaml.org,2002:${t}`));
+
+/** `tag:yaml.org,2002:binary` as it is written, `!!binary`. */
+function shortTag(tag: string): string {
+  return tag.startsWith("tag:yaml.org,2002:") ? `!!${tag.slice("tag:yaml.org,2002:".length)}` : tag;
+}
+
 /**
  * What toJS cannot be trusted with: keys that are not texts, aliases with no anchor before them
  * or inside their own anchor's value, and aliases that multiply (a "billion laughs" document of
@@ -257,6 +272,7 @@ function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place
     const before = total;
     total += 1;
     if (total > limit) throw manifestMessages.manifestTooLarge(at(node, link), limit);
+    if (node.tag !== undefined && !PLAIN_TAGS.has(node.tag)) throw manifestMessages.tagNotAllowed(at(node, link), shortTag(node.tag));
     if (node.anchor !== undefined) {
       mark(node, link);
       anchors.set(node.anchor, node);

@@ -115,6 +115,7 @@ const M_BOMB = [
   "",
 ].join("\n") + manifest(QUEUE);
 const M_ALIASES = manifest(QUEUE) + `closing: &closing 10\nrepeats: [${Array.from({ length: 1200 }, () => "*closing").join(", ")}]\n`;
+const M_TAG = manifest(QUEUE, "{name: morning, end: !!timestamp 2024-03-01, runs: runs/*.csv}");
 const M_NOANCHOR = manifest(QUEUE, "{name: morning, end: *closing, runs: runs/*.csv}");
 const M_SELFALIAS = manifest(QUEUE, "{name: morning, end: 10, runs: &days [runs/day-1.csv, *days]}");
 const M_LISTKEY = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, [a, b]: 1}");
@@ -746,6 +747,16 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.keyNotText(at(M_LISTKEY, "[a, b]", "scenarios[0]"), "a list"),
+  },
+  {
+    id: "yaml-tag",
+    title: "A YAML tag that makes a value a date",
+    what: "`!!timestamp` (and `!!binary`, `!!set`, a tag of one's own such as `!when`) would make the value something JSON has not; Sojourn reads texts, numbers, true or false, lists and mappings, and refuses the tag instead of reading the value as something else.",
+    files: { [STUDY]: M_TAG, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.tagNotAllowed(at(M_TAG, "2024-03-01", "scenarios[0].end"), "!!timestamp"),
   },
   {
     id: "listed-twice",

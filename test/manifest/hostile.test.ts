@@ -174,6 +174,18 @@ describe("loadStudy: nesting and aliases that never end", () => {
     expect(ms).toBeLessThan(30000);
   });
 
+  it("refuses a tag that gives something JSON has not (a date, bytes, a set) or that does not resolve, and reads !!str", async () => {
+    for (const [value, tag, column] of [["!foo x", "!foo", 8], ["!!float 1", "!!float", 8], ["!!binary aGVsbG8=", "!!binary", 17], ["!!timestamp 2001-12-14", "!!timestamp", 20], ["!!set {a, b}", "!!set", 14]] as const) {
+      const text = `title: ${value}\n${GOOD}`;
+      const { error, file } = await failure(text);
+      // an unresolved tag is named where the tag is written; a resolved one where its value starts
+      const path = column === 8 ? undefined : "title";
+      expect(error.message, value).toBe(m.tagNotAllowed({ file, line: 1, column, ...(path ? { path } : {}) }, tag).message);
+    }
+    const study = await loads(`title: !!str 2024\n${GOOD}`);
+    expect(study.title).toBe("2024");
+  });
+
   it("still reads aliases that repeat a value a few times", async () => {
     const text = "scenarios:\n  - {name: a, end: &end 600, runs: &runs runs/two/*.csv}\n  - {name: b, end: *end, runs: *runs}\nmeasures:\n  - {name: q, kind: level, series: queue}\n";
     const study = await loads(text);
