@@ -31,6 +31,7 @@ export function parseManifest(text: string, file: string): ManifestSource {
   // Parsed once into tokens (no recursion), checked for depth, then built into the document.
   const tokens = [...new Parser(lineCounter.addNewLine).parse(text)];
   checkNesting(tokens, lineCounter, file);
+  checkVersion(tokens, lineCounter, file);
   const doc = compose(tokens, text);
   const error = doc.errors[0];
   if (error !== undefined) {
@@ -196,6 +197,18 @@ function compose(tokens: CST.Token[], text: string): Document {
     }
   }
   return doc!;
+}
+
+/** A `%YAML 1.1` directive would read `010` as 8 and `n` as false: YAML 1.2 only. */
+function checkVersion(tokens: CST.Token[], lines: LineCounter, file: string): void {
+  for (const t of tokens) {
+    if (t.type !== "directive") continue;
+    const version = /^%YAML[ \t]+(\S+)/.exec(t.source)?.[1];
+    if (version !== undefined && version !== "1.2") {
+      const { line, col } = lines.linePos(t.offset);
+      throw manifestMessages.yamlVersion({ file, line, column: col }, version);
+    }
+  }
 }
 
 /**

@@ -123,6 +123,15 @@ export function tagNotAllowed(place: Place, tag: string): UserError {
   );
 }
 
+/** A `%YAML` directive for another version than 1.2. */
+export function yamlVersion(place: Place, version: string): UserError {
+  return located(
+    place,
+    `the manifest asks for YAML ${version}, and Sojourn reads YAML 1.2 only (in YAML 1.1, 010 is the number 8 and n is false)`,
+    "Remove the %YAML line (and the --- after it, if nothing else needs it).",
+  );
+}
+
 /** A mapping key written as a list, a mapping or an alias. */
 export function keyNotText(place: Place, found: string): UserError {
   return located(place, `a mapping key must be a text, found ${found}`, "Write the key as a plain name followed by a colon, such as name: queue.");

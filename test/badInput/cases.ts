@@ -116,6 +116,7 @@ const M_BOMB = [
 ].join("\n") + manifest(QUEUE);
 const M_ALIASES = manifest(QUEUE) + `closing: &closing 10\nrepeats: [${Array.from({ length: 1200 }, () => "*closing").join(", ")}]\n`;
 const M_TAG = manifest(QUEUE, "{name: morning, end: !!timestamp 2024-03-01, runs: runs/*.csv}");
+const M_YAML11 = `%YAML 1.1\n---\n${manifest(QUEUE, "{name: morning, end: 010, runs: runs/*.csv}")}`;
 const M_NOANCHOR = manifest(QUEUE, "{name: morning, end: *closing, runs: runs/*.csv}");
 const M_SELFALIAS = manifest(QUEUE, "{name: morning, end: 10, runs: &days [runs/day-1.csv, *days]}");
 const M_LISTKEY = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, [a, b]: 1}");
@@ -757,6 +758,16 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.tagNotAllowed(at(M_TAG, "2024-03-01", "scenarios[0].end"), "!!timestamp"),
+  },
+  {
+    id: "yaml-version",
+    title: "A manifest that asks for YAML 1.1",
+    what: "Under a `%YAML 1.1` line, `end: 010` would be the number 8 and `n` would mean false. Sojourn reads YAML 1.2 only, where `010` is 10.",
+    files: { [STUDY]: M_YAML11, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.yamlVersion({ file: STUDY, line: 1, column: 1 }, "1.1"),
   },
   {
     id: "listed-twice",

@@ -186,6 +186,14 @@ describe("loadStudy: nesting and aliases that never end", () => {
     expect(study.title).toBe("2024");
   });
 
+  it("refuses a %YAML 1.1 directive (010 would be 8, n false) and reads %YAML 1.2", async () => {
+    const text = `%YAML 1.1\n---\n${GOOD.replace("end: 600", "end: 010")}`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.yamlVersion({ file, line: 1, column: 1 }, "1.1").message);
+    const study = await loads(`%YAML 1.2\n---\n${GOOD.replace("end: 600", "end: 010")}`);
+    expect(study.scenarios[0].runs[0].end).toBe(10); // YAML 1.2: a decimal 10
+  });
+
   it("still reads aliases that repeat a value a few times", async () => {
     const text = "scenarios:\n  - {name: a, end: &end 600, runs: &runs runs/two/*.csv}\n  - {name: b, end: *end, runs: *runs}\nmeasures:\n  - {name: q, kind: level, series: queue}\n";
     const study = await loads(text);
