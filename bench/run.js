@@ -5,11 +5,14 @@
 //   2. peak memory (RSS) of that report at two file lengths;
 //   3. the same run gzip-compressed;
 //   4. 16 runs of about 600 000 rows with 1 and 2 worker threads (results compared byte for byte);
-//   5. the ferry demo (16 runs x 6 measures): HTML, and HTML + PDF when Chromium is there.
+//   5. the ferry demo (16 runs x 6 measures): HTML, and HTML + PDF when Chromium is there;
+//   6. 1000 small runs x 5 measures: wall time and peak memory (RSS) of `sojourn report` against
+//      100 runs, the page's size, and `sojourn verify` on the result.
 //
 // Data is invented by the demo's seeded queue simulation and written once to $SOJOURN_BENCH_DIR
 // (default /tmp/sojourn-bench), never into the repository. REPEAT=n repeats each timing (default 3;
 // the fastest is reported, the machine may be shared). QUICK=1 uses files a tenth as long.
+// PARTS=long,workers,demo,runs1000 runs only those parts (long is 1 to 3).
 /* global console, URL */
 import { execFileSync, spawnSync } from "node:child_process";
 import { createReadStream, createWriteStream, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
@@ -28,6 +31,8 @@ const { writeRunCsv } = await import(join(root, "dist/demo/ferry.js"));
 const dir = process.env.SOJOURN_BENCH_DIR ?? "/tmp/sojourn-bench";
 const REPEAT = Number(process.env.REPEAT ?? 3);
 const scale = process.env.QUICK ? 0.1 : 1;
+const PARTS = process.env.PARTS === undefined ? null : new Set(process.env.PARTS.split(",").map((p) => p.trim()));
+const want = (part) => PARTS === null || PARTS.has(part);
 mkdirSync(dir, { recursive: true });
 const env = { ...process.env, SOURCE_DATE_EPOCH: "1780000000" };
 delete env.SOJOURN_WORKERS;
@@ -97,10 +102,12 @@ function peakRss(args) {
     const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(r.stderr);
     if (r.status === 0 && m) return Number(m[1]) / 1024;
   }
-  const code = `process.argv = [process.argv[0], ${JSON.stringify(cli)}, ...process.argv.slice(1)];
+  // A wrapper file, not `node -e`: options of the node command would pass on to worker threads.
+  const wrapper = join(dir, "peak-rss.mjs");
+  writeFileSync(wrapper, `process.argv.splice(1, 1, ${JSON.stringify(cli)});
 process.on("exit", () => process.stderr.write("RSS " + process.resourceUsage().maxRSS + "\\n"));
-await import(${JSON.stringify(cli)});`;
-  const r = spawnSync(process.execPath, ["--input-type=module", "-e", code, ...args.slice(1)], { env, encoding: "utf8" });
+await import(${JSON.stringify(cli)});\n`);
+  const r = spawnSync(process.execPath, [wrapper, ...args.slice(1)], { env, encoding: "utf8" });
   const m = /RSS (\d+)/.exec(r.stderr);
   return m ? Number(m[1]) / 1024 : NaN;
 }
@@ -114,107 +121,163 @@ out();
 out(`Machine: ${cpus()[0]?.model ?? "?"}, ${availableParallelism()} cores available, Node ${process.version}; fastest of ${REPEAT} tries; the machine may be shared with other jobs.`);
 out();
 
-// --- 1. one long run -------------------------------------------------------------------------
-const H10 = Math.round(2_220_000 * scale);
-const H5 = Math.round(H10 / 2);
-const big10 = join(dir, `long-${H10}.csv`);
-const big5 = join(dir, `long-${H5}.csv`);
-console.error("generating data (once) ...");
-await runFile(big10, H10, 7);
-await runFile(big5, H5, 7);
-if (!existsSync(`${big10}.gz`)) await pipeline(createReadStream(big10), createGzip(), createWriteStream(`${big10}.gz`));
-const m10 = manifest("long10.yaml", [big10], H10);
-const m5 = manifest("long5.yaml", [big5], H5);
-const mgz = manifest("long10gz.yaml", [`${big10}.gz`], H10);
+if (want("long")) {
+  // --- 1. one long run -------------------------------------------------------------------------
+  const H10 = Math.round(2_220_000 * scale);
+  const H5 = Math.round(H10 / 2);
+  const big10 = join(dir, `long-${H10}.csv`);
+  const big5 = join(dir, `long-${H5}.csv`);
+  console.error("generating data (once) ...");
+  await runFile(big10, H10, 7);
+  await runFile(big5, H5, 7);
+  if (!existsSync(`${big10}.gz`)) await pipeline(createReadStream(big10), createGzip(), createWriteStream(`${big10}.gz`));
+  const m10 = manifest("long10.yaml", [big10], H10);
+  const m5 = manifest("long5.yaml", [big5], H5);
+  const mgz = manifest("long10gz.yaml", [`${big10}.gz`], H10);
 
-const AWK = `BEGIN { FS = ","; pt = 0; pv = 0 }
-NR == 1 { next }
-$1 + 0 > END_T { next }
-$2 == "queue" { area += pv * ($1 - pt); pt = $1 + 0; pv = $3 + 0; next }
-$2 == "wait" { s += $3; n++; next }
-$2 == "depart" { c++ }
-END { area += pv * (END_T - pt); printf "%.17g %.17g %d\\n", area / END_T, s / n, c }`;
-writeFileSync(join(dir, "three.awk"), AWK + "\n");
+  const AWK = `BEGIN { FS = ","; pt = 0; pv = 0 }
+  NR == 1 { next }
+  $1 + 0 > END_T { next }
+  $2 == "queue" { area += pv * ($1 - pt); pt = $1 + 0; pv = $3 + 0; next }
+  $2 == "wait" { s += $3; n++; next }
+  $2 == "depart" { c++ }
+  END { area += pv * (END_T - pt); printf "%.17g %.17g %d\\n", area / END_T, s / n, c }`;
+  writeFileSync(join(dir, "three.awk"), AWK + "\n");
 
-/** sojourn report against the awk program on one file, side by side; returns sojourn's timing. */
-function sideBySide(title, file, manifestPath, outDir) {
-  const rows = Number(execFileSync("wc", ["-l", file], { encoding: "utf8" }).split(" ")[0]) - 1;
-  const awk = timed("awk", ["-v", `END_T=${H10}`, "-f", join(dir, "three.awk"), file]);
-  const sj = timed(process.execPath, report(manifestPath, join(dir, outDir)));
-  const r = JSON.parse(readFileSync(join(dir, outDir, "results.json"), "utf8")).scenarios[0].runs[0].measures;
-  out(`## ${title}: ${rows.toLocaleString("en")} rows, ${f2(mb(file))} MB of CSV, 3 measures`);
+  /** sojourn report against the awk program on one file, side by side; returns sojourn's timing. */
+  function sideBySide(title, file, manifestPath, outDir) {
+    const rows = Number(execFileSync("wc", ["-l", file], { encoding: "utf8" }).split(" ")[0]) - 1;
+    const awk = timed("awk", ["-v", `END_T=${H10}`, "-f", join(dir, "three.awk"), file]);
+    const sj = timed(process.execPath, report(manifestPath, join(dir, outDir)));
+    const r = JSON.parse(readFileSync(join(dir, outDir, "results.json"), "utf8")).scenarios[0].runs[0].measures;
+    out(`## ${title}: ${rows.toLocaleString("en")} rows, ${f2(mb(file))} MB of CSV, 3 measures`);
+    out();
+    out("| program | wall time (s) | CPU time (s) | level time average | observation mean | count |");
+    out("|---|---|---|---|---|---|");
+    const [aL, aO, aC] = awk.stdout.trim().split(" ");
+    out(`| awk (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
+    out(`| sojourn report (results, tables, HTML) | ${f2(sj.seconds)} | ${f2(sj.cpu)} | ${r.queue_len.value} | ${r.wait.value} | ${r.departures.value} |`);
+    out();
+    out(`Ratio sojourn / awk: ${f2(sj.seconds / awk.seconds)} (target at most 1, stretch 0.5).`);
+    out();
+    return { sj, rows };
+  }
+
+  const { sj, rows: rows10 } = sideBySide("One run, times to 4 decimals", big10, m10, "out10");
+  const bigFull = join(dir, `long-full-${H10}.csv`);
+  await runFile(bigFull, H10, 7, null);
+  sideBySide("The same run, times printed in full (up to 17 significant digits)", bigFull, manifest("longfull.yaml", [bigFull], H10), "outfull");
+
+  // --- 2. memory at two lengths --------------------------------------------------------------
+  const rss5 = peakRss(report(m5, join(dir, "out5")));
+  const rss10 = peakRss(report(m10, join(dir, "out10")));
+  out("## Peak memory (RSS) of `sojourn report`");
   out();
-  out("| program | wall time (s) | CPU time (s) | level time average | observation mean | count |");
-  out("|---|---|---|---|---|---|");
-  const [aL, aO, aC] = awk.stdout.trim().split(" ");
-  out(`| awk (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
-  out(`| sojourn report (results, tables, HTML) | ${f2(sj.seconds)} | ${f2(sj.cpu)} | ${r.queue_len.value} | ${r.wait.value} | ${r.departures.value} |`);
+  out("| file | rows | MB | peak RSS (MB) |");
+  out("|---|---|---|---|");
+  out(`| ${big5.split("/").pop()} | ${(Number(execFileSync("wc", ["-l", big5], { encoding: "utf8" }).split(" ")[0]) - 1).toLocaleString("en")} | ${f2(mb(big5))} | ${rss5.toFixed(0)} |`);
+  out(`| ${big10.split("/").pop()} | ${rows10.toLocaleString("en")} | ${f2(mb(big10))} | ${rss10.toFixed(0)} |`);
   out();
-  out(`Ratio sojourn / awk: ${f2(sj.seconds / awk.seconds)} (target at most 1, stretch 0.5).`);
+
+  // --- 3. gzip -----------------------------------------------------------------------------
+  const gz = timed(process.execPath, report(mgz, join(dir, "outgz")));
+  out("## gzip input");
   out();
-  return { sj, rows };
+  out(`${f2(mb(`${big10}.gz`))} MB gzip: ${f2(gz.seconds)} s against ${f2(sj.seconds)} s for the plain CSV: ratio ${f2(gz.seconds / sj.seconds)} (target at most 1.5).`);
+  out();
 }
 
-const { sj, rows: rows10 } = sideBySide("One run, times to 4 decimals", big10, m10, "out10");
-const bigFull = join(dir, `long-full-${H10}.csv`);
-await runFile(bigFull, H10, 7, null);
-sideBySide("The same run, times printed in full (up to 17 significant digits)", bigFull, manifest("longfull.yaml", [bigFull], H10), "outfull");
-
-// --- 2. memory at two lengths --------------------------------------------------------------
-const rss5 = peakRss(report(m5, join(dir, "out5")));
-const rss10 = peakRss(report(m10, join(dir, "out10")));
-out("## Peak memory (RSS) of `sojourn report`");
-out();
-out("| file | rows | MB | peak RSS (MB) |");
-out("|---|---|---|---|");
-out(`| ${big5.split("/").pop()} | ${(Number(execFileSync("wc", ["-l", big5], { encoding: "utf8" }).split(" ")[0]) - 1).toLocaleString("en")} | ${f2(mb(big5))} | ${rss5.toFixed(0)} |`);
-out(`| ${big10.split("/").pop()} | ${rows10.toLocaleString("en")} | ${f2(mb(big10))} | ${rss10.toFixed(0)} |`);
-out();
-
-// --- 3. gzip -----------------------------------------------------------------------------
-const gz = timed(process.execPath, report(mgz, join(dir, "outgz")));
-out("## gzip input");
-out();
-out(`${f2(mb(`${big10}.gz`))} MB gzip: ${f2(gz.seconds)} s against ${f2(sj.seconds)} s for the plain CSV: ratio ${f2(gz.seconds / sj.seconds)} (target at most 1.5).`);
-out();
-
-// --- 4. many runs on worker threads -------------------------------------------------------
-const HM = Math.round(133_000 * scale);
-const many = [];
-for (let k = 1; k <= 16; k++) {
-  const p = join(dir, `rep-${HM}-${String(k).padStart(2, "0")}.csv`);
-  await runFile(p, HM, 100 + k);
-  many.push(p);
+if (want("workers")) {
+  // --- 4. many runs on worker threads -------------------------------------------------------
+  const HM = Math.round(133_000 * scale);
+  const many = [];
+  for (let k = 1; k <= 16; k++) {
+    const p = join(dir, `rep-${HM}-${String(k).padStart(2, "0")}.csv`);
+    await runFile(p, HM, 100 + k);
+    many.push(p);
+  }
+  const mm = manifest("many.yaml", many, HM);
+  const manyRows = many.reduce((n, p) => n + statSync(p).size, 0);
+  const w1 = timed(process.execPath, report(mm, join(dir, "many1"), ["--workers", "1"]));
+  const w2 = timed(process.execPath, report(mm, join(dir, "many2"), ["--workers", "2"]));
+  const same = spawnSync("diff", ["-r", "-x", "record.json", join(dir, "many1"), join(dir, "many2")]).status === 0;
+  out(`## 16 runs (${f2(manyRows / 1e6)} MB in all), worker threads`);
+  out();
+  out("| workers | wall time (s) | CPU time (s) |");
+  out("|---|---|---|");
+  out(`| 1 (in process) | ${f2(w1.seconds)} | ${f2(w1.cpu)} |`);
+  out(`| 2 | ${f2(w2.seconds)} | ${f2(w2.cpu)} |`);
+  out();
+  out(`Speed-up ${f2(w1.seconds / w2.seconds)} (target at least 1.7); results.json, tables and report.html identical: ${same ? "yes" : "NO"}.`);
+  out();
 }
-const mm = manifest("many.yaml", many, HM);
-const manyRows = many.reduce((n, p) => n + statSync(p).size, 0);
-const w1 = timed(process.execPath, report(mm, join(dir, "many1"), ["--workers", "1"]));
-const w2 = timed(process.execPath, report(mm, join(dir, "many2"), ["--workers", "2"]));
-const same = spawnSync("diff", ["-r", "-x", "record.json", join(dir, "many1"), join(dir, "many2")]).status === 0;
-out(`## 16 runs (${f2(manyRows / 1e6)} MB in all), worker threads`);
-out();
-out("| workers | wall time (s) | CPU time (s) |");
-out("|---|---|---|");
-out(`| 1 (in process) | ${f2(w1.seconds)} | ${f2(w1.cpu)} |`);
-out(`| 2 | ${f2(w2.seconds)} | ${f2(w2.cpu)} |`);
-out();
-out(`Speed-up ${f2(w1.seconds / w2.seconds)} (target at least 1.7); results.json, tables and report.html identical: ${same ? "yes" : "NO"}.`);
-out();
 
-// --- 5. the ferry demo's report ------------------------------------------------------------
-const demoDir = join(dir, "ferry");
-if (!existsSync(join(demoDir, "ferry-study.yaml"))) execFileSync(process.execPath, [cli, "demo", demoDir, "--quiet"], { env });
-const ferry = join(demoDir, "ferry-study.yaml");
-const html = timed(process.execPath, report(ferry, join(dir, "ferry-html")));
-out("## Ferry demo (16 runs x 6 measures)");
-out();
-out(`HTML: ${f2(html.seconds)} s (target under 3 s).`);
-const chromium = ["/usr/bin/chromium", "/usr/bin/chromium-browser"].find((p) => existsSync(p));
-if (chromium !== undefined) {
-  const pdf = timed(process.execPath, report(ferry, join(dir, "ferry-pdf"), ["--pdf", "--chrome", chromium]));
-  out(`HTML + PDF: ${f2(pdf.seconds)} s (target under 15 s).`);
-} else out("HTML + PDF: skipped, no Chromium at /usr/bin/chromium.");
-out();
+if (want("demo")) {
+  // --- 5. the ferry demo's report ------------------------------------------------------------
+  const demoDir = join(dir, "ferry");
+  if (!existsSync(join(demoDir, "ferry-study.yaml"))) execFileSync(process.execPath, [cli, "demo", demoDir, "--quiet"], { env });
+  const ferry = join(demoDir, "ferry-study.yaml");
+  const html = timed(process.execPath, report(ferry, join(dir, "ferry-html")));
+  out("## Ferry demo (16 runs x 6 measures)");
+  out();
+  out(`HTML: ${f2(html.seconds)} s (target under 3 s).`);
+  const chromium = ["/usr/bin/chromium", "/usr/bin/chromium-browser"].find((p) => existsSync(p));
+  if (chromium !== undefined) {
+    const pdf = timed(process.execPath, report(ferry, join(dir, "ferry-pdf"), ["--pdf", "--chrome", chromium]));
+    out(`HTML + PDF: ${f2(pdf.seconds)} s (target under 15 s).`);
+  } else out("HTML + PDF: skipped, no Chromium at /usr/bin/chromium.");
+  out();
+}
+
+// --- 6. a thousand small runs -------------------------------------------------------------
+if (want("runs1000")) {
+  const smallRun = (k) => join(dir, "small", `rep-${String(k).padStart(4, "0")}.csv`);
+  mkdirSync(join(dir, "small"), { recursive: true });
+  for (let k = 1; k <= 1000; k++) await runFile(smallRun(k), 200, 5000 + k);
+  const smallManifest = (name, count) => {
+    const path = join(dir, name);
+    writeFileSync(
+      path,
+      [
+        "version: 1",
+        `title: ${count} small runs`,
+        "time_unit: min",
+        "scenarios:",
+        "  - name: small",
+        "    end: 200",
+        `    runs: [${Array.from({ length: count }, (_, i) => smallRun(i + 1)).join(", ")}]`,
+        "measures:",
+        "  - {name: queue_len, kind: level, series: queue}",
+        "  - {name: busy_use, kind: utilization, series: busy, capacity: 2}",
+        "  - {name: wait, kind: observation, series: wait}",
+        "  - {name: departures, kind: count, series: depart}",
+        "  - {name: in_system, kind: level, from: {enter: arrive, leave: depart}}",
+        "",
+      ].join("\n"),
+    );
+    return path;
+  };
+  const rows = (count) => {
+    let n = 0;
+    for (let k = 1; k <= count; k++) n += readFileSync(smallRun(k), "utf8").split("\n").length - 2;
+    return n;
+  };
+  out("## 1000 small runs (5 measures each, default tables)");
+  out();
+  out("| runs | rows in all | wall time (s) | CPU time (s) | peak RSS (MB) | report.html (MB) | calculation tables | `sojourn verify` (s) |");
+  out("|---|---|---|---|---|---|---|---|");
+  for (const count of [100, 1000]) {
+    const m = smallManifest(`small${count}.yaml`, count);
+    const outDir = join(dir, `small${count}`);
+    const t = timed(process.execPath, report(m, outDir));
+    const rss = peakRss(report(m, outDir));
+    const tables = JSON.parse(readFileSync(join(outDir, "record.json"), "utf8")).outputs.filter((o) => o.file.startsWith("tables/")).length;
+    const v = timed(process.execPath, [cli, "verify", outDir], 1);
+    if (!v.stdout.includes("VERIFIED:")) throw new Error(`verify of ${count} runs failed:\n${v.stdout}`);
+    out(`| ${count} | ${rows(count).toLocaleString("en")} | ${f2(t.seconds)} | ${f2(t.cpu)} | ${rss.toFixed(0)} | ${f2(mb(join(outDir, "report.html")))} | ${tables.toLocaleString("en")} | ${f2(v.seconds)} |`);
+  }
+  out();
+}
 
 writeFileSync(join(dir, "results.md"), lines.join("\n") + "\n");
 console.error(`figures also written to ${join(dir, "results.md")}`);

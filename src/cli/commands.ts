@@ -1,5 +1,4 @@
-import { mkdirSync, renameSync, writeFileSync } from "node:fs";
-import { dirname, join, resolve } from "node:path";
+import { join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
 import { UserError } from "../messages/index.js";
@@ -68,7 +67,7 @@ export async function at(manifest: string, o: { scenario: string; run: string; m
   else for (const line of r.lines) say(line);
 }
 
-export async function table(manifest: string, o: { scenario: string; run: string; measure: string; out?: string }): Promise<void> {
+export async function table(manifest: string, o: { scenario: string; run: string; measure: string; out?: string; force?: boolean }): Promise<void> {
   const study = await loadStudy(manifest);
   const { fullTable } = await import("../study/fullTable.js");
   const tables = await fullTable(study, o);
@@ -77,25 +76,26 @@ export async function table(manifest: string, o: { scenario: string; run: string
     process.stdout.write(process.stdout.isTTY ? terminalText(tables[0].csv, { keepNewlines: true }) : tables[0].csv);
     return;
   }
-  for (const t of tables) {
-    const file = t.suffix === "" ? o.out : o.out.replace(/(\.csv)?$/, `.${t.suffix}.csv`);
-    writeFileSync(file, t.csv);
-    say(`wrote ${file}`);
-  }
+  const out = o.out;
+  const files = tables.map((t) => ({ path: t.suffix === "" ? out : out.replace(/(\.csv)?$/, `.${t.suffix}.csv`), text: t.csv }));
+  const [{ writeOwnFiles }, { studyInputs }] = await Promise.all([import("../record/outputFile.js"), import("../record/ownership.js")]);
+  writeOwnFiles(files, { kind: "calculation table", force: o.force ?? false, inputs: studyInputs(study) });
+  for (const f of files) say(`wrote ${f.path}`);
 }
 
-export async function summarizeRun(manifest: string, o: { scenario: string; run: string; out: string }): Promise<void> {
+export async function summarizeRun(manifest: string, o: { scenario: string; run: string; out: string; force?: boolean }): Promise<void> {
   const study = await loadStudy(manifest);
-  const { summarizeRun: summarize } = await import("../study/runSummary.js");
+  const [{ summarizeRun: summarize }, { writeOwnFiles }, { studyInputs }] = await Promise.all([
+    import("../study/runSummary.js"),
+    import("../record/outputFile.js"),
+    import("../record/ownership.js"),
+  ]);
   const { text, analysis } = await summarize(study, o.scenario, o.run);
-  mkdirSync(dirname(resolve(o.out)), { recursive: true });
-  const temp = `${o.out}.sojourn-tmp-${process.pid}`;
-  writeFileSync(temp, text);
-  renameSync(temp, o.out);
+  writeOwnFiles([{ path: o.out, text }], { kind: "run summary", force: o.force ?? false, inputs: studyInputs(study) });
   say(`wrote ${o.out}: run ${o.run} of scenario ${o.scenario}, ${analysis.input.rows} rows, input sha256 ${analysis.input.sha256}`);
 }
 
-export async function verify(dir: string, o: { inputs?: string }): Promise<void> {
+export async function verify(dir: string, o: { inputs?: string; root?: string }): Promise<void> {
   const { verifyReport } = await import("../record/verify.js");
   const v = await verifyReport(dir, o);
   for (const l of v.lines) say(`${l.ok ? "ok      " : "FAILED  "}${l.item}: ${l.detail}`);
@@ -104,17 +104,27 @@ export async function verify(dir: string, o: { inputs?: string }): Promise<void>
   if (!v.ok) status = 1;
 }
 
-export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean }): Promise<void> {
+export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean; force?: boolean }): Promise<void> {
   const [{ demoDirUsable, writeFerryStudy }, { publishStudy }] = await Promise.all([import("../demo/ferry.js"), publishing()]);
   if (!demoDirUsable(dir)) {
     throw new UserError(`${dir}: the folder exists and is not an earlier demo folder.\n  What to do: choose a new or empty folder for the demo.`);
   }
   const progress = progressTo(o.quiet);
   progress?.("generating the invented ferry check-in study (seeded, 2 scenarios x 8 runs)");
-  const manifest = await writeFerryStudy(dir);
+  const { folderError, makeFolders } = await import("../record/outputDir.js");
+  const { nodeFs } = await import("../record/fileSystem.js");
+  let manifest: string;
+  try {
+    // one level at a time: node's recursive mkdir never returns on some file systems (/proc)
+    makeFolders(resolve(dir), nodeFs);
+    manifest = await writeFerryStudy(dir);
+  } catch (e) {
+    throw folderError(dir, resolve(dir), e);
+  }
   const study: Study = await loadStudy(manifest);
   const started = Date.now();
-  const r = await publishStudy(study, { out: join(dir, "report"), force: true, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
+  // DIR/report is replaced when it is the demo's own earlier report, or with --force (never a file of the study).
+  const r = await publishStudy(study, { out: join(dir, "report"), force: o.force ?? false, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
   say(`Demo study written to ${resolve(dir)} (manifest ${manifest})`);
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
 }

@@ -43,7 +43,7 @@ export function program(): Command {
     .option("--pdf", "also write report.pdf (needs Chromium)")
     .addOption(new Option("--paper <size>", "PDF paper size").choices(["A4", "Letter"]).default("A4"))
     .option("--chrome <path>", "the Chromium or Chrome executable for the PDF (else $SOJOURN_CHROME, then usual places)")
-    .option("--force", "replace --out even if it is not an earlier Sojourn report")
+    .option("--force", "replace --out even if it holds files Sojourn did not write (never a folder holding the manifest or an input)")
     .option("--quiet", "print no progress")
     .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; 1: no worker)", count)
     .option("--from-summaries <folder>", "take each run from <folder>/<scenario>/<run>.json (written by summarize-run) instead of its run file")
@@ -62,6 +62,7 @@ export function program(): Command {
     .requiredOption("--scenario <name>", "scenario name")
     .requiredOption("--run <id>", "run id (file name without extensions)")
     .requiredOption("--out <file>", "the summary file to write (by convention <folder>/<scenario>/<run>.json)")
+    .option("--force", "write over an existing file that is not an earlier run summary (never over an input of the study)")
     .action(commands.summarizeRun);
 
   p.command("at")
@@ -81,12 +82,14 @@ export function program(): Command {
     .requiredOption("--run <id>", "run id")
     .requiredOption("--measure <name>", "measure name")
     .option("--out <file>", "write to this file instead of standard output")
+    .option("--force", "write over an existing file that is not an earlier calculation table (never over an input of the study)")
     .action(commands.table);
 
   p.command("verify")
     .description("re-derive a report folder from its study record and check every digest and number")
     .argument("<dir>", "a report folder written by `sojourn report`")
     .option("--inputs <path>", "the folder the manifest's run paths are relative to, when the inputs moved")
+    .option("--root <path>", "the folder verify may read run files from (default: --inputs, else the folder that holds <dir>)")
     .action(commands.verify);
 
   p.command("demo")
@@ -95,6 +98,7 @@ export function program(): Command {
     .option("--pdf", "also write the PDF")
     .option("--chrome <path>", "Chromium executable for the PDF")
     .option("--quiet", "print no progress")
+    .option("--force", "replace <dir>/report even if it holds files Sojourn did not write")
     .action(commands.demo);
 
   return p;

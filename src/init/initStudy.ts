@@ -9,6 +9,8 @@ import { existsSync, statSync, writeFileSync } from "node:fs";
 import { dirname, isAbsolute, join, relative, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import { initMessages } from "../messages/index.js";
+import * as outputMessages from "../messages/output.js";
+import { realLocation } from "../record/ownership.js";
 import { type RunsScan, scanRuns, type SkippedFile } from "./scanRuns.js";
 import { starterManifest } from "./starterManifest.js";
 
@@ -45,6 +47,9 @@ export async function initStudy(runsDir: string, options: InitOptions = {}): Pro
   const scan = await scanRuns(runsDir, { headRows: options.headRows, onSkip: options.onSkip });
   if (scan.scenarios.length === 0) throw initMessages.noRunFiles(runsDir, scan.skipped.length);
   if (scan.series.length === 0) throw initMessages.noSeries(runsDir);
+  // --force replaces an earlier manifest, never one of the run files just read (links resolved).
+  const target = realLocation(manifest);
+  if (scan.scenarios.some((sc) => sc.runs.some((r) => realLocation(r.path) === target))) throw outputMessages.outFileIsInput(manifest, "run file");
   const { text, checks } = starterManifest(scan, resolve(manifest));
   try {
     await loadStudy(manifest, { text });

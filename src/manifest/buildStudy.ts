@@ -20,7 +20,7 @@ import {
   type TargetSpec,
   type WarmupSpec,
 } from "./spec.js";
-import type { Analysis, ColumnMap, Comparison, Measure, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
+import type { Analysis, ColumnMap, Comparison, Measure, MeasureSource, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
 
 export const DEFAULT_COLUMNS: ColumnMap = { time: "time", series: "series", value: "value", entity: "entity" };
 export const DEFAULT_QUANTILES: readonly number[] = [0.5, 0.9, 0.95];
@@ -93,6 +93,12 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     warmup,
     scenarios,
     measureNames,
+    measureSources: new Map(
+      spec.measures.map((m, i): [string, MeasureSource] => {
+        const key = m.series !== undefined ? "series" : m.from !== undefined ? "from" : null;
+        return [m.name, { place: place(key === null ? ["measures", i] : ["measures", i, key]), mayBeAbsent: m.may_be_absent === true }];
+      }),
+    ),
     comparisons,
     tables,
   };

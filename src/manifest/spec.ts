@@ -87,6 +87,8 @@ export interface MeasureSpec extends OverrideSpec {
   from?: { enter?: string; leave?: string; start?: string; end?: string };
   /** Overrides of this measure's options, by scenario name. */
   scenarios?: Record<string, OverrideSpec>;
+  /** The measure's series may appear in none of a scenario's runs (a rare event). */
+  may_be_absent?: boolean;
 }
 
 export interface ComparisonSpec {

@@ -4,6 +4,7 @@
  * The manifest reader (`src/manifest/`) turns what the user wrote (`unknown` fields) into these
  * strict types once, at the edge, with every default filled in. Nothing after the edge re-checks.
  */
+import type { Place } from "../messages/error.js";
 
 /** Names of the four contract columns in the run files. */
 export interface ColumnMap {
@@ -121,6 +122,14 @@ export interface TableOptions {
   edgeRows: number;
 }
 
+/** Where a measure's series are named in the manifest, and whether they may be absent. */
+export interface MeasureSource {
+  /** The `series` or `from` key of the measure's definition (its mapping when neither). */
+  place: Place;
+  /** `may_be_absent: true`: a series that appears in none of a scenario's runs is not an error. */
+  mayBeAbsent: boolean;
+}
+
 export interface Study {
   /** Absolute path of the manifest file. */
   manifestPath: string;
@@ -134,6 +143,8 @@ export interface Study {
   scenarios: Scenario[];
   /** Measure names in manifest order (every scenario has all of them). */
   measureNames: string[];
+  /** Per measure name: where its series are named (for messages about the run files). */
+  measureSources: ReadonlyMap<string, MeasureSource>;
   comparisons: Comparison[];
   tables: TableOptions;
 }

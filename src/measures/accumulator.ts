@@ -13,6 +13,17 @@ export interface RowOrigin {
   file: string;
 }
 
+/**
+ * The times and durations a measure worked with: the largest |time| of an interval or an entity
+ * event, and the shortest positive duration (an interval's, or an entity's end − start). Their
+ * ratio to ulp(largest time) says how many digits the durations keep (src/study/analyzeRun.ts).
+ */
+export interface Resolution {
+  largestTime: number;
+  /** Infinity when the measure formed no positive duration. */
+  smallestDuration: number;
+}
+
 /** What a measure yields for one run. */
 export interface MeasureOutput {
   stats: RunStats;
@@ -28,6 +39,13 @@ export interface MeasureOutput {
   batchMeans?: number[];
   /** Time averages of fixed-width slices from the window start (for MSER-5 and Welch's plot). */
   slices?: number[];
+  /**
+   * An entity level's area of the number inside alone, Σ insideᵢ·dᵢ (the level less its `initial`):
+   * the L of Little's law (src/study/consistency.ts).
+   */
+  insideArea?: number;
+  /** Absent for measures that form no durations (counts, observations of a series). */
+  resolution?: Resolution;
   warnings: string[];
 }
 

@@ -93,6 +93,7 @@ export class LevelSinks implements IntervalSink {
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
     const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
+    out.resolution = { largestTime: this.stats.largestTime, smallestDuration: this.stats.smallestDuration };
     if (this.trace !== null) out.trace = { level: this.trace.finish(), capacity: null };
     if (this.batches !== null) out.batchMeans = this.batches.means();
     if (this.slices !== null) out.slices = this.slices.means();
@@ -148,8 +149,12 @@ export class EntityLevel implements MeasureAccumulator {
   finish(): MeasureOutput {
     const { setup, measure } = this;
     const c = setup.window.collectFrom;
+    const end = setup.window.end as number;
     const sinks = new LevelSinks(setup, measure.atLeast, measure.initial);
-    const tracker = new LevelTracker(measure.initial, c, setup.window.end as number, sinks, sinks.trace);
+    const tracker = new LevelTracker(measure.initial, c, end, sinks, sinks.trace);
+    // The area of the number inside alone (the level less `initial`), exact for whole numbers.
+    const insideArea = new Adder();
+    const insideTracker = new LevelTracker(0, c, end, { interval: (from, to, value) => insideArea.add(value * (to - from)) });
     let inside = 0;
     let entered = 0;
     let left = 0;
@@ -158,13 +163,18 @@ export class EntityLevel implements MeasureAccumulator {
         inside++;
         if (time >= c) entered++;
         tracker.change(time, measure.initial + inside, line);
+        insideTracker.change(time, inside, line);
       },
       (time, _id, _began, line) => {
         inside--;
         if (time >= c) left++;
         tracker.change(time, measure.initial + inside, line);
+        insideTracker.change(time, inside, line);
       },
     );
-    return sinks.output(tracker.finish(), { entered, left, inside_at_end: inside });
+    insideTracker.finish();
+    const out = sinks.output(tracker.finish(), { entered, left, inside_at_end: inside });
+    out.insideArea = insideArea.value();
+    return out;
   }
 }

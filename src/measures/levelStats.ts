@@ -12,7 +12,11 @@ import type { IntervalSink } from "./intervals.js";
  *   d * delta^2 * W / (W + d) for the weight W before it and delta = v - running mean: every term
  *   is >= 0 and no two nearly equal numbers are subtracted, so nothing cancels. (Sums of d*(v-K)
  *   and d*(v-K)^2 shifted by the first value K cancelled when K was far from the rest: a level 0
- *   on [c, c] and 7 from then on got sd 1.2e-7 instead of 0.);
+ *   on [c, c] and 7 from then on got sd 1.2e-7 instead of 0.) The running mean is kept as an
+ *   unevaluated sum of two doubles (hi + lo, each update added by Knuth's two-sum): a level near
+ *   1e9 that changes by 1e-3 has deviations about 1e-12 of the mean, and a mean rounded to one
+ *   double (ulp 1.2e-7) put an error of about 1e-4 into every deviation, which left the sd about
+ *   5 significant digits; with the second double the deviations keep about 15;
  * - min and max over intervals of positive duration; final value at end;
  * - the share of time with level >= k for each threshold k (issue 8), prorated like the area;
  * - time at each distinct value while there are at most `maxDistinct` of them.
@@ -22,15 +26,19 @@ import type { IntervalSink } from "./intervals.js";
 export class LevelStats implements IntervalSink {
   readonly area = new Adder();
   private readonly duration = new Adder();
-  /** West's running weight (time), weighted mean and sum of d * squared deviations. */
+  /** West's running weight (time), weighted mean (meanHigh + meanLow) and sum of d * squared deviations. */
   private weight = 0;
-  private runningMean = 0;
+  private meanHigh = 0;
+  private meanLow = 0;
   private readonly squares = new Adder();
   min = Infinity;
   max = -Infinity;
   private readonly atLeast: Adder[];
   private readonly atLeastIntervals: number[];
   private timeAtValue: Map<number, Adder> | null = new Map();
+  /** The largest |time| of an interval of positive duration and the shortest such duration. */
+  largestTime = 0;
+  smallestDuration = Infinity;
 
   constructor(
     private readonly thresholds: readonly number[] = [],
@@ -43,12 +51,16 @@ export class LevelStats implements IntervalSink {
   interval(from: number, to: number, value: number): void {
     const d = to - from;
     if (d > 0) {
+      if (d < this.smallestDuration) this.smallestDuration = d;
+      const far = Math.max(Math.abs(from), Math.abs(to));
+      if (far > this.largestTime) this.largestTime = far;
       if (value < this.min) this.min = value;
       if (value > this.max) this.max = value;
       const before = this.weight;
       this.weight += d;
-      const delta = value - this.runningMean;
-      this.runningMean += delta * (d / this.weight); // exactly `value` on the first interval
+      // value − hi is one rounding of the exact difference, so delta keeps its relative accuracy.
+      const delta = value - this.meanHigh - this.meanLow;
+      this.addToMean(delta * (d / this.weight)); // exactly `value` on the first interval
       this.squares.add(d * delta * delta * (before / this.weight));
     }
     this.area.add(value * d);
@@ -71,6 +83,22 @@ export class LevelStats implements IntervalSink {
       }
       a.add(d);
     }
+  }
+
+  /**
+   * meanHigh + meanLow += x, the rounding error of the high part carried in the low part (two-sum:
+   * D. E. Knuth, The Art of Computer Programming vol. 2, section 4.2.2, cited from memory), then renormalised so that
+   * |meanLow| stays within half an ulp of meanHigh.
+   */
+  private addToMean(x: number): void {
+    const hi = this.meanHigh;
+    const s = hi + x;
+    const back = s - hi;
+    const error = hi - (s - back) + (x - back);
+    const low = this.meanLow + error;
+    const high = s + low;
+    this.meanLow = low - (high - s);
+    this.meanHigh = high;
   }
 
   /** Statistics over a window of duration T (T > 0). */

@@ -128,11 +128,15 @@ export class EntityObservation implements MeasureAccumulator {
     const running = new Adder();
     const table = new TableBuilder(ENTITY_OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
     const row: Cell[] = new Array(ENTITY_OBSERVATION_COLUMNS.length);
+    const resolution = { largestTime: 0, smallestDuration: Infinity };
     const open = this.visits.replay(
       () => {},
       (time, id, began, line, startLine) => {
         if (time < c) return;
         const value = time - began;
+        if (value > 0 && value < resolution.smallestDuration) resolution.smallestDuration = value;
+        const far = Math.max(Math.abs(time), Math.abs(began));
+        if (far > resolution.largestTime) resolution.largestTime = far;
         obs.push(time, value);
         running.add(value);
         const sum = running.value();
@@ -148,6 +152,8 @@ export class EntityObservation implements MeasureAccumulator {
         table.add(row);
       },
     );
-    return observationOutput(measure, setup, obs, table, { censored: open });
+    const out = observationOutput(measure, setup, obs, table, { censored: open });
+    out.resolution = resolution;
+    return out;
   }
 }

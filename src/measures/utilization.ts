@@ -1,5 +1,6 @@
 import { Adder } from "../stats/adder.js";
 import * as msg from "../messages/study.js";
+import { busyAboveCapacity, type OverCapacity } from "../messages/warnings.js";
 import type { UtilizationMeasure } from "../manifest/types.js";
 import type { UtilizationRunStats } from "../study/outcome.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
@@ -59,6 +60,9 @@ export class Utilization implements MeasureAccumulator {
   private readonly batchCapacity: SliceAreas | null = null;
   private readonly sliceBusy: SliceAreas | null = null;
   private readonly sliceCapacity: SliceAreas | null = null;
+  /** Intervals of positive duration where busy > capacity: the first one and how many, how long. */
+  private over: OverCapacity | null = null;
+  private readonly overTime = new Adder();
 
   constructor(
     private readonly measure: UtilizationMeasure,
@@ -120,6 +124,7 @@ export class Utilization implements MeasureAccumulator {
     const area = busy * d;
     const capArea = cap * d;
     this.busyStats.interval(from, to, busy);
+    if (d > 0 && busy > cap) this.noteOverCapacity(from, to, d, busy, cap);
     this.busyArea.add(area);
     this.capacityArea.add(capArea);
     const runningArea = this.busyArea.value();
@@ -156,6 +161,22 @@ export class Utilization implements MeasureAccumulator {
     }
   }
 
+  /**
+   * A busy level above the capacity is a warning however the areas come out: the ratio of areas
+   * can hide it (busy 3 against capacity 2 for a while, busy 0 against 2 otherwise, utilization
+   * below 1). Intervals of duration 0 are left out: at a tie of a busy and a capacity row the
+   * order in the file decides which changes first, not the model.
+   */
+  private noteOverCapacity(from: number, to: number, d: number, busy: number, cap: number): void {
+    if (this.over === null) {
+      const line = this.line === this.line ? this.line : null;
+      const series = this.changedKind === -1 || this.reads.length === 1 ? null : this.reads[this.changedKind === BUSY ? 0 : 1].series;
+      this.over = { intervals: 0, time: 0, from, to, busy, capacity: cap, line, series };
+    }
+    this.over.intervals++;
+    this.overTime.add(d);
+  }
+
   finish(): MeasureOutput {
     if (this.reads.length > 1) this.events.replay((time, kind, value, _id, line) => this.change(time, kind, value, line));
     this.close(this.end);
@@ -179,7 +200,12 @@ export class Utilization implements MeasureAccumulator {
     if (Object.keys(f.timeAtLeast).length > 0) stats.time_at_least = f.timeAtLeast;
     if (f.timeAtValue !== null) stats.time_at_value = f.timeAtValue;
     const out: MeasureOutput = { stats, tables: [{ suffix: "", table: this.table.build() }, ...levelShareTables(f, T)], warnings: [] };
-    if (u > 1 + 1e-12) out.warnings.push(`utilization ${u} is above 1: the busy level exceeded the capacity for part of the window`);
+    out.resolution = { largestTime: this.busyStats.largestTime, smallestDuration: this.busyStats.smallestDuration };
+    if (this.over !== null) {
+      const o = { ...this.over, time: this.overTime.value() };
+      stats.over_capacity = { intervals: o.intervals, time: o.time, first: { from: o.from, to: o.to, busy: o.busy, capacity: o.capacity, line: o.line } };
+      out.warnings.push(busyAboveCapacity(this.measure.name, this.setup.file, o, u));
+    }
     if (this.busyTrace !== null) out.trace = { level: this.busyTrace.finish(), capacity: this.capacityTrace!.finish() };
     if (this.batchBusy !== null) out.batchMeans = ratio(this.batchBusy, this.batchCapacity!);
     if (this.sliceBusy !== null) out.slices = ratio(this.sliceBusy, this.sliceCapacity!);

@@ -1,5 +1,5 @@
 /** Messages of the measures and the study runner (rows that break a measure's rules). */
-import { located, UserError } from "./error.js";
+import { located, type Place, UserError } from "./error.js";
 
 export const levelRowWithoutValue = (file: string, line: number, series: string, measure: string) =>
   located(
@@ -43,6 +43,13 @@ export const capacityNotPositive = (file: string, measure: string) =>
     "check the capacity series of this run (it must be positive for some time inside the window) or its capacity_initial.",
   );
 
+export const capacitySeriesAbsent = (file: string, measure: string, series: string, suggestion: string | null) =>
+  located(
+    { file },
+    `measure "${measure}": its capacity series "${series}" has no row in this run and capacity_initial is 0, so the capacity is 0 throughout and utilization is undefined`,
+    `${suggestion !== null ? `did you mean "${suggestion}"? ` : ""}check the capacity series name in the manifest, or give \`capacity_initial\` for a capacity that never changes in this run.`,
+  );
+
 export const atWrongKind = (measure: string, kind: string) =>
   new UserError(
     `Measure "${measure}" is a ${kind} measure; \`at\` computes the time average of a level or utilization measure up to a time.\n  What to do: pick a level or utilization measure (see \`sojourn check MANIFEST\` for the list).`,
@@ -71,3 +78,24 @@ export const summaryFigureOverflow = (scenario: string, measure: string, figure:
   new UserError(
     `Scenario "${scenario}", measure "${measure}": the across-run ${figure} is too large to compute (beyond about 1.8e308), because the runs' values differ by too much.\n  What to do: write the values in a larger unit, or check the runs for a misplaced exponent.`,
   );
+
+/**
+ * A measure's series appears in no run of a scenario: usually a misspelt series name, which
+ * would otherwise give a confident zero.
+ */
+export const seriesInNoRun = (
+  place: Place,
+  measure: string,
+  series: string,
+  scenario: string,
+  runs: number,
+  suggestion: string | null,
+  seen: readonly string[],
+) => {
+  const names = seen.length === 0 ? "the runs hold no rows at all" : `the series that do appear: ${seen.slice(0, 8).map((s) => `"${s}"`).join(", ")}${seen.length > 8 ? `, and ${seen.length - 8} more` : ""}`;
+  return located(
+    place,
+    `measure "${measure}" reads series "${series}", which appears in none of the ${runs} run${runs === 1 ? "" : "s"} of scenario "${scenario}" (${names})`,
+    `${suggestion !== null ? `did you mean "${suggestion}"? ` : ""}correct the series name in the manifest (or map the right column with \`columns:\`); if the series is a rare event that may truly never happen, add \`may_be_absent: true\` to the measure.`,
+  );
+};

@@ -26,3 +26,17 @@ export const summaryNeedsFixedWarmup = (scenario: string) =>
   new UserError(
     `scenario "${scenario}" estimates its warm-up with MSER-5, which needs every run of the scenario at once; per-run summaries cannot be made or used for it yet\n  What to do: give the scenario a fixed warm-up (e.g. the estimate of an earlier report, \`warmup: 30\`), or report on the raw run files.`,
   );
+
+export const summaryStale = (file: string, runFile: string, now: string, recorded: string) =>
+  new UserError(
+    `${file}: the summary is stale: run file ${runFile} changed after the summary was made (its SHA-256 is now ${now}; the summary was made from ${recorded})\n  What to do: write the summary again from the run file with \`sojourn summarize-run\`, or put back the run file it was made from.`,
+  );
+
+export const summaryMalformed = (file: string, why: string) =>
+  new UserError(
+    `${file}: this is not a run summary as \`sojourn summarize-run\` writes it (${why})\n  What to do: write the summary again with \`sojourn summarize-run\`.`,
+  );
+
+/** The report's warning when a summary was used without checking it against its run file. */
+export const summaryUnchecked = (runFile: string, reason: string) =>
+  `run file ${runFile} cannot be read here (${reason}), so its summary was used as it is: the run's numbers rest on the summary's own digest of the file, not on the file`;

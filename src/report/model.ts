@@ -37,10 +37,13 @@ import {
 } from "./charts.js";
 import { fsum } from "../stats/fsum.js";
 import { formatNumber, formatPercent, MISSING, SIGNIFICANT_DIGITS } from "./number.js";
+import { runsEndEarlyOnRow, runsNeededWhy, runsWithoutValue, runWarningsOnRow } from "../messages/warnings.js";
+import { LATE_FRACTION } from "../study/runChecks.js";
+import { meanCorrectionMatters, PREVIEW_HEAD, PREVIEW_RUNS, PREVIEW_TAIL } from "../study/tables.js";
 
-/** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS`. */
-export const TABLE_HEAD_ROWS = 20;
-export const TABLE_TAIL_ROWS = 10;
+/** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS` (the rows the study keeps as the table's preview). */
+export const TABLE_HEAD_ROWS = PREVIEW_HEAD;
+export const TABLE_TAIL_ROWS = PREVIEW_TAIL;
 /** The most rows the appendix shows per calculation table. */
 export const TABLE_ROW_CAP = TABLE_HEAD_ROWS + TABLE_TAIL_ROWS;
 
@@ -81,6 +84,8 @@ export interface SummaryRow {
   runs: string;
   relative: Cell;
   note: string | null;
+  /** What the row's interval rests on that a reader should know: runs left out, runs that stopped early. */
+  warnings: string[];
 }
 
 export interface Chart {
@@ -216,6 +221,8 @@ export interface ReportModel {
     inputsIntro: string;
     tablesIntro: string;
     tables: CalcTable[];
+    /** Where the tables not shown are (runs after the first `PREVIEW_RUNS` of a scenario); null when every table is shown. */
+    tablesElsewhere: { id: string; text: string } | null;
     intervals: IntervalView[];
     /** Consistency checks of the run data, one row per check and run; null when there are none. */
     checks: { intro: string; table: TableView } | null;
@@ -445,14 +452,14 @@ const METHODS: Omit<MethodNote, "id">[] = [
   },
   {
     term: "Runs needed for a target precision",
-    formula: "n* = smallest k with t(1 − α/2; k − 1) · s / √k ≤ h*  (h* = target half-width, or target relative precision × |x̄|)",
-    text: "How many runs would bring the half-width down to the target, treating the current sd s as if it were exact; a planning figure, not a promise.",
-    source: "Follows from the Student t half-width above.",
+    formula: "n* = smallest k with t(1 − α/2; k − 1) · s / √k ≤ h*  (h* = target half-width, or γ/(1 + γ) × |x̄| for a relative error γ)",
+    text: "How many runs would bring the half-width down to the target, treating the current sd s as if it were exact; a planning figure, not a promise. A relative error γ means the estimate within γ of the true mean: since the interval is centred on x̄, not on the unknown mean, that needs a half-width of γ/(1 + γ) × |x̄|. With one run, identical runs or a mean of 0 for a relative target there is no number, and the table says why.",
+    source: "Follows from the Student t half-width above; the adjusted relative error γ/(1 + γ) is that of the sequential procedure for a relative precision in Law (2015), Simulation Modeling and Analysis, 5th ed., §9.4.1 (cited from memory; the derivation is in docs/statistics.md).",
   },
   {
     term: "Little's law (consistency check)",
     formula: "L = λ · W",
-    text: "Time-average number in a system equals arrival rate times mean time in the system, over a long window that starts and ends nearly empty.",
+    text: "Time-average number in a system equals arrival rate times mean time in the system, over a long window that starts and ends nearly empty. L counts the entities inside: an entity level with an initial value is taken less that value.",
     source: "Little, J. D. C. (1961). Operations Research 9(3), 383–387.",
   },
 ];
@@ -490,7 +497,8 @@ export function buildReportModel(
 
   // Anchors of calculation tables and interval derivations, assigned once.
   // Every table has its own anchor; a run value links to its measure's first (main) table.
-  const tableAnchors = outcome.tables.map((t, i) => anchor("table", i + 1, t.measure, t.scenario, t.run));
+  // A table the page does not show (no preview rows) links to the note that says where its file is.
+  const tableAnchors = outcome.tables.map((t, i) => (t.preview === null ? TABLES_ELSEWHERE : anchor("table", i + 1, t.measure, t.scenario, t.run)));
   const tableIds = new Map<string, string>();
   outcome.tables.forEach((t, i) => {
     const k = key(t.scenario, t.run, t.measure);
@@ -555,6 +563,7 @@ export function buildReportModel(
         runs: String(s?.n ?? 0),
         relative: link(relative({ mean: s?.mean ?? null, half_width: s?.half_width ?? null }), href),
         note: s && s.half_width === null ? (iv?.note ?? "No interval: fewer than two run values.") : null,
+        warnings: summaryWarnings(s, sr.runs.length, outcome.warnings.filter((w) => w.scenario === sr.name && w.run !== null && (w.measure === name || w.measure === null)).length),
       });
     });
   });
@@ -670,7 +679,8 @@ export function buildReportModel(
       sha256: r.sha256,
     };
   });
-  const tables: CalcTable[] = outcome.tables.map((t, i) => calcTable(t, tableAnchors[i]));
+  const tables: CalcTable[] = outcome.tables.flatMap((t, i) => (t.preview === null ? [] : [calcTable(t, t.preview, tableAnchors[i])]));
+  const tablesElsewhere = elsewhereNote(outcome.tables);
   const intervals: IntervalView[] = outcome.intervals.map((a, i) => {
     const kind = (() => { try { return measureOf(a.scenario, a.measure).kind; } catch { return "level" as const; } })();
     return intervalView(a, intervalIds.get(key(a.scenario, a.measure, a.figure)) ?? anchor("calc", i + 1), figureLabel(kind, a.figure), tbId);
@@ -732,6 +742,7 @@ export function buildReportModel(
       tablesIntro: `Each calculation table shows at most ${TABLE_ROW_CAP} rows here (the first ${TABLE_HEAD_ROWS} and the last ${TABLE_TAIL_ROWS}); ` +
         "the full table is the CSV file named under it, whose SHA-256 digest is given.",
       tables,
+      tablesElsewhere,
       intervals,
       checks,
       batchValues,
@@ -865,23 +876,42 @@ function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scena
   );
 }
 
+/**
+ * The warnings shown on a summary row: from the summary's lists of runs (src/study/summaries.ts),
+ * and how many warnings the runs behind the row have (about this measure or the whole run).
+ */
+function summaryWarnings(s: Summary | undefined, runs: number, runWarnings: number): string[] {
+  const out: string[] = [];
+  const list = (v: unknown) => (Array.isArray(v) && v.length > 0 ? v.map(String) : null);
+  const without = list(s?.runs_without_value);
+  if (s && without !== null) out.push(runsWithoutValue(without, s.n, runs));
+  const early = list(s?.runs_ending_early);
+  if (early !== null) out.push(runsEndEarlyOnRow(early, LATE_FRACTION));
+  if (runWarnings > 0) out.push(runWarningsOnRow(runWarnings));
+  return out;
+}
+
 function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scenarios"]): TableView | null {
   const rows: Cell[][] = [];
   for (const sr of scenarios) {
     const s = sr.summary[name];
-    const need = s?.runs_needed;
-    if (need === undefined || need === null) continue;
-    const runs = typeof need === "number" ? need : null;
+    if (s?.target === undefined) continue;
+    const need = typeof s.runs_needed === "number" ? s.runs_needed : null;
     const t = s.target as { half_width?: number; relative?: number } | undefined;
     let target = MISSING;
-    if (t && typeof t.relative === "number") target = `relative precision ${formatPercent(t.relative)}`;
+    if (t && typeof t.relative === "number") target = `relative error ${formatPercent(t.relative)}`;
     else if (t && typeof t.half_width === "number") target = `half-width ${fmt(t.half_width)}`;
-    rows.push([text(sr.name), text(target), text(String(s.n)), text(fmt(s.half_width)), text(fmt(runs))]);
+    const aim = typeof s.target_half_width === "number" ? s.target_half_width : null;
+    const why = need === null && typeof s.runs_needed_reason === "string" ? runsNeededWhy(s.runs_needed_reason, s.n) : null;
+    rows.push([
+      text(sr.name), text(target), text(fmt(aim)), text(String(s.n)), text(fmt(s.half_width)),
+      why === null ? text(fmt(need)) : { ...text(`${MISSING} ${why}`), flag: true },
+    ]);
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${name}: runs needed for the target precision (smallest k with t · s / √k ≤ target half-width)`,
-    ["Scenario", "Target", "Runs now", "Half-width now", "Runs needed"],
+    `${name}: runs needed for the target precision (smallest k with t · s / √k ≤ the half-width aimed at; a relative error γ aims at γ/(1 + γ) · |mean|)`,
+    ["Scenario", "Target", "Half-width aimed at", "Runs now", "Half-width now", "Runs needed"],
     rows,
   );
 }
@@ -906,16 +936,41 @@ const TABLE_EXPLAIN: Record<string, { label: string; text: string }> = {
   },
 };
 
-function calcTable(t: TableRecord, id: string): CalcTable {
-  const preview = t.preview;
+/** The anchor of the note on the calculation tables that are files only. */
+const TABLES_ELSEWHERE = "tables-elsewhere";
+
+/** The note on the tables the page does not show: how many, of which runs, and where they are. */
+function elsewhereNote(tables: TableRecord[]): { id: string; text: string } | null {
+  const byScenario = new Map<string, { runs: string[]; tables: number }>();
+  for (const t of tables) {
+    if (t.preview !== null || t.run === null) continue;
+    const s = byScenario.get(t.scenario) ?? { runs: [], tables: 0 };
+    if (s.runs.at(-1) !== t.run) s.runs.push(t.run);
+    s.tables++;
+    byScenario.set(t.scenario, s);
+  }
+  if (byScenario.size === 0) return null;
+  const parts = [...byScenario].map(([scenario, s]) =>
+    `${q(scenario)}: ${fmt(s.tables)} tables of ${fmt(s.runs.length)} runs (${s.runs.length === 1 ? `run ${s.runs[0]}` : `runs ${s.runs[0]} to ${s.runs.at(-1)}`})`);
+  return {
+    id: TABLES_ELSEWHERE,
+    text: `This page shows the calculation tables of the first ${PREVIEW_RUNS} runs of each scenario. The tables of the later runs are files only, ` +
+      `tables/<scenario>/runs/<run>/<measure>.csv in the report folder, each listed with its SHA-256 digest in record.json: ${parts.join("; ")}. ` +
+      "`sojourn table` writes any of them in full.",
+  };
+}
+
+/** A calculation table as the appendix shows it, from its preview rows (head and tail of the written rows). */
+function calcTable(t: TableRecord, preview: NonNullable<TableRecord["preview"]>, id: string): CalcTable {
+  const written = t.rows_written;
   const show = preview.length <= TABLE_ROW_CAP ? preview : [...preview.slice(0, TABLE_HEAD_ROWS), ...preview.slice(-TABLE_TAIL_ROWS)];
   const cell = (v: number | string | null) => (typeof v === "number" ? fmt(v) : v === null ? MISSING : roundNumbersIn(v));
   const rows: CalcTable["rows"] = show.map((r) => ({ cells: r.map(cell), gap: null }));
   const numeric = t.columns.map((_, j) => show.every((r) => typeof r[j] !== "string" || NUMERIC.test(r[j] as string)));
-  const hiddenHere = preview.length - show.length;
+  const hiddenHere = written - show.length;
   const hiddenTotal = t.rows_total - show.length;
   if (hiddenTotal > 0) {
-    const at = preview.length <= TABLE_ROW_CAP ? Math.min(rows.length, Math.ceil(rows.length / 2)) : TABLE_HEAD_ROWS;
+    const at = written <= TABLE_ROW_CAP ? Math.min(rows.length, Math.ceil(rows.length / 2)) : TABLE_HEAD_ROWS;
     rows.splice(at, 0, { cells: null, gap: `… ${fmt(hiddenTotal)} rows not shown: see ${t.file} …` });
   }
   const parts = [`${fmt(t.rows_total)} rows in full; ${fmt(show.length)} shown here.`];
@@ -941,7 +996,10 @@ function intervalView(
     { label: "Mean", formula: `x̄ = Σ xᵢ / n = ${fmt(a.sum)} / ${fmt(a.n)}`, value: fmt(a.mean) },
   ];
   if (a.sum_squared !== null) steps.push({ label: "Sum of squared deviations", formula: "Σ (xᵢ − x̄)²", value: fmt(a.sum_squared) });
-  if (a.variance !== null) steps.push({ label: "Sample variance", formula: `s² = Σ (xᵢ − x̄)² / (n − 1) = ${fmt(a.sum_squared)} / ${fmt(a.df)}`, value: fmt(a.variance) });
+  if (meanCorrectionMatters(a)) {
+    steps.push({ label: "Correction for the rounding of the mean", formula: "c = (Σ (xᵢ − x̄))² / n", value: fmt(a.mean_correction) });
+    if (a.variance !== null) steps.push({ label: "Sample variance", formula: `s² = (Σ (xᵢ − x̄)² − c) / (n − 1) = (${fmt(a.sum_squared)} − ${fmt(a.mean_correction)}) / ${fmt(a.df)}`, value: fmt(a.variance) });
+  } else if (a.variance !== null) steps.push({ label: "Sample variance", formula: `s² = Σ (xᵢ − x̄)² / (n − 1) = ${fmt(a.sum_squared)} / ${fmt(a.df)}`, value: fmt(a.variance) });
   if (a.sd !== null) steps.push({ label: "Standard deviation", formula: `s = √s² = √${fmt(a.variance)}`, value: fmt(a.sd) });
   if (a.standard_error !== null) steps.push({ label: "Standard error", formula: `s / √n = ${fmt(a.sd)} / √${fmt(a.n)}`, value: fmt(a.standard_error) });
   if (a.df !== null) steps.push({ label: "Degrees of freedom", formula: "df = n − 1", value: fmt(a.df) });

@@ -3,11 +3,12 @@
  * header (the study title) and page numbers. puppeteer-core is imported only here, and only
  * when a PDF is asked for.
  */
-import { accessSync, constants } from "node:fs";
-import { mkdtemp, readFile, rm, writeFile, rename } from "node:fs/promises";
+import { accessSync, constants, mkdirSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { onInterrupt } from "../interrupt.js";
 import { reportMessages } from "../messages/index.js";
+import { errorCode, nodeFs, type OutputFs } from "../record/fileSystem.js";
 
 /** Where to look for a browser when neither `--chrome` nor SOJOURN_CHROME names one. */
 export const CHROME_CANDIDATES = [
@@ -75,17 +76,35 @@ function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] as string);
 }
 
-/** Prints the report's HTML to `pdfPath` (written beside, then renamed into place). */
+/**
+ * Prints the report's HTML to `pdfPath` (written beside, then renamed into place).
+ *
+ * The browser runs with a fresh profile folder in the system's temporary folder, which also
+ * takes the browser's own temporary files. It is removed
+ * when printing ends, fails, or is interrupted: on SIGINT or SIGTERM the browser is killed, the
+ * profile and the partial PDF are removed, and the process exits (src/interrupt.ts). Errors of
+ * the file system (a full disk) are thrown as they are, for the caller to put in words.
+ */
 export async function renderPdf(
   html: string,
   pdfPath: string,
-  options: { chrome?: string; paper: "A4" | "Letter"; title: string; onProgress?: (msg: string) => void },
+  options: { chrome?: string; paper: "A4" | "Letter"; title: string; onProgress?: (msg: string) => void; fs?: OutputFs },
 ): Promise<{ pages: number }> {
   const chrome = chromeOrThrow(options.chrome);
   const progress = options.onProgress ?? (() => {});
-  const profile = await mkdtemp(join(tmpdir(), "sojourn-chrome-"));
+  const fs = options.fs ?? nodeFs;
+  // The browser's profile and its own temporary files (TMPDIR) both live in one folder of ours,
+  // so that removing it leaves nothing behind, even after the browser was killed.
+  const profile = mkdtempSync(join(tmpdir(), "sojourn-chrome-"));
+  mkdirSync(join(profile, "data"));
+  mkdirSync(join(profile, "tmp"));
   const partial = `${pdfPath}.partial`;
   let browser: import("puppeteer-core").Browser | undefined;
+  const release = onInterrupt(() => {
+    browser?.process()?.kill("SIGKILL");
+    rmSync(partial, { force: true });
+    rmSync(profile, { recursive: true, force: true, maxRetries: 5, retryDelay: 20 });
+  });
   try {
     progress(`starting the browser at ${chrome}`);
     const puppeteer = (await import("puppeteer-core")).default;
@@ -93,7 +112,12 @@ export async function renderPdf(
       browser = await puppeteer.launch({
         executablePath: chrome,
         headless: true,
-        args: [...CHROME_FLAGS, `--user-data-dir=${profile}`],
+        args: [...CHROME_FLAGS, `--user-data-dir=${join(profile, "data")}`],
+        env: { ...process.env, TMPDIR: join(profile, "tmp") },
+        // Sojourn's own handler (above) stops the browser on a signal and removes its profile.
+        handleSIGINT: false,
+        handleSIGTERM: false,
+        handleSIGHUP: false,
       });
     } catch (err) {
       throw reportMessages.browserFailed(chrome, (err as Error).message.split("\n")[0]);
@@ -112,17 +136,19 @@ export async function renderPdf(
       footerTemplate: `<div style="${small} text-align: right;">page <span class="pageNumber"></span> of <span class="totalPages"></span></div>`,
       margin: { top: "20mm", bottom: "18mm", left: "14mm", right: "14mm" },
     });
-    await writeFile(partial, pdf);
-    await rename(partial, pdfPath);
-    const pages = countPdfPages(await readFile(pdfPath));
-    progress(`wrote ${pages} pages to ${pdfPath}`);
+    fs.writeFile(partial, pdf);
+    fs.rename(partial, pdfPath);
+    const pages = countPdfPages(readFileSync(pdfPath));
+    progress(`printed ${pages} pages`);
     return { pages };
   } catch (err) {
-    await rm(partial, { force: true });
+    rmSync(partial, { force: true });
     if (err instanceof Error && err.name === "UserError") throw err;
+    if (errorCode(err) !== null && (err as NodeJS.ErrnoException).syscall !== undefined) throw err;
     throw reportMessages.browserFailed(chrome, (err as Error).message.split("\n")[0]);
   } finally {
     await browser?.close().catch(() => {});
-    await rm(profile, { recursive: true, force: true });
+    rmSync(profile, { recursive: true, force: true, maxRetries: 5, retryDelay: 20 });
+    release();
   }
 }

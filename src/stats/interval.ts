@@ -12,6 +12,8 @@ export interface IntervalSteps {
   sum: number;
   mean: number | null;
   sum_squared: number | null;
+  /** (Σ deviations)² / n, taken off sum_squared for the rounding of the mean (see `spread`). */
+  mean_correction: number | null;
   variance: number | null;
   sd: number | null;
   df: number | null;
@@ -47,7 +49,8 @@ export const intervalNotes = {
  * Student t confidence interval for a mean across independent replications, with every step.
  *
  * With values x_1 … x_n (one per run): mean x̄ = Σx / n; sample variance
- * s² = Σ(x_i − x̄)² / (n − 1); standard error s / √n; half-width h = t(1 − α/2, n − 1) · s / √n
+ * s² = (Σ(x_i − x̄)² − (Σ(x_i − x̄))² / n) / (n − 1), the second term (`mean_correction`) taking off
+ * the rounding of x̄ (see `spread`; 0 unless the values are close together far from 0); standard error s / √n; half-width h = t(1 − α/2, n − 1) · s / √n
  * with α = 1 − confidence; interval [x̄ − h, x̄ + h]. Sums are exactly rounded (`fsum`), so the
  * result does not depend on the order of the runs; `rows` keep the input order.
  * n = 0: only n = 0 and sum = 0 are set. n = 1: sum, mean, sum_squared (0) are set; variance, sd
@@ -72,6 +75,7 @@ export function intervalArithmetic(values: { run: string; value: number }[], con
     sum: s.sum,
     mean: s.mean,
     sum_squared: s.sum_squared,
+    mean_correction: s.mean_correction,
     variance: null,
     sd: null,
     df: null,
@@ -94,6 +98,7 @@ export function intervalArithmetic(values: { run: string; value: number }[], con
     sum: s.sum,
     mean: s.mean,
     sum_squared: s.sum_squared,
+    mean_correction: s.mean_correction,
     variance: s.variance,
     sd: s.sd,
     df,

@@ -6,7 +6,10 @@ import { makeWindow, type RunWindow } from "../measures/window.js";
 import type { Measure, RunRef, Scenario, TableOptions } from "../manifest/types.js";
 import type { InputRecord, RunResult } from "./outcome.js";
 import { nonFinitePath } from "./finite.js";
+import { closest } from "../manifest/didYouMean.js";
 import * as studyMessages from "../messages/study.js";
+import * as warn from "../messages/warnings.js";
+import { DURATION_DIGITS_WARNING, endsEarly, LATE_FRACTION, timeResolution } from "./runChecks.js";
 import { runTablePath, type TableFile, tableFile } from "./tables.js";
 
 /** What to compute for one run. */
@@ -96,6 +99,8 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
   const c = window.collectFrom;
   let afterEnd = 0;
   let beforeWindow = 0;
+  /** The latest time of any row the measures read, after the end too (-Infinity: none). */
+  let lastRow = -Infinity;
   const report = await readRun({
     readerThread: options.readerThread,
     path: run.path,
@@ -103,6 +108,7 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
     columns: scenario.columns,
     series: requests,
     onRow(seriesIndex, time, value, entity, line) {
+      if (time > lastRow) lastRow = time;
       if (time > end) {
         afterEnd++;
         return;
@@ -124,6 +130,12 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
         measure: m.name,
         message: `series ${missing.map((s) => `"${s}"`).join(", ")} never appears in ${run.file}; measure "${m.name}" sees no rows of it in this run`,
       });
+    }
+    // A capacity series absent from the run with no capacity before its first row would end in
+    // "zero capacity area": say that the name is probably wrong instead.
+    if (m.kind === "utilization" && m.capacity.type === "series" && m.capacity.initial === 0 && missing.includes(m.capacity.series)) {
+      const names = Object.keys(report.seriesRows);
+      throw studyMessages.capacitySeriesAbsent(run.file, m.name, m.capacity.series, closest(m.capacity.series, names));
     }
     const out = acc.finish();
     const overflow = nonFinitePath(out.stats);
@@ -158,5 +170,21 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
     measures,
   };
   if (window.warmup !== null) result.warmup = window.warmup;
+  const last = lastRow === -Infinity ? null : lastRow;
+  result.last_row_time = last;
+  if (window.end !== null && last !== null && endsEarly(last, run.start, window.end)) {
+    result.ends_early = true;
+    warnings.push({ measure: null, message: warn.runEndsEarly(run.file, last, window.end, run.start, LATE_FRACTION) });
+  }
+  const resolution = timeResolution(outputs.values());
+  if (resolution !== null) {
+    result.time_resolution = resolution;
+    if (resolution.digits < DURATION_DIGITS_WARNING) {
+      warnings.push({
+        measure: null,
+        message: warn.durationDigits(run.file, resolution.digits, resolution.largest_time, resolution.ulp, resolution.smallest_duration, DURATION_DIGITS_WARNING),
+      });
+    }
+  }
   return { result, input, window, outputs, warnings, tableFiles: runTableFiles(scenario.name, { result, outputs }, plan.measures) };
 }

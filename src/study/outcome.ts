@@ -118,8 +118,12 @@ export interface TableRecord {
   /** True when the table was shortened (head, checkpoints, tail). */
   shortened: boolean;
   sha256: string;
-  /** The rows as written, for the report appendix (at most the written rows). */
-  preview: (number | string | null)[][];
+  /**
+   * The rows the report page shows (all written rows when there are at most `PREVIEW_HEAD +
+   * PREVIEW_TAIL`, else the first and the last, see `study/tables.ts`); null for the tables of a
+   * scenario's runs after the first `PREVIEW_RUNS`, which are files only.
+   */
+  preview: (number | string | null)[][] | null;
 }
 
 /** Step-by-step arithmetic of one across-run interval, labelled with what it summarises. */

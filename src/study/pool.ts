@@ -24,7 +24,10 @@ import { Worker } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
 import { analyzeRun, type RunAnalysis, type RunPlan } from "./analyzeRun.js";
 
-/** Analyses plans and gives their results in plan order; `onDone` hears of each run as it ends. */
+/**
+ * Analyses plans and gives their results in plan order; `onDone` hears of each run as it ends (in
+ * any order) and may release the analysis' large parts, which the returned array shares.
+ */
 export type AnalyzeRuns = (plans: RunPlan[], onDone?: (index: number, a: RunAnalysis) => void) => Promise<RunAnalysis[]>;
 
 /** What a worker sends back for one job. */
@@ -96,7 +99,12 @@ async function onWorkers(plans: RunPlan[], workers: number, onDone?: (index: num
         const current = given.shift()!;
         if (reply.ok) {
           results[current] = reply.analysis;
-          onDone?.(current, reply.analysis);
+          // A failure of the caller's handler (a table that cannot be written) fails this run.
+          try {
+            onDone?.(current, reply.analysis);
+          } catch (e) {
+            failures.push({ index: current, error: e instanceof Error ? e : new Error(String(e)) });
+          }
         } else {
           const e = reply.user ? new UserError(reply.message, reply.exitCode) : new Error(reply.message);
           if (!reply.user && reply.stack !== undefined) e.stack = reply.stack;

@@ -1,22 +1,23 @@
 import { readFileSync } from "node:fs";
 import { batchMeansInterval, observationBatches } from "../stats/batchMeans.js";
-import type { Study } from "../manifest/types.js";
+import type { Scenario, Study } from "../manifest/types.js";
 import type { MeasureOutput } from "../measures/accumulator.js";
 import { type RunAnalysis, type RunPlan, runTableFiles } from "./analyzeRun.js";
+import { checkSeriesPresent } from "./absentSeries.js";
 import { compareScenarios } from "./compare.js";
-import { consistencyChecks } from "./consistency.js";
-import type { LevelTrace, ObservationSample, Results, ScenarioResult, StudyOutcome, Warning } from "./outcome.js";
+import { type Check, runChecks } from "./consistency.js";
+import type { InputRecord, LevelTrace, Results, RunResult, ScenarioResult, StudyOutcome, TableRecord, Warning } from "./outcome.js";
+import { EvenSample, thinned } from "./sample.js";
 import { summarizeMeasure } from "./summaries.js";
-import { intervalTable, intervalTablePath, type TableFile, tableFile } from "./tables.js";
-import { resolveWarmup } from "./warmup.js";
+import { intervalTable, intervalTablePath, PREVIEW_RUNS, tableFile } from "./tables.js";
+import { type ResolvedWarmup, resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
 import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
 import * as summaryMessages from "../messages/summary.js";
+import { runsWithoutValue } from "../messages/warnings.js";
 
 export interface StudyRun {
   outcome: StudyOutcome;
-  /** Calculation tables to write under the report folder, in a fixed order. */
-  tableFiles: TableFile[];
 }
 
 export interface RunStudyOptions {
@@ -31,10 +32,39 @@ export interface RunStudyOptions {
    * `sojourn summarize-run`) instead of reading its run file (docs/distributed.md).
    */
   fromSummaries?: string;
+  /**
+   * Called with each calculation table's path (relative to the report folder) and CSV text as
+   * soon as its run is analysed, in any order of the runs; the text is not kept. Without it the
+   * tables are only indexed (`outcome.tables`, with their digests).
+   */
+  writeTable?: (file: string, csv: string) => void;
 }
 
 /** Largest number of observation values kept per scenario and measure for the histogram. */
 const SAMPLE_LIMIT = 20_000;
+
+/** What one analysed run leaves behind once its heavy parts (tables, observations) are used. */
+interface RunLeft {
+  result: RunResult;
+  input: InputRecord;
+  warnings: Warning[];
+  tables: TableRecord[];
+  checks: Check[];
+  traces: LevelTrace[];
+}
+
+/** A scenario while its runs come in: what each run left, by run index, and its samples. */
+interface ScenarioWork {
+  scenario: Scenario;
+  warmup: ResolvedWarmup;
+  runs: RunLeft[];
+  /** Per observation measure: the run-ordered sample and the number of values in all. */
+  samples: Map<string, { sample: EvenSample; total: number }>;
+  /** Per run that ended before an earlier run of the scenario: its thinned values and their number. */
+  waiting: Map<number, Map<string, { values: Float64Array; n: number }>>;
+  /** The next run index whose values go into the samples. */
+  nextSample: number;
+}
 
 /**
  * Runs a whole study:
@@ -42,13 +72,15 @@ const SAMPLE_LIMIT = 20_000;
  *   Study ─┬─ per scenario ─┬─ warm-up (fixed, or MSER-5 from a first pass)
  *          │                ├─ per run: analyzeRun (one pass over the file, every measure),
  *          │                │  runs of all scenarios shared among worker threads (pool.ts)
- *          │                ├─ batch means inside each run (when asked)
+ *          │                ├─ as each run ends: its tables written (writeTable), batch means,
+ *          │                │  checks, its values into the samples; then only its small results kept
  *          │                └─ per measure: across-run summaries with their interval arithmetic
  *          ├─ comparisons between scenarios (Bonferroni over all of them)
  *          └─ results.json + tables + chart data + audit records  ──▶  StudyOutcome
  *
- * Everything is in a fixed order (scenarios, runs, measures as the manifest lists them), so the
- * same inputs give the same bytes.
+ * Runs end in any order (worker threads); what each leaves is kept at its index and the samples
+ * take runs in order, so the same inputs give the same bytes. Memory holds every run's small
+ * results, but of its tables and observation values only the page's share.
  */
 export async function runStudy(study: Study, options: RunStudyOptions = {}): Promise<StudyRun> {
   const progress = options.onProgress ?? (() => {});
@@ -68,7 +100,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     samples: [],
     warnings: [],
   };
-  const tableFiles: TableFile[] = [];
+  const writeTable = options.writeTable ?? (() => {});
   const totalRuns = study.scenarios.reduce((s, sc) => s + sc.runs.length, 0);
   let done = 0;
 
@@ -79,57 +111,97 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     analyze = summariesAnalyzer(options.fromSummaries, readIfThere);
   }
 
+  /** Takes in one analysed run, in any order, and frees its heavy parts. */
+  const take = (work: ScenarioWork, index: number, a: RunAnalysis) => {
+    const { scenario } = work;
+    const batches = scenario.analysis.type === "batch-means" ? scenario.analysis.batches : null;
+    const left: RunLeft = { result: a.result, input: a.input, warnings: [], tables: [], checks: [], traces: [] };
+    for (const w of a.warnings) left.warnings.push({ scenario: scenario.name, run: a.result.id, measure: w.measure, message: w.message });
+    for (const f of a.tableFiles ?? runTableFiles(scenario.name, a, scenario.measures)) {
+      writeTable(f.record.file, f.csv);
+      left.tables.push(index < PREVIEW_RUNS ? f.record : { ...f.record, preview: null });
+    }
+    const values = new Map<string, { values: Float64Array; n: number }>();
+    for (const m of scenario.measures) {
+      const out = a.outputs.get(m.name)!;
+      if (batches !== null) addBatchMeans(a, m.name, batches, study.confidence, left.warnings, scenario.name);
+      if (out.trace !== undefined) left.traces.push(traceOf(scenario.name, a, m.name, out.trace));
+      if (m.kind === "observation" && out.observations !== undefined) values.set(m.name, { values: thinned(out.observations, SAMPLE_LIMIT), n: out.observations.length });
+    }
+    left.checks = runChecks(scenario, a);
+    work.runs[index] = left;
+    // Released here: the pool's arrays hold this same analysis until the batch ends.
+    a.outputs.clear();
+    a.tableFiles = undefined;
+
+    work.waiting.set(index, values);
+    for (let next = work.waiting.get(work.nextSample); next !== undefined; next = work.waiting.get(work.nextSample)) {
+      work.waiting.delete(work.nextSample++);
+      for (const [name, v] of next) {
+        const s = work.samples.get(name)!;
+        s.sample.add(v.values);
+        s.total += v.n;
+      }
+    }
+  };
+
   // Runs of consecutive scenarios go to the workers in one batch, so the workers stay busy
   // across scenario boundaries. An MSER-5 warm-up reads its scenario's runs first: the batch
   // before it is analysed first, so an input error is reported in the same order as one by one.
-  const warmups = [];
-  const all: RunAnalysis[] = [];
-  let pending: RunPlan[] = [];
+  const works: ScenarioWork[] = [];
+  let pending: { work: ScenarioWork; index: number; plan: RunPlan }[] = [];
   const flush = async () => {
-    all.push(...(await analyze(pending, (i, a) => progress(`read run ${++done}/${totalRuns}: ${pending[i].scenario.name} / ${pending[i].run.id} (${a.input.rows} rows)`))));
+    const batch = pending;
     pending = [];
+    await analyze(
+      batch.map((p) => p.plan),
+      (i, a) => {
+        progress(`read run ${++done}/${totalRuns}: ${batch[i].work.scenario.name} / ${batch[i].plan.run.id} (${a.input.rows} rows)`);
+        take(batch[i].work, batch[i].index, a);
+      },
+    );
   };
   for (const scenario of study.scenarios) {
     if (scenario.warmup.type === "mser-5" && pending.length > 0) await flush();
     const warmup = await resolveWarmup(study, scenario, analyze);
-    warmups.push(warmup);
-    pending.push(...scenarioPlans(study, scenario, warmup.time));
+    const work: ScenarioWork = { scenario, warmup, runs: [], samples: new Map(), waiting: new Map(), nextSample: 0 };
+    for (const m of scenario.measures) if (m.kind === "observation") work.samples.set(m.name, { sample: new EvenSample(SAMPLE_LIMIT), total: 0 });
+    works.push(work);
+    pending.push(...scenarioPlans(study, scenario, warmup.time).map((plan, index) => ({ work, index, plan })));
   }
   if (pending.length > 0) await flush();
 
-  let first = 0;
-  for (const [s, scenario] of study.scenarios.entries()) {
-    const warmup = warmups[s];
+  for (const { scenario, warmup, runs, samples } of works) {
     for (const message of warmup.warnings) outcome.warnings.push({ scenario: scenario.name, run: null, measure: null, message });
-    const batches = scenario.analysis.type === "batch-means" ? scenario.analysis.batches : null;
-    const analyses = all.slice(first, first + scenario.runs.length);
-    first += scenario.runs.length;
-
-    const sc: ScenarioResult = { name: scenario.name, runs: analyses.map((a) => a.result), summary: Object.create(null) };
+    const sc: ScenarioResult = { name: scenario.name, runs: runs.map((r) => r.result), summary: Object.create(null) };
     if (scenario.warmup.type !== "none") sc.warmup = warmup.time;
     if (warmup.estimate !== null) sc.warmup_estimate = warmup.estimate;
-    if (batches !== null) sc.analysis = { method: "batch-means", batches };
+    if (scenario.analysis.type === "batch-means") sc.analysis = { method: "batch-means", batches: scenario.analysis.batches };
 
-    for (const a of analyses) {
-      outcome.inputs.push(a.input);
-      for (const w of a.warnings) outcome.warnings.push({ scenario: scenario.name, run: a.result.id, measure: w.measure, message: w.message });
-      tableFiles.push(...(a.tableFiles ?? runTableFiles(scenario.name, a, scenario.measures)));
-      for (const m of scenario.measures) {
-        const out = a.outputs.get(m.name)!;
-        if (batches !== null) addBatchMeans(a, m.name, batches, study.confidence, outcome.warnings, scenario.name);
-        if (out.trace !== undefined) outcome.traces.push(traceOf(scenario.name, a, m.name, out.trace));
-      }
+    outcome.warnings.push(...checkSeriesPresent(study, scenario, runs.map((r) => r.input)));
+    for (const r of runs) {
+      outcome.inputs.push(r.input);
+      outcome.warnings.push(...r.warnings);
+      outcome.tables.push(...r.tables);
+      outcome.traces.push(...r.traces);
     }
     for (const m of scenario.measures) {
       const s = summarizeMeasure(scenario.name, m, sc.runs, study.confidence);
       sc.summary[m.name] = s.summary;
+      const without = s.summary.runs_without_value as string[] | undefined;
+      if (without !== undefined) {
+        outcome.warnings.push({ scenario: scenario.name, run: null, measure: m.name, message: runsWithoutValue(without, s.summary.n, sc.runs.length) });
+      }
       for (const iv of s.intervals) {
         outcome.intervals.push(iv);
-        tableFiles.push(tableFile({ scenario: scenario.name, run: null, measure: m.name, kind: "interval" }, intervalTablePath(scenario.name, m.name, iv.figure), intervalTable(iv)));
+        const f = tableFile({ scenario: scenario.name, run: null, measure: m.name, kind: "interval" }, intervalTablePath(scenario.name, m.name, iv.figure), intervalTable(iv));
+        writeTable(f.record.file, f.csv);
+        outcome.tables.push(f.record);
       }
-      if (m.kind === "observation") outcome.samples.push(sampleOf(scenario.name, m.name, analyses));
+      const sample = samples.get(m.name);
+      if (sample !== undefined) outcome.samples.push({ scenario: scenario.name, measure: m.name, values: sample.sample.values(), total: sample.total });
     }
-    const checks = consistencyChecks(scenario, analyses);
+    const checks = runs.flatMap((r) => r.checks);
     if (checks.length > 0) sc.checks = checks;
     for (const c of checks) if (!c.passed) outcome.warnings.push({ scenario: scenario.name, run: c.run, measure: c.measure, message: c.message });
     outcome.results.scenarios.push(sc);
@@ -137,18 +209,17 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
 
   const comparisons = compareScenarios(study, outcome.results);
   if (comparisons.length > 0) outcome.results.comparisons = comparisons;
-  assertDistinctFiles(tableFiles);
-  outcome.tables = tableFiles.map((f) => f.record);
-  return { outcome, tableFiles };
+  assertDistinctFiles(outcome.tables);
+  return { outcome };
 }
 
 /**
  * Two tables at one file name (also compared without case) would overwrite each other. The
  * names of `tables.ts` are made so that this cannot happen; this is the check that it did not.
  */
-function assertDistinctFiles(files: TableFile[]): void {
+function assertDistinctFiles(tables: TableRecord[]): void {
   const seen = new Map<string, string>();
-  for (const { record } of files) {
+  for (const record of tables) {
     const key = record.file.toLowerCase();
     const before = seen.get(key);
     if (before !== undefined) throw new Error(`two calculation tables would share one file: ${before} and ${record.file}`);
@@ -216,19 +287,4 @@ function traceOf(scenario: string, a: RunAnalysis, measure: string, trace: NonNu
     level: trace.level,
     capacity: trace.capacity,
   };
-}
-
-/** Up to SAMPLE_LIMIT observation values of a scenario, evenly strided over all its runs. */
-function sampleOf(scenario: string, measure: string, analyses: RunAnalysis[]): ObservationSample {
-  let total = 0;
-  for (const a of analyses) total += a.outputs.get(measure)!.observations?.length ?? 0;
-  const stride = Math.max(1, Math.ceil(total / SAMPLE_LIMIT));
-  const values: number[] = [];
-  let i = 0;
-  for (const a of analyses) {
-    const obs = a.outputs.get(measure)!.observations;
-    if (obs === undefined) continue;
-    for (let j = 0; j < obs.length; j++, i++) if (i % stride === 0) values.push(obs[j]);
-  }
-  return { scenario, measure, values, total };
 }

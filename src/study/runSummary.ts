@@ -13,6 +13,8 @@
  */
 import { sha256 } from "../digest.js";
 import type { Study } from "../manifest/types.js";
+import { fileDigest } from "../regularFile.js";
+import { checkShape, type Shape, shapeText } from "../shape.js";
 import * as msg from "../messages/summary.js";
 import * as studyMessages from "../messages/study.js";
 import { analyzeRun, type RunAnalysis, type RunPlan } from "./analyzeRun.js";
@@ -32,6 +34,85 @@ interface SummaryFile {
   analysis: unknown;
   digest?: string;
 }
+
+const NUMBER_OR_NULL: Shape = { oneOf: ["number", "null"] };
+const FLOATS: Shape = { test: (v) => v instanceof Float64Array, expected: "a list of doubles (base64)" };
+
+/** An input record (`InputRecord`) as written to record.json and to a run summary. */
+export const INPUT_RECORD_SHAPE: Shape = {
+  object: {
+    scenario: "string",
+    run: "string",
+    file: "string",
+    bytes: "number",
+    sha256: "sha256",
+    rows: "number",
+    left_out: { object: { after_end: "number", before_window: "number", unused_series: "number" } },
+    series_rows: { record: "number" },
+  },
+};
+
+const TRACE_LINE: Shape = {
+  object: {
+    steps: { oneOf: ["null", { array: { object: { time: "number", value: "number", area: "number" } } }] },
+    slices: { array: { object: { from: "number", to: "number", low: "number", high: "number", mean: "number", area_to: "number" } } },
+    min: "number",
+    max: "number",
+  },
+};
+
+/** One measure's output (`MeasureOutput`) in a summary, after the reviver made its arrays. */
+const OUTPUT_SHAPE: Shape = {
+  object: {
+    stats: { object: { kind: "string" } },
+    tables: {
+      array: {
+        object: {
+          suffix: "string",
+          table: { object: { columns: { array: "string" }, rowsTotal: "number", rows: { array: { array: { oneOf: ["number", "string", "null"] } } }, shortened: "boolean" } },
+        },
+      },
+    },
+    trace: { object: { level: TRACE_LINE, capacity: { oneOf: ["null", TRACE_LINE] } } },
+    observations: FLOATS,
+    observationTimes: FLOATS,
+    batchMeans: { array: "number" },
+    slices: { array: "number" },
+    warnings: { array: "string" },
+  },
+  optional: ["trace", "observations", "observationTimes", "batchMeans", "slices"],
+};
+
+/** The shape of a summary file as `encodeSummary` writes it (outputs checked one by one). */
+const SUMMARY_SHAPE: Shape = {
+  object: {
+    format: "string",
+    scenario: "string",
+    run: "string",
+    file: "string",
+    input_sha256: "sha256",
+    plan_sha256: "sha256",
+    digest: "sha256",
+    analysis: {
+      object: {
+        result: {
+          object: {
+            id: "string",
+            file: "string",
+            sha256: "sha256",
+            start: "number",
+            end: NUMBER_OR_NULL,
+            measures: { record: { object: { kind: "string", value: NUMBER_OR_NULL } } },
+          },
+        },
+        input: INPUT_RECORD_SHAPE,
+        window: { object: { start: "number", collectFrom: "number", end: NUMBER_OR_NULL, warmup: NUMBER_OR_NULL } },
+        outputs: { test: (v) => v instanceof Map, expected: "the measures' outputs" },
+        warnings: { array: { object: { measure: { oneOf: ["string", "null"] }, message: "string" } } },
+      },
+    },
+  },
+};
 
 /** `<scenario>/<run>.json` inside a summaries folder (names made safe as for the tables). */
 export function summaryPath(scenario: string, run: string): string {
@@ -72,15 +153,22 @@ function replacer(_key: string, value: unknown): unknown {
   return value;
 }
 
+/** A summary's text that is JSON but not what `encodeSummary` writes. */
+class NotASummary extends Error {}
+
 function reviver(_key: string, value: unknown): unknown {
   if (value !== null && typeof value === "object" && !Array.isArray(value)) {
     const o = value as Record<string, unknown>;
     if (typeof o.$f64 === "string") {
       const bytes = Buffer.from(o.$f64, "base64");
+      if (bytes.length % 8 !== 0) throw new NotASummary(`a list of doubles is ${bytes.length} bytes long, not a multiple of 8`);
       const own = new Uint8Array(isLittleEndian ? bytes : swapped(bytes));
       return new Float64Array(own.buffer, 0, own.length / 8);
     }
-    if (Array.isArray(o.$map)) return new Map(o.$map as [unknown, unknown][]);
+    if (Array.isArray(o.$map)) {
+      if (!o.$map.every((e) => Array.isArray(e) && e.length === 2 && typeof e[0] === "string")) throw new NotASummary("a map's entries are not [name, value] pairs");
+      return new Map(o.$map as [string, unknown][]);
+    }
   }
   return value;
 }
@@ -120,13 +208,17 @@ export function decodeSummary(text: string, plan: RunPlan, display: string): Run
   try {
     parsed = JSON.parse(text, reviver) as SummaryFile;
   } catch (e) {
+    if (e instanceof NotASummary) throw msg.summaryMalformed(display, e.message);
     throw msg.summaryUnreadable(display, `not JSON: ${(e as Error).message}`);
   }
-  if (parsed === null || typeof parsed !== "object" || parsed.format !== SUMMARY_FORMAT) {
+  if (parsed === null || typeof parsed !== "object" || Array.isArray(parsed) || parsed.format !== SUMMARY_FORMAT) {
     throw msg.summaryUnreadable(display, `"format" is not "${SUMMARY_FORMAT}"`);
   }
   const { digest, ...rest } = parsed;
   if (typeof digest !== "string" || sha256(JSON.stringify(rest, replacer)) !== digest) throw msg.summaryTampered(display);
+  // A file whose digest matches was written so, or made to match by hand: its shape is still checked.
+  const shape = checkShape(parsed, SUMMARY_SHAPE);
+  if (shape !== null) throw msg.summaryMalformed(display, shapeText(shape));
   const expect: [string, string, string][] = [
     ["scenario", parsed.scenario, plan.scenario.name],
     ["run id", parsed.run, plan.run.id],
@@ -134,9 +226,24 @@ export function decodeSummary(text: string, plan: RunPlan, display: string): Run
   ];
   for (const [what, found, expected] of expect) if (found !== expected) throw msg.summaryOtherRun(display, what, JSON.stringify(found), JSON.stringify(expected));
   if (parsed.plan_sha256 !== planDigest(plan)) throw msg.summaryOtherSettings(display, plan.scenario.name, plan.run.id);
+  const problem = outputsProblem(parsed.analysis as RunAnalysis, plan);
+  if (problem !== null) throw msg.summaryMalformed(display, problem);
   const a = parsed.analysis as RunAnalysis;
   if (a.input.sha256 !== parsed.input_sha256 || a.result.sha256 !== parsed.input_sha256) throw msg.summaryTampered(display);
   return a;
+}
+
+/** What is wrong with a summary's measure outputs and results for the plan's measures, or null. */
+function outputsProblem(a: RunAnalysis, plan: RunPlan): string | null {
+  for (const m of plan.measures) {
+    const stats = a.result.measures[m.name] as { kind: string } | undefined;
+    if (stats === undefined || stats.kind !== m.kind) return `analysis.result.measures has no ${m.kind} measure "${m.name}"`;
+    const out = a.outputs.get(m.name);
+    const p = checkShape(out, OUTPUT_SHAPE, ["analysis", "outputs", m.name]);
+    if (p !== null) return shapeText(p);
+    if (out!.tables.length === 0) return `analysis.outputs["${m.name}"] has no calculation table`;
+  }
+  return null;
 }
 
 /**
@@ -144,15 +251,36 @@ export function decodeSummary(text: string, plan: RunPlan, display: string): Run
  * of the run file. `read` gives a file's text, or null when there is none.
  */
 export function summariesAnalyzer(folder: string, read: (path: string) => string | null): AnalyzeRuns {
-  return async (plans, onDone) =>
-    plans.map((plan, i) => {
+  return async (plans, onDone) => {
+    const out: RunAnalysis[] = [];
+    for (const [i, plan] of plans.entries()) {
       const path = `${folder.replace(/[\\/]+$/, "")}/${summaryPath(plan.scenario.name, plan.run.id)}`;
       const text = read(path);
       if (text === null) throw msg.summaryMissing(path, plan.scenario.name, plan.run.id);
       const a = decodeSummary(text, plan, path);
+      await checkAgainstRunFile(a, plan, path);
+      out.push(a);
       onDone?.(i, a);
-      return a;
-    });
+    }
+    return out;
+  };
+}
+
+/**
+ * A summary against its run file when the file can be read here: the file's SHA-256 now must be
+ * the one the summary was made from, else the summary is stale. When the file cannot be read
+ * (no permission, gone since the manifest was read, not a regular file), the summary is used as it
+ * is and the report says so in a warning: its numbers then rest on the summary's own digest.
+ */
+async function checkAgainstRunFile(a: RunAnalysis, plan: RunPlan, display: string): Promise<void> {
+  let now: string;
+  try {
+    now = await fileDigest(plan.run.path);
+  } catch (e) {
+    a.warnings.push({ measure: null, message: msg.summaryUnchecked(plan.run.file, (e as NodeJS.ErrnoException).code ?? String(e)) });
+    return;
+  }
+  if (now !== a.input.sha256) throw msg.summaryStale(display, plan.run.file, now, a.input.sha256);
 }
 
 /**

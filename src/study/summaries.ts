@@ -20,6 +20,11 @@ function figureValues(runs: RunResult[], pick: (r: RunResult) => unknown): { run
   return out;
 }
 
+/** Run ids in code-unit order, so that a summary does not depend on the order the runs are listed in. */
+function sortedIds(runs: RunResult[]): string[] {
+  return runs.map((r) => r.id).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+}
+
 /**
  * Summaries of one measure across the runs of a scenario (contract section 4): the primary value,
  * then each per-run quantile, share within and share of time at least (issue 8), and the runs
@@ -33,14 +38,24 @@ export function summarizeMeasure(
 ): { summary: Summary; intervals: IntervalArithmetic[] } {
   const intervals: IntervalArithmetic[] = [];
   const interval = (figure: string, pick: (r: RunResult) => unknown): Summary => {
-    const a = intervalArithmetic(figureValues(runs, pick), confidence);
+    const values = figureValues(runs, pick);
+    const a = intervalArithmetic(values, confidence);
     const overflow = nonFinitePath(summaryOf(a));
     if (overflow !== null) throw studyMessages.summaryFigureOverflow(scenario, measure.name, figure === "value" ? overflow : `${figure} ${overflow}`);
     intervals.push({ scenario, measure: measure.name, figure, ...a });
-    return summaryOf(a);
+    const out = summaryOf(a);
+    // Runs left out of this interval because they gave no value (an observation measure with no
+    // observation inside a run's window): named, so that an interval over fewer runs says so.
+    if (values.length < runs.length) {
+      const used = new Set(values.map((v) => v.run));
+      out.runs_without_value = sortedIds(runs.filter((r) => !used.has(r.id)));
+    }
+    return out;
   };
   const stats = (r: RunResult) => r.measures[measure.name] as Record<string, unknown>;
   const summary = interval("value", (r) => stats(r).value);
+  const early = sortedIds(runs.filter((r) => r.ends_early === true));
+  if (early.length > 0) summary.runs_ending_early = early;
 
   const keyed = (field: "quantiles" | "within" | "time_at_least", keys: readonly number[]) => {
     if (keys.length === 0) return;
@@ -60,8 +75,11 @@ export function summarizeMeasure(
 
   if (measure.target !== null) {
     summary.target = measure.target.type === "half_width" ? { half_width: measure.target.value } : { relative: measure.target.value };
-    summary.runs_needed =
-      summary.sd !== null && summary.mean !== null ? runsNeeded(summary.sd, summary.n, summary.mean, confidence, measure.target) : null;
+    const need = runsNeeded(summary.sd, summary.n, summary.mean, confidence, measure.target);
+    summary.runs_needed = need.runs;
+    // Why there is no number (null when there is one), and the half-width the number aims at.
+    summary.runs_needed_reason = need.reason;
+    summary.target_half_width = need.halfWidth;
   }
   return { summary, intervals };
 }

@@ -77,6 +77,21 @@ export interface TableFile {
   csv: string;
 }
 
+/** Rows of a calculation table the report page shows: the first `PREVIEW_HEAD` and the last `PREVIEW_TAIL`. */
+export const PREVIEW_HEAD = 20;
+export const PREVIEW_TAIL = 10;
+
+/**
+ * Runs per scenario whose calculation tables the report page shows (their preview rows); the
+ * tables of later runs are files only. This bounds the page and the memory of a study of
+ * thousands of runs; `sojourn table` gives any table in full.
+ */
+export const PREVIEW_RUNS = 10;
+
+/** The rows of a table the page shows: all when few, else the head and the tail. */
+export function previewRows(rows: BuiltTable["rows"]): BuiltTable["rows"] {
+  return rows.length <= PREVIEW_HEAD + PREVIEW_TAIL ? rows : [...rows.slice(0, PREVIEW_HEAD), ...rows.slice(-PREVIEW_TAIL)];
+}
 
 /** A calculation table as a file: its CSV text, digest and index entry. */
 export function tableFile(
@@ -95,17 +110,25 @@ export function tableFile(
       rows_written: table.rows.length,
       shortened: table.shortened,
       sha256: sha256(csv),
-      preview: table.rows,
+      preview: previewRows(table.rows),
     },
   };
+}
+
+/**
+ * True when taking the mean's rounding correction off the sum of squares changes it (values close
+ * together far from 0): only then do the table and the report show the correction as a step.
+ */
+export function meanCorrectionMatters(a: Pick<IntervalArithmetic, "sum_squared" | "mean_correction">): boolean {
+  return a.sum_squared !== null && a.mean_correction !== null && a.sum_squared - a.mean_correction !== a.sum_squared;
 }
 
 export const INTERVAL_COLUMNS = ["item", "run", "value", "deviation", "squared_deviation"];
 
 /**
  * The interval arithmetic as a table: one row per run (value, deviation from the mean, its
- * square), then one row per step (sum, mean, sum of squares, variance, sd, df, p, t, standard
- * error, half-width, bounds).
+ * square), then one row per step (sum, mean, sum of squares, the mean's rounding correction when
+ * it matters, variance, sd, df, p, t, standard error, half-width, bounds).
  */
 export function intervalTable(a: IntervalArithmetic): BuiltTable {
   const rows: (number | string | null)[][] = a.rows.map((r) => ["run", r.run, r.value, r.deviation, r.squared]);
@@ -114,6 +137,7 @@ export function intervalTable(a: IntervalArithmetic): BuiltTable {
     ["sum", a.sum],
     ["mean", a.mean],
     ["sum_squared_deviations", a.sum_squared],
+    ...(meanCorrectionMatters(a) ? [["mean_rounding_correction", a.mean_correction] as [string, number | null]] : []),
     ["variance", a.variance],
     ["sd", a.sd],
     ["df", a.df],

@@ -37,13 +37,27 @@ export async function resolveWarmup(study: Study, scenario: Scenario, analyze: A
     slice: isLevel ? w.slice : null,
     observationTimes: !isLevel,
   }));
-  const perRun = (await analyze(plans)).map((a, i) => ({ run: scenario.runs[i], out: a.outputs.get(measure.name)! }));
+  // What each run gives is taken as it ends and its observation values freed: slice averages for a
+  // level, MSER-5 on the observations for an observation measure; kept by run index, so the order
+  // in which runs end does not matter.
+  const slices: number[][] = new Array(plans.length);
+  const choices: { d: number; batches: number; first: number | null; atLimit: boolean }[] = new Array(plans.length);
+  await analyze(plans, (i, a) => {
+    const out = a.outputs.get(measure.name)!;
+    if (isLevel) slices[i] = out.slices!;
+    else {
+      const values = out.observations!;
+      const r = mser(values, 5);
+      choices[i] = { d: r.d, batches: r.batches, first: r.truncated < values.length ? out.observationTimes![r.truncated] : null, atLimit: r.atLimit };
+    }
+    a.outputs.clear();
+  });
   const warnings: string[] = [];
   const start = Math.min(...scenario.runs.map((r) => r.start));
   if (isLevel) {
-    const count = Math.min(...perRun.map((p) => p.out.slices!.length));
+    const count = Math.min(...slices.map((s) => s.length));
     const averages: number[] = [];
-    for (let j = 0; j < count; j++) averages.push(fsum(perRun.map((p) => p.out.slices![j])) / perRun.length);
+    for (let j = 0; j < count; j++) averages.push(fsum(slices.map((s) => s[j])) / slices.length);
     const r = mser(averages, 5);
     const time = start + 5 * r.d * w.slice;
     if (r.atLimit) warnings.push(limitWarning(scenario.name, measure.name));
@@ -56,13 +70,11 @@ export async function resolveWarmup(study: Study, scenario: Scenario, analyze: A
   }
   let best: { time: number; d: number; batches: number } | null = null;
   const runs: Record<string, unknown>[] = [];
-  for (const { run, out } of perRun) {
-    const values = out.observations!;
-    const r = mser(values, 5);
-    const first = r.truncated < values.length ? out.observationTimes![r.truncated] : null;
-    runs.push({ run: run.id, d: r.d, batches: r.batches, time: first, at_limit: r.atLimit });
-    if (r.atLimit) warnings.push(limitWarning(scenario.name, measure.name, run.id));
-    if (first !== null && (best === null || first > best.time)) best = { time: first, d: r.d, batches: r.batches };
+  for (const [i, run] of scenario.runs.entries()) {
+    const { d, batches, first, atLimit } = choices[i];
+    runs.push({ run: run.id, d, batches, time: first, at_limit: atLimit });
+    if (atLimit) warnings.push(limitWarning(scenario.name, measure.name, run.id));
+    if (first !== null && (best === null || first > best.time)) best = { time: first, d, batches };
   }
   const time = best?.time ?? start;
   return {

@@ -10,13 +10,19 @@
  * sections 1 and 3 for what counts as bad, and the message catalogue `src/messages/*.ts` for the
  * words.
  */
-import { chmodSync } from "node:fs";
+import { spawnSync } from "node:child_process";
+import { createHash } from "node:crypto";
+import { appendFileSync, chmodSync, mkdirSync, realpathSync, symlinkSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
+import { fileURLToPath } from "node:url";
 import { gzipSync } from "node:zlib";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
+import * as warnings from "../../src/messages/warnings.js";
+import * as summaryMessages from "../../src/messages/summary.js";
+import * as verifyMessages from "../../src/messages/verify.js";
 
 export interface BadInputCase {
   /** Anchor of the entry in docs/bad-input.md. */
@@ -99,6 +105,9 @@ const M_EXT = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*}");
 const M_MISSKEY = manifest("  - {name: queue, series: queue}\n");
 const M_KIND = manifest("  - {name: queue, kind: levle, series: queue}\n");
 const M_DUPNAME = manifest(QUEUE + "  - {name: queue, kind: count, series: queue}\n");
+const M_OVER = manifest("  - {name: oven, kind: utilization, series: busy, capacity: ovens}\n");
+const M_CLOCK = manifest(QUEUE, "{name: morning, start: 1000000000, end: 1000000000.01, runs: runs/*.csv}");
+const M_ABSENT = manifest(QUEUE + "  - {name: served, kind: count, series: sevred}\n");
 const M_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queeu: {initial: 1}}}");
 
 // --- manifests for the encoding, nesting, alias and bounds cases --------------------------------
@@ -135,6 +144,64 @@ function gzipFlipped(text: string): Buffer {
   for (let i = 12; i < z.length - 8; i++) z[i] ^= 0x5a; // damage the deflate data, keep the header
   return z;
 }
+/** A name of 300 bytes: more than the 255 most file systems take for one name. */
+const LONG_NAME = "r".repeat(300);
+
+const MAIN = fileURLToPath(new URL("../../dist/cli/main.js", import.meta.url));
+
+/** Writes an earlier report of the study into `dir/out` (through the built command line). */
+function earlierReport(dir: string, out: string): void {
+  const r = spawnSync(process.execPath, [MAIN, "report", STUDY, "--out", out, "--quiet"], { cwd: dir, encoding: "utf8", env: { ...process.env, SOJOURN_WORKERS: "1" } });
+  if (r.status !== 0) throw new Error(`test setup: the earlier report failed: ${r.stderr}`);
+}
+
+/** Creates folders below `dir` until the deepest one's absolute path is exactly `length` bytes; returns it. */
+function deepFolder(dir: string, length: number): string {
+  let path = join(realpathSync(dir), "deep-folders");
+  while (path.length + 201 < length) path = join(path, "d".repeat(200));
+  path = join(path, "e".repeat(length - path.length - 1));
+  mkdirSync(path, { recursive: true });
+  return path;
+}
+// --- report folders and run summaries (verify, report --from-summaries) ----------------------------
+const sha = (text: string) => createHash("sha256").update(text).digest("hex");
+const M_PLAIN = manifest(QUEUE);
+/** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
+const RECORD_NO_OUTPUTS = JSON.stringify(
+  {
+    format: "sojourn-record/1",
+    tool: { name: "sojourn", version: "0.1.0" },
+    node: "v20.20.2",
+    manifest: { path: "../study.yaml", sha256: sha(M_PLAIN), text: M_PLAIN },
+    inputs: [],
+  },
+  null,
+  2,
+) + "\n";
+const RECORD_CUT = RECORD_NO_OUTPUTS.slice(0, 60);
+function notJson(text: string): string {
+  try {
+    JSON.parse(text);
+  } catch (e) {
+    return `it is not JSON (${(e as Error).message})`;
+  }
+  throw new Error("test setup: the text is JSON");
+}
+/** A summary with its own digest right but no analysis in it (src/study/runSummary.ts, encodeSummary). */
+const SUMMARY_EMPTY = (() => {
+  const body: Record<string, unknown> = {
+    format: "sojourn-run-summary/1",
+    scenario: "morning",
+    run: "day-1",
+    file: "runs/day-1.csv",
+    input_sha256: sha(GOOD_CSV),
+    plan_sha256: sha("made by hand"),
+  };
+  body.digest = sha(JSON.stringify(body));
+  return JSON.stringify(body) + "\n";
+})();
+const CHANGED_CSV = GOOD_CSV.replace("3,queue,5", "3,queue,6");
+
 const LONG_TEXT = Array.from({ length: 400 }, (_, i) => `${4 + i / 10},queue,${i % 7},`).join("\n") + "\n";
 
 export const CASES: BadInputCase[] = [
@@ -446,6 +513,30 @@ export const CASES: BadInputCase[] = [
     place: "runs/day-1.csv:3",
   },
   {
+    id: "series-in-no-run",
+    title: "A measure's series that appears in no run",
+    what: "A measure reads a series that has no row in any run of a scenario: almost always a misspelt name, which would otherwise give a confident 0. A series of a rare event that may truly never happen says `may_be_absent: true` (see docs/manifest.md).",
+    files: { [STUDY]: M_ABSENT, "runs/day-1.csv": "time,series,value\n0,queue,2\n3,served,\n5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,queue,1\n4,served,\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.seriesInNoRun(at(M_ABSENT, "sevred", "measures[1].series"), "served", "sevred", "morning", 2, "served", ["queue", "served"]),
+  },
+  {
+    id: "capacity-series-absent",
+    title: "A capacity series with no row in a run",
+    what: "A utilization's capacity series has no row in a run and `capacity_initial` is 0, so the capacity would be 0 throughout: usually the capacity series' name is misspelt.",
+    files: {
+      [STUDY]: manifest("  - {name: oven, kind: utilization, series: busy, capacity: open_oven}\n"),
+      "runs/day-1.csv": "time,series,value\n0,open_ovens,2\n1,busy,1\n",
+    },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => studyMessages.capacitySeriesAbsent("runs/day-1.csv", "oven", "open_oven", "open_ovens"),
+    place: "runs/day-1.csv",
+  },
+  {
     id: "capacity-area-zero",
     title: "A capacity series that is zero over the whole window",
     what: "Utilization divides by the capacity's area; a capacity series that stays 0 leaves nothing to divide by.",
@@ -483,17 +574,60 @@ export const CASES: BadInputCase[] = [
   },
   {
     id: "series-never-appears",
-    title: "A measure whose series never appears (a warning per run)",
-    what: "A measure reads a series no row of the run belongs to (often a misspelt name). Each run without it gets a warning; the level stays at its `initial` value.",
-    files: { [STUDY]: manifest("  - {name: queue, kind: level, series: queu}\n"), "runs/day-1.csv": GOOD_CSV, "runs/day-2.csv": GOOD_CSV },
-    show: [STUDY],
+    title: "A measure whose series is missing from some runs (a warning per run)",
+    what: "A measure reads a series that some runs have no row of. Each run without it gets a warning; in those runs the level stays at its `initial` value. (A series in no run at all is an error: see the entry \"A measure's series that appears in no run\".)",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,served,\n4,served,\n" },
+    show: [STUDY, "runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: ['1 warning(s):', 'morning / day-2 / queue: series "queue" never appears in runs/day-2.csv'],
+  },
+  {
+    id: "busy-above-capacity",
+    title: "A busy level above its capacity (a warning per run)",
+    what: "The capacity series drops below the busy level for a while. The ratio of areas (here 20/34) stays below 1 and would hide it; the warning names the first interval, the line that started it and the total time.",
+    files: { [STUDY]: M_OVER, "runs/day-1.csv": "time,series,value\n0,busy,2\n0,ovens,4\n6,ovens,1\n8,ovens,4\n9.5,busy,2\n" },
+    show: [STUDY, "runs/day-1.csv"],
     args: check,
     status: 0,
     contains: [
-      '2 warning(s):',
-      'morning / day-1 / queue: series "queu" never appears in runs/day-1.csv',
-      'morning / day-2 / queue: series "queu" never appears in runs/day-2.csv',
+      "1 warning(s):",
+      `morning / day-1 / oven: ${warnings.busyAboveCapacity("oven", "runs/day-1.csv", { intervals: 1, time: 2, from: 6, to: 8, busy: 2, capacity: 1, line: 4, series: "ovens" }, 20 / 34)}`,
     ],
+  },
+  {
+    id: "durations-few-digits",
+    title: "Clock values so large that durations lose digits (a warning per run)",
+    what: "Times near 1e9 with steps of a thousandth: a double holds 1e9 to about 1.2e-7, so a duration of 0.001 keeps about 4 significant digits. The warning says how many, from the spacing of doubles at the largest time and the shortest duration.",
+    files: { [STUDY]: M_CLOCK, "runs/day-1.csv": "time,series,value\n1000000000,queue,2\n1000000000.001,queue,3\n1000000000.002,queue,1\n1000000000.01,queue,0\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 0,
+    contains: ["1 warning(s):", "morning / day-1: runs/day-1.csv: the run's times reach 1000000000.01, where one step of a double is 1.1920928955078125e-7", "durations keep only about 3.9 significant digits (fewer than 6)"],
+  },
+  {
+    id: "run-ends-early",
+    title: "A run whose rows stop long before the end (a warning on the run and its summary rows)",
+    what: "`day-2` has no row after time 4 in a window that ends at 10: more than a tenth of the window is empty, so the run may have stopped early or its file been cut short. The report says so on the scenario's summary rows too.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": "time,series,value\n0,queue,2\n3,queue,5\n9.5,queue,1\n", "runs/day-2.csv": "time,series,value\n0,queue,2\n4,queue,0\n" },
+    show: ["runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: ["1 warning(s):", `morning / day-2: ${warnings.runEndsEarly("runs/day-2.csv", 4, 10, 0, 0.1)}`],
+  },
+  {
+    id: "runs-without-value",
+    title: "A run left out of a summary (a warning on the summary row)",
+    what: "`day-2` has no `wait` observation inside its window, so the interval of `wait` is over 1 of 2 runs; the warning (and the summary row of the report) names the run.",
+    files: {
+      [STUDY]: manifest("  - {name: wait, kind: observation, series: wait}\n"),
+      "runs/day-1.csv": "time,series,value\n2,wait,1.5\n9.5,wait,2\n",
+      "runs/day-2.csv": "time,series,value\n9.5,tick,\n12,wait,3\n",
+    },
+    show: ["runs/day-2.csv"],
+    args: check,
+    status: 0,
+    contains: [`morning / wait: ${warnings.runsWithoutValue(["day-2"], 1, 2)}`],
   },
   // --- the manifest -------------------------------------------------------------------------
   {
@@ -824,14 +958,205 @@ export const CASES: BadInputCase[] = [
     id: "out-not-ours",
     debug: true,
     title: "An output folder that holds the user's own files",
-    what: "`--out` names a folder that is not empty and not an earlier Sojourn report. Sojourn refuses, so no file of the user's is lost; `--force` replaces the folder.",
+    what: "`--out` names a folder that is not empty and holds no record of an earlier Sojourn report. Sojourn refuses and names the first file, so no file of the user's is lost; `--force` replaces the folder (but never one that holds the manifest or an input of the study).",
     files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "thesis/chapter-1.md": "# Queues\n" },
     show: [],
     args: ["report", STUDY, "--out", "thesis", "--quiet"],
     status: 1,
-    message: () => outputMessages.outNotOurs("thesis"),
+    message: () => outputMessages.outHoldsForeign("thesis", "chapter-1.md", "no-record"),
     afterwards: { "thesis/chapter-1.md": "# Queues\n", "thesis/results.json": null },
     place: "thesis",
+  },
+  {
+    id: "out-user-file-in-report",
+    title: "A file of the user's inside an earlier report folder",
+    what: "`report` is a folder an earlier `sojourn report` wrote, and the user has since put a file of their own into it. A report folder is replaced only when its `record.json` lists every file in it with its digest.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => {
+      earlierReport(dir, "report");
+      writeFileSync(join(dir, "report", "my-notes.txt"), "compare with last week\n");
+    },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outHoldsForeign("report", "my-notes.txt", "not-listed"),
+    afterwards: { "report/my-notes.txt": "compare with last week\n" },
+  },
+  {
+    id: "out-report-file-changed",
+    title: "A file of an earlier report that was changed since",
+    what: "The user has written into `report.html` of an earlier report. Its digest no longer matches `record.json`, so replacing the folder would lose the change.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => {
+      earlierReport(dir, "report");
+      appendFileSync(join(dir, "report", "report.html"), "<!-- checked by the supervisor -->\n");
+    },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outHoldsForeign("report", "report.html", "changed"),
+  },
+  {
+    id: "out-holds-study",
+    title: "An output folder that holds the study itself, with --force",
+    what: "`--out .` in the study's own folder: replacing it would delete the manifest and the run files. Sojourn never replaces a folder that is, holds or is a parent of an input of the study (links resolved), not even with `--force`.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["report", STUDY, "--out", ".", "--force", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outHoldsInput(".", STUDY, "manifest"),
+    afterwards: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "results.json": null },
+  },
+  {
+    id: "out-unreadable",
+    unprivileged: true,
+    title: "An output folder that cannot be read",
+    what: "`--out` names a folder the user may not list, so Sojourn cannot see whether it holds files of someone's.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "private/keep.txt": "mine\n" },
+    setup: (dir) => chmodSync(join(dir, "private"), 0o700),
+    show: [],
+    args: ["report", STUDY, "--out", "private", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outUnreadable("private", "EACCES"),
+  },
+  {
+    id: "table-out-not-ours",
+    title: "`table --out` names a file of the user's",
+    what: "`sojourn table --out FILE` writes over an existing file only when it is a calculation table Sojourn wrote (its first line is a table header and every line has as many cells), or with `--force`.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "queue.csv": "my own queue counts, by hand\n" },
+    show: [],
+    args: ["table", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--out", "queue.csv"],
+    status: 1,
+    message: () => outputMessages.outFileNotOurs("queue.csv", "calculation table", "its first line is not the header of a calculation table"),
+    afterwards: { "queue.csv": "my own queue counts, by hand\n" },
+  },
+  {
+    id: "summary-out-is-input",
+    title: "`summarize-run --out` names a run file, with --force",
+    what: "A typing slip sends the summary over the run file itself. Sojourn never writes over the manifest or an input of the study, not even with `--force`.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["summarize-run", STUDY, "--scenario", "morning", "--run", "day-1", "--out", "runs/day-1.csv", "--force"],
+    status: 1,
+    message: () => outputMessages.outFileIsInput("runs/day-1.csv", "run file"),
+    afterwards: { "runs/day-1.csv": GOOD_CSV },
+  },
+  {
+    id: "table-out-is-folder",
+    title: "`table --out` names a folder",
+    what: "`--out` of `table` and `summarize-run` names the file to write.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["table", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--out", "runs"],
+    status: 1,
+    message: () => outputMessages.outFileIsFolder("runs"),
+  },
+  {
+    id: "out-name-too-long",
+    title: "An output folder name too long for the file system",
+    what: "One name in a path may have at most 255 bytes on most file systems.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["report", STUDY, "--out", LONG_NAME, "--quiet"],
+    status: 1,
+    message: () => outputMessages.outNameTooLong(LONG_NAME),
+  },
+  {
+    id: "report-path-too-long",
+    title: "A report file whose full path is too long for the system",
+    what: "`deep` is a link to a folder whose path is 4053 bytes long: the report folder itself fits, but a calculation table inside it would pass the system's limit of 4095 bytes for a path.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => {
+      const deep = deepFolder(dir, 4053);
+      symlinkSync(deep, join(dir, "deep"));
+    },
+    show: [],
+    args: ["report", STUDY, "--out", "deep/report", "--quiet"],
+    status: 1,
+    // 4053 + "/report/tables/morning/runs/day-1/queue.csv" (43) = 4096 bytes
+    message: () => outputMessages.reportFileNameTooLong("deep/report", "tables/morning/runs/day-1/queue.csv", 4096),
+  },
+  {
+    id: "out-path-blocked",
+    title: "A file where the output path needs a folder",
+    what: "`--out notes.txt/report`, where `notes.txt` is a file.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "notes.txt": "ideas\n" },
+    show: [],
+    args: ["report", STUDY, "--out", "notes.txt/report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outPathBlocked("notes.txt/report", "notes.txt"),
+    afterwards: { "notes.txt": "ideas\n" },
+  },
+  {
+    id: "out-parent-not-writable",
+    unprivileged: true,
+    title: "An output folder inside a folder the user may not write to",
+    what: "`locked` may be read but not written by the user; the report folder cannot be created in it.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV, "locked/readme.txt": "shared\n" },
+    setup: (dir) => chmodSync(join(dir, "locked"), 0o555),
+    show: [],
+    args: ["report", STUDY, "--out", "locked/report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outReadOnly("locked/report", "locked", "EACCES"),
+  },
+  {
+    id: "out-read-only",
+    title: "An output folder on a read-only file system (simulated)",
+    what: "The file system refuses every write with EROFS, as a disk mounted read-only does. The test simulates it with `SOJOURN_TEST_FAULT` (src/record/fileSystem.ts), since a real read-only mount needs privileges.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "EROFS:mkdir:report" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outReadOnly("report", "the current folder", "EROFS"),
+  },
+  {
+    id: "disk-full",
+    title: "The disk fills up while the report is written (simulated)",
+    what: "An earlier report is in `report`; the disk fills up while the new one writes its first calculation table (simulated with `SOJOURN_TEST_FAULT`, as ENOSPC). The unfinished report is removed and the earlier one stays as it was.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    setup: (dir) => earlierReport(dir, "report"),
+    env: { SOJOURN_TEST_FAULT: "ENOSPC:write:tables/" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.reportDiskFull("report", "tables/morning/runs/day-1/queue.csv", "ENOSPC", true),
+  },
+  {
+    id: "disk-full-at-start",
+    title: "The disk is full before the report folder can be made (simulated)",
+    what: "ENOSPC when the report folder is created (simulated with `SOJOURN_TEST_FAULT`).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "ENOSPC:mkdir:report" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.outDiskFull("report", "ENOSPC"),
+    afterwards: { "report/results.json": null },
+  },
+  {
+    id: "disk-error",
+    title: "The disk fails while the report is written (simulated)",
+    what: "An input/output error (EIO) while `report.html` is written (simulated with `SOJOURN_TEST_FAULT`).",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "EIO:write:report.html" },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--quiet"],
+    status: 1,
+    message: () => outputMessages.reportFileUnwritable("report", "report.html", "EIO", false),
+    afterwards: { "report/results.json": null },
+  },
+  {
+    id: "table-disk-full",
+    title: "The disk is full when `table --out` writes (simulated)",
+    what: "ENOSPC while the full table is written (simulated with `SOJOURN_TEST_FAULT`): the file is written beside its place and renamed, so nothing half-written is left.",
+    files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
+    env: { SOJOURN_TEST_FAULT: "ENOSPC:write:queue-full" },
+    show: [],
+    args: ["table", STUDY, "--scenario", "morning", "--run", "day-1", "--measure", "queue", "--out", "queue-full.csv"],
+    status: 1,
+    message: () => outputMessages.outFileUnwritable("queue-full.csv", "ENOSPC", false),
+    afterwards: { "queue-full.csv": null },
   },
   {
     id: "pdf-no-browser",
@@ -844,6 +1169,80 @@ export const CASES: BadInputCase[] = [
     status: 1,
     message: () => reportMessages.browserMissing("/opt/no-such-browser/chromium", "--chrome"),
     afterwards: { "report/report.pdf": null },
+  },
+  // --- verify and run summaries ---------------------------------------------------------------
+  {
+    id: "record-malformed",
+    debug: true,
+    title: "A report folder whose record.json lacks a key",
+    what: "`sojourn verify` checks record.json's shape before it trusts anything in it: a key missing or of the wrong type is named with its path. Here `outputs` is missing.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "report/record.json": RECORD_NO_OUTPUTS },
+    show: [],
+    args: ["verify", "report"],
+    status: 1,
+    message: () => verifyMessages.recordMalformed("report", "at outputs: expected a list, found nothing (the key is missing)"),
+    place: "report/record.json",
+  },
+  {
+    id: "record-not-json",
+    title: "A record.json cut short",
+    what: "record.json ends in the middle (a copy that stopped, a disk that filled).",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "report/record.json": RECORD_CUT },
+    show: [],
+    args: ["verify", "report"],
+    status: 1,
+    message: () => verifyMessages.recordMalformed("report", notJson(RECORD_CUT)),
+  },
+  {
+    id: "record-fifo",
+    title: "A record.json that is a named pipe",
+    what: "record.json is a named pipe (FIFO), not a file. Reading it would wait for a writer for ever; `verify` checks the kind first and reads nothing.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "report/results.json": "{}\n" },
+    show: [],
+    setup: (dir) => {
+      if (spawnSync("mkfifo", [join(dir, "report", "record.json")]).status !== 0) throw new Error("test setup: mkfifo failed");
+    },
+    args: ["verify", "report"],
+    status: 1,
+    message: () => verifyMessages.recordNotAFile("report", "a named pipe (FIFO)"),
+  },
+  {
+    id: "report-folder-missing",
+    title: "verify on a folder that does not exist",
+    what: "The folder given to `sojourn verify` is not there.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["verify", "reprot"],
+    status: 1,
+    message: () => verifyMessages.reportDirMissing("reprot", "it does not exist"),
+  },
+  {
+    id: "summary-stale",
+    debug: true,
+    title: "A run summary made from an older version of its run file",
+    what: "`report --from-summaries` computes the SHA-256 of each run file it can read and compares it with the one the summary was made from. Here `runs/day-1.csv` was changed after `summarize-run` wrote its summary.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    setup: (dir) => {
+      const r = spawnSync(process.execPath, [MAIN, "summarize-run", STUDY, "--scenario", "morning", "--run", "day-1", "--out", "sums/morning/day-1.json"], { cwd: dir, encoding: "utf8" });
+      if (r.status !== 0) throw new Error(`test setup: summarize-run failed: ${r.stderr}`);
+      writeFileSync(join(dir, "runs", "day-1.csv"), CHANGED_CSV);
+    },
+    args: ["report", STUDY, "--out", "report", "--from-summaries", "sums", "--quiet"],
+    status: 1,
+    message: () => summaryMessages.summaryStale("sums/morning/day-1.json", "runs/day-1.csv", sha(CHANGED_CSV), sha(GOOD_CSV)),
+    afterwards: { "report/results.json": null },
+  },
+  {
+    id: "summary-malformed",
+    title: "A run summary that is not what summarize-run writes",
+    what: "A summary whose own digest matches, made by hand: it has no `analysis`. Its shape is checked before anything in it is used.",
+    files: { [STUDY]: M_PLAIN, "runs/day-1.csv": GOOD_CSV, "sums/morning/day-1.json": SUMMARY_EMPTY },
+    show: [],
+    args: ["report", STUDY, "--out", "report", "--from-summaries", "sums", "--quiet"],
+    status: 1,
+    message: () => summaryMessages.summaryMalformed("sums/morning/day-1.json", "at analysis: expected an object, found nothing (the key is missing)"),
+    afterwards: { "report/results.json": null },
   },
   // --- usage ------------------------------------------------------------------------------
   {

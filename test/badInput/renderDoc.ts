@@ -63,7 +63,8 @@ export function renderCatalogue(cases: BadInputCase[], run: (c: BadInputCase) =>
       parts.push(content === "" ? "(0 bytes)\n\n" : fence(content, f.endsWith(".yaml") ? "yaml" : "") + "\n");
     }
     const r = run(c);
-    parts.push(fence(`$ sojourn ${c.args.join(" ")}\n${r.output}`));
+    const env = Object.entries(c.env ?? {}).map(([k, v]) => `${k}=${v} `).join("");
+    parts.push(fence(`$ ${env}sojourn ${c.args.join(" ")}\n${r.output}`));
     parts.push(`\nExit status ${r.status}.\n`);
   }
   return parts.join("");

@@ -76,7 +76,7 @@ describe("sojourn report", () => {
     writeFileSync(join(out, "notes.txt"), "keep me");
     const r = sojourn(["report", join(dir, "study.yaml"), "--out", out, "--quiet"]);
     expect(r.status).toBe(1);
-    expect(r.stderr).toContain(outputMessages.outNotOurs(out).message.split("\n")[0]);
+    expect(r.stderr).toBe(`sojourn: ${outputMessages.outHoldsForeign(out, "notes.txt", "no-record").message}\n`);
     expect(readFileSync(join(out, "notes.txt"), "utf8")).toBe("keep me");
   });
 });

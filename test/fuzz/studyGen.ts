@@ -297,14 +297,18 @@ export function manifestText(study: GenStudy, scenarioFolder: (s: number) => str
   const N = study.names;
   const S = study.series;
   const qs = `[${study.quantiles.join(", ")}]`;
+  // Generated runs may lack a series in every run of a scenario: the contract's zero figures are
+  // what the reference computes, so the measures allow it (the error without may_be_absent is
+  // tested in test/study/absentSeries.test.ts).
+  const absent = ", may_be_absent: true";
   lines.push(
     "measures:",
-    `  - {name: ${q(N.level)}, kind: level, series: ${q(S.level)}, initial: ${study.initial}}`,
-    `  - {name: ${q(N.util)}, kind: utilization, series: ${q(S.busy)}, capacity: ${study.capacity}, initial: ${study.busyInitial}}`,
-    `  - {name: ${q(N.obs)}, kind: observation, series: ${q(S.obs)}, quantiles: ${qs}}`,
-    `  - {name: ${q(N.count)}, kind: count, series: ${q(S.count)}}`,
-    `  - {name: ${q(N.inside)}, kind: level, from: {enter: ${q(S.enter)}, leave: ${q(S.leave)}}, initial: ${study.initial}}`,
-    `  - {name: ${q(N.stay)}, kind: observation, from: {start: ${q(S.enter)}, end: ${q(S.leave)}}, quantiles: ${qs}}`,
+    `  - {name: ${q(N.level)}, kind: level, series: ${q(S.level)}, initial: ${study.initial}${absent}}`,
+    `  - {name: ${q(N.util)}, kind: utilization, series: ${q(S.busy)}, capacity: ${study.capacity}, initial: ${study.busyInitial}${absent}}`,
+    `  - {name: ${q(N.obs)}, kind: observation, series: ${q(S.obs)}, quantiles: ${qs}${absent}}`,
+    `  - {name: ${q(N.count)}, kind: count, series: ${q(S.count)}${absent}}`,
+    `  - {name: ${q(N.inside)}, kind: level, from: {enter: ${q(S.enter)}, leave: ${q(S.leave)}}, initial: ${study.initial}${absent}}`,
+    `  - {name: ${q(N.stay)}, kind: observation, from: {start: ${q(S.enter)}, end: ${q(S.leave)}}, quantiles: ${qs}${absent}}`,
   );
   return lines.join("\n") + "\n";
 }

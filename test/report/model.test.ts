@@ -5,6 +5,7 @@ import { buildReportModel, LAG1_FLAG, roundNumbersIn, slug, TABLE_ROW_CAP, type 
 import { welchMovingAverage, welchWindow } from "../../src/report/charts.js";
 import { formatNumber, MISSING } from "../../src/report/number.js";
 import { bakery, HOSTILE } from "./fixtures/bakery.js";
+import { runsNeededWhy } from "../../src/messages/warnings.js";
 
 const META = { toolVersion: "0.1.0-test", generatedAt: "2025-03-04T05:06:07.000Z" };
 const GOLDEN = new URL("./golden/", import.meta.url);
@@ -97,6 +98,17 @@ describe("buildReportModel", () => {
       expect(r.interval.text).toBe(MISSING);
       expect(r.note).toBe(outcome.intervals.find((a) => a.scenario === single && a.measure === r.measure && a.figure === "value")!.note);
     }
+  });
+
+  it("buildReportModel says why a scenario has no number of runs needed instead of leaving it out", () => {
+    // the fixture's one-run scenario has a relative target and runs_needed_reason "one-run"
+    const { study, outcome } = bakery({ singleRunScenario: true });
+    const model = buildReportModel(study, outcome, META);
+    const table = model.measures.find((m) => m.name === "shelf_stock")!.runsNeeded!;
+    const single = outcome.results.scenarios[1].name;
+    const row = table.rows.find((r) => r[0].text === single)!;
+    expect(row[row.length - 1]).toMatchObject({ text: `${MISSING} ${runsNeededWhy("one-run", 1)}`, flag: true });
+    expect(table.rows).toHaveLength(2);
   });
 
   it("buildReportModel renders the optional extras when results have them and skips them otherwise", () => {

@@ -13,7 +13,7 @@ describe("intervalArithmetic", () => {
   it("intervalArithmetic returns every step the appendix shows, and nothing else", () => {
     // common practice: the study module spreads these steps into its IntervalArithmetic records
     expect(Object.keys(intervalArithmetic(runs([1, 2]), 0.95)).sort()).toEqual(
-      ["rows", "n", "sum", "mean", "sum_squared", "variance", "sd", "df", "p", "t", "standard_error", "half_width", "ci_low", "ci_high", "note"].sort(),
+      ["rows", "n", "sum", "mean", "sum_squared", "mean_correction", "variance", "sd", "df", "p", "t", "standard_error", "half_width", "ci_low", "ci_high", "note"].sort(),
     );
   });
 
@@ -49,7 +49,7 @@ describe("intervalArithmetic", () => {
   it("intervalArithmetic of no values gives n 0, sum 0 and a note", () => {
     // contract: interval fields null; computed by hand
     expect(intervalArithmetic([], 0.95)).toEqual({
-      rows: [], n: 0, sum: 0, mean: null, sum_squared: null, variance: null, sd: null, df: null, p: null,
+      rows: [], n: 0, sum: 0, mean: null, sum_squared: null, mean_correction: null, variance: null, sd: null, df: null, p: null,
       t: null, standard_error: null, half_width: null, ci_low: null, ci_high: null, note: intervalNotes.noValues,
     });
   });
@@ -58,7 +58,7 @@ describe("intervalArithmetic", () => {
     // contract: "With one run the interval fields are null"; computed by hand
     expect(intervalArithmetic([{ run: "bakery-1", value: 41.5 }], 0.95)).toEqual({
       rows: [{ run: "bakery-1", value: 41.5, deviation: 0, squared: 0 }], n: 1, sum: 41.5, mean: 41.5,
-      sum_squared: 0, variance: null, sd: null, df: null, p: null, t: null, standard_error: null,
+      sum_squared: 0, mean_correction: 0, variance: null, sd: null, df: null, p: null, t: null, standard_error: null,
       half_width: null, ci_low: null, ci_high: null, note: intervalNotes.oneValue,
     });
   });

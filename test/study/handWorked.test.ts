@@ -3,6 +3,7 @@ import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { timeAverageAt } from "../../src/study/at.js";
 import { csv } from "../helpers/tempStudy.js";
 import { figures, studyOf } from "../helpers/runStudyFrom.js";
+import * as warn from "../../src/messages/warnings.js";
 
 // A small level trace worked by hand (our own numbers): initial 0, 2 from t=0, 5 from t=3,
 // 1 from t=4, window [0, 10], and a row at t=12 after the end.
@@ -66,7 +67,7 @@ describe("level statistics on a hand-worked trace", () => {
     expect(q.final).toBe(4);
     const t = outcome.tables.find((x) => x.run === "r1" && x.measure === "q")!;
     expect(t.rows_total).toBe(5);
-    expect(t.preview.map((r) => r[4])).toEqual([0, 3, 0, 0, 7]);
+    expect(t.preview!.map((r) => r[4])).toEqual([0, 3, 0, 0, 7]);
   });
 
   it("a row exactly at the end is inside the window and sets the final value", async () => {
@@ -150,6 +151,50 @@ measures:
   });
 });
 
+describe("a busy level above its capacity is warned about, whatever the ratio of areas", () => {
+  const capManifest = (capacity: string, extra = "") => `title: cap
+${extra}
+scenarios:
+  - {name: a, end: 10, runs: runs/*.csv}
+measures:
+  - {name: u, kind: utilization, series: busy, capacity: ${capacity}}
+`;
+
+  it("a capacity series that drops below the busy level is named with where and when, though the utilization is below 1", async () => {
+    // our own numbers: capacity 4 on [0,6], 1 on [6,8], 4 on [8,10]; busy 2 throughout.
+    // computed by hand: busy area 20, capacity area 34, utilization 20/34 < 1; busy 2 > capacity 1 on [6,8]
+    const file = csv([[0, "busy", 2], [0, "open", 4], [6, "open", 1], [8, "open", 4]]);
+    const { outcome } = await studyOf(capManifest("open"), { "runs/r1.csv": file });
+    const u = figures(outcome.results, "u");
+    expect(u.value).toBe(20 / 34);
+    expect(u.over_capacity).toEqual({ intervals: 1, time: 2, first: { from: 6, to: 8, busy: 2, capacity: 1, line: 4 } });
+    const expected = warn.busyAboveCapacity("u", "runs/r1.csv", { intervals: 1, time: 2, from: 6, to: 8, busy: 2, capacity: 1, line: 4, series: "open" }, 20 / 34);
+    expect(outcome.warnings).toContainEqual({ scenario: "a", run: "r1", measure: "u", message: expected });
+  });
+
+  it("a busy level above a constant capacity counts every interval and its total time; one at capacity is not warned about", async () => {
+    // computed by hand: capacity 2; busy 3 on [1,2] and [5,7.5], 2 elsewhere after t = 0
+    const over = csv([[0, "busy", 2], [1, "busy", 3], [2, "busy", 1], [5, "busy", 3], [7.5, "busy", 2]]);
+    const { outcome } = await studyOf(capManifest("2"), { "runs/r1.csv": over });
+    expect(figures(outcome.results, "u").over_capacity).toEqual({ intervals: 2, time: 3.5, first: { from: 1, to: 2, busy: 3, capacity: 2, line: 3 } });
+    // computed by hand: busy area 2 + 3 + 3 + 7.5 + 5 = 20.5 against 20, so the warning says "above 1"
+    const message = warn.busyAboveCapacity("u", "runs/r1.csv", { intervals: 2, time: 3.5, from: 1, to: 2, busy: 3, capacity: 2, line: 3, series: null }, 20.5 / 20);
+    expect(outcome.warnings.filter((w) => w.message === message)).toHaveLength(1);
+    // busy exactly at capacity, and a tie where busy rises before the capacity in file order (duration 0)
+    const atCapacity = csv([[0, "busy", 2], [0, "open", 2], [4, "busy", 3], [4, "open", 3]]);
+    const ok = await studyOf(capManifest("open"), { "runs/r1.csv": atCapacity });
+    expect(figures(ok.outcome.results, "u").over_capacity).toBeUndefined();
+    expect(ok.outcome.warnings.filter((w) => w.measure === "u")).toEqual([]);
+  });
+
+  it("only the window counts: busy above capacity during the warm-up only is not warned about", async () => {
+    // computed by hand: busy 3 > 2 on [0,1], before the warm-up at 2
+    const file = csv([[0, "busy", 3], [1, "busy", 1]]);
+    const { outcome } = await studyOf(capManifest("2", "warmup: 2"), { "runs/r1.csv": file });
+    expect(figures(outcome.results, "u").over_capacity).toBeUndefined();
+  });
+});
+
 describe("rows left out are reported in results.json", () => {
   it("each run carries its rows read and rows left out (CONTRACT.md section 3)", async () => {
     const file = csv([[0, "queue", 2], [1, "other", 1], [3, "queue", 5], [12, "queue", 3]]);
@@ -164,7 +209,7 @@ describe("rows left out are reported in results.json", () => {
 describe("series named like object properties", () => {
   it("a series called toString or constructor is counted like any other (regression found by fuzzing)", async () => {
     const file = csv([[0, "toString", 1], [1, "constructor", 2], [2, "q", 3]]);
-    const m = `title: t\nscenarios:\n  - {name: a, end: 10, runs: [r.csv]}\nmeasures:\n  - {name: t, kind: level, series: toString}\n  - {name: p, kind: level, series: __proto__}\n`;
+    const m = `title: t\nscenarios:\n  - {name: a, end: 10, runs: [r.csv]}\nmeasures:\n  - {name: t, kind: level, series: toString}\n  - {name: p, kind: level, series: __proto__, may_be_absent: true}\n`;
     const { outcome } = await studyOf(m, { "r.csv": file });
     const run = outcome.results.scenarios[0].runs[0];
     // computed by hand: "constructor" and "q" are read by no measure; "__proto__" never appears

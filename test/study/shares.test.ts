@@ -28,7 +28,7 @@ describe("time at least and time at value (issue 8)", () => {
     ]);
     const t = outcome.tables.find((x) => x.run === "r" && x.kind === "time_at_least")!;
     // computed by hand: intervals of positive duration at or above each threshold
-    expect(t.preview.map((r) => [r[0], r[1], r[2]])).toEqual([[6, 1, 2], [4, 2, 5], [3, 2, 5], [2, 3, 8]]);
+    expect(t.preview!.map((r) => [r[0], r[1], r[2]])).toEqual([[6, 1, 2], [4, 2, 5], [3, 2, 5], [2, 3, 8]]);
   });
 
   it("shares over all values add up to 1 and time at least the minimum is 1 (common practice: a distribution's total mass)", async () => {

@@ -90,7 +90,7 @@ describe("report tables for measures whose names look like another measure's tab
     expect(new Set(files.map((f) => f.toLowerCase())).size).toBe(files.length);
     const table = (measure: string, kind: string) => outcome.tables.find((t) => t.measure === measure && t.kind === kind && t.run !== null)!;
     // the median of each measure's observations (computed by hand: 2, 20 and 100)
-    const median = (measure: string) => table(measure, "quantiles").preview.find((r) => r[0] === 0.5);
+    const median = (measure: string) => table(measure, "quantiles").preview!.find((r) => r[0] === 0.5);
     expect(median("wait")).toContain(2);
     expect(median("wait.quantiles")).toContain(20);
     expect(median("Wait")).toContain(100);
