@@ -1,6 +1,6 @@
 import { Command, CommanderError, InvalidArgumentError, Option } from "commander";
 import { UserError } from "../messages/index.js";
-import { terminalText } from "../messages/terminal.js";
+import { terminalMessage, terminalText } from "../messages/terminal.js";
 import { toolVersion } from "../record/version.js";
 import * as commands from "./commands.js";
 
@@ -117,15 +117,16 @@ export async function run(argv: string[]): Promise<number> {
       if (e.code === "commander.helpDisplayed" || e.code === "commander.version" || e.code === "commander.help") return 0;
       return 2;
     }
-    // A message quotes names from files and manifests: control characters in it are escaped.
-    const shown = (text: string) => terminalText(text, { keepNewlines: true });
+    // A message quotes names from files and manifests: control characters in it are escaped,
+    // line feeds too but the one before "What to do" (a stack trace keeps its lines).
+    const stack = (text: string) => terminalText(text, { keepNewlines: true });
     if (e instanceof UserError) {
-      process.stderr.write(`sojourn: ${shown(e.message)}\n`);
-      if (debug && e.stack) process.stderr.write(shown(e.stack) + "\n");
+      process.stderr.write(`sojourn: ${terminalMessage(e.message)}\n`);
+      if (debug && e.stack) process.stderr.write(stack(e.stack) + "\n");
       return e.exitCode;
     }
-    process.stderr.write(`sojourn: internal error: ${shown((e as Error)?.message ?? String(e))}\n`);
-    if (debug) process.stderr.write(shown(String((e as Error)?.stack)) + "\n");
+    process.stderr.write(`sojourn: internal error: ${terminalMessage((e as Error)?.message ?? String(e))}\n`);
+    if (debug) process.stderr.write(stack(String((e as Error)?.stack)) + "\n");
     else process.stderr.write("  This is a bug in Sojourn. Run again with --debug to see where it happened, and report it.\n");
     return 1;
   }

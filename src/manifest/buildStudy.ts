@@ -52,6 +52,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
   const measureNames = spec.measures.map((m) => m.name);
   const scenarioNames = spec.scenarios.map((s) => s.name);
   const measureByName = new Map(spec.measures.map((m) => [m.name, m]));
+  const scenarioSet = new Set(scenarioNames);
 
   // Study-wide settings.
   const confidence = spec.confidence ?? DEFAULT_CONFIDENCE;
@@ -72,7 +73,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     checkOptionValues(measure, measure.name, path);
     for (const [scenario, options] of Object.entries(measure.scenarios ?? {})) {
       const optionsPath: KeyPath = [...path, "scenarios", scenario];
-      if (!scenarioNames.includes(scenario)) {
+      if (!scenarioSet.has(scenario)) {
         throw manifestMessages.unknownScenario(place(optionsPath, true), scenario, scenarioNames, closest(scenario, scenarioNames));
       }
       checkOverride(options, measure, optionsPath);
@@ -115,9 +116,11 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
   }
 
   function checkUniqueNames(what: "scenario" | "measure", names: string[], key: string): void {
+    const firstAt = new Map<string, number>();
     names.forEach((name, i) => {
-      const first = names.indexOf(name);
-      if (first !== i) throw manifestMessages.duplicateName(place([key, i, "name"]), what, name, source.lineOf([key, first]));
+      const first = firstAt.get(name);
+      if (first !== undefined) throw manifestMessages.duplicateName(place([key, i, "name"]), what, name, source.lineOf([key, first]));
+      firstAt.set(name, i);
     });
   }
 
@@ -243,8 +246,10 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     if (method === "paired") {
       const idsA = scenarios[scenarioNames.indexOf(a)].runs.map((r) => r.id);
       const idsB = scenarios[scenarioNames.indexOf(b)].runs.map((r) => r.id);
-      const onlyA = idsA.filter((id) => !idsB.includes(id));
-      const onlyB = idsB.filter((id) => !idsA.includes(id));
+      const setA = new Set(idsA);
+      const setB = new Set(idsB);
+      const onlyA = idsA.filter((id) => !setB.has(id));
+      const onlyB = idsB.filter((id) => !setA.has(id));
       if (onlyA.length > 0 || onlyB.length > 0) throw manifestMessages.pairedRunsDiffer(place(path), a, b, onlyA, onlyB);
     }
     return { measure: comparison.measure, a, b, method };

@@ -16,6 +16,7 @@ import { OVERRIDABLE_KEYS, type StudySpec } from "./spec.js";
 const SCHEMA_URL = new URL("../../docs/manifest.schema.json", import.meta.url);
 
 let validator: ValidateFunction | undefined;
+let firstErrorValidator: ValidateFunction | undefined;
 let schemaRoot: SchemaNode = {};
 
 /** The ajv options of the schema check; `scripts/precompile.mjs` compiles with the same. */
@@ -41,14 +42,35 @@ function validate(): ValidateFunction {
   return validator;
 }
 
-/** Throws the message for the first structural problem; returns the data typed when there is none. */
+/**
+ * The schema checked with ajv stopping at its first error, for large manifests: collecting every
+ * error costs time in the square of their number (ajv joins the error lists of each sub-schema),
+ * 34 s for a list of 40000 wrong scenarios. Compiled on first use only.
+ */
+function validateToFirstError(): ValidateFunction {
+  if (firstErrorValidator === undefined) {
+    validate();
+    const { Ajv } = createRequire(import.meta.url)("ajv") as { Ajv: typeof AjvClass };
+    firstErrorValidator = new Ajv({ ...AJV_OPTIONS, allErrors: false }).compile(schemaRoot);
+  }
+  return firstErrorValidator;
+}
+
+/** Manifests with more values than this are checked to their first error only (see above). */
+export const ALL_ERRORS_UP_TO = 20_000;
+
+/**
+ * Throws the message for the first structural problem; returns the data typed when there is none.
+ * The problem shown is the one written earliest in the file; in a manifest of more than
+ * `ALL_ERRORS_UP_TO` values, the first one the schema check meets (in a list, the first wrong item).
+ */
 export function checkSchema(source: ManifestSource): StudySpec {
   const data = source.data;
   if (data === null || data === undefined) throw manifestMessages.manifestEmpty(source.file);
   if (typeof data !== "object" || Array.isArray(data)) {
     throw manifestMessages.notAMapping(source.place([]), describeValue(data));
   }
-  const check = validate();
+  const check = source.size > ALL_ERRORS_UP_TO ? validateToFirstError() : validate();
   if (check(data)) return data as StudySpec;
   throw toMessage(firstError(check.errors ?? [], source), source);
 }

@@ -18,6 +18,8 @@ export interface ManifestSource {
   lineOf(path: KeyPath): number | undefined;
   /** True when the node at `path` is a scalar the user wrote without quotes. */
   isPlainScalar(path: KeyPath): boolean;
+  /** How many values (mappings, lists, keys, scalars) the data holds, each alias written out. */
+  size: number;
 }
 
 /**
@@ -29,15 +31,22 @@ export function parseManifest(text: string, file: string): ManifestSource {
   // Parsed once into tokens (no recursion), checked for depth, then built into the document.
   const tokens = [...new Parser(lineCounter.addNewLine).parse(text)];
   checkNesting(tokens, lineCounter, file);
+  checkVersion(tokens, lineCounter, file);
   const doc = compose(tokens, text);
   const error = doc.errors[0];
   if (error !== undefined) {
     const { line, col } = lineCounter.linePos(error.pos[0]);
     const place = { file, line, column: col };
-    if (error.code === "DUPLICATE_KEY") throw manifestMessages.duplicateKey(place, keyTextAt(doc, error.pos[0]));
     throw manifestMessages.yamlSyntax(place, error.code, error.message);
   }
-  checkNodes(doc, (node, path) => {
+  // yaml warns of a tag it cannot resolve (`!foo x`, `!!float 1`) and keeps the text: an error here.
+  const warning = doc.warnings.find((w) => w.code === "TAG_RESOLVE_FAILED");
+  if (warning !== undefined) {
+    const { line, col } = lineCounter.linePos(warning.pos[0]);
+    const tag = /Unresolved tag: (\S+)/.exec(warning.message)?.[1] ?? "";
+    throw manifestMessages.tagNotAllowed({ file, line, column: col }, shortTag(tag));
+  }
+  const size = checkNodes(doc, (node, path) => {
     const { line, col } = lineCounter.linePos(node.range?.[0] ?? 0);
     return { file, line, column: col, path: formatKeyPath(path) };
   });
@@ -76,6 +85,7 @@ export function parseManifest(text: string, file: string): ManifestSource {
   return {
     file,
     data,
+    size,
     place(path, options = {}) {
       return { file, ...lineCol(path, options.key === true), path: formatKeyPath(path) };
     },
@@ -94,28 +104,14 @@ function keyOf(key: unknown): string | null {
   return null;
 }
 
-/** The text of the mapping key that starts at `offset`, for the duplicate-key message. */
-function keyTextAt(doc: Document, offset: number): string {
-  let text = "";
-  const visit = (node: unknown): void => {
-    if (text !== "") return;
-    if (isMap(node)) {
-      for (const pair of node.items) {
-        if (isScalar(pair.key) && pair.key.range?.[0] === offset) text = String(pair.key.value);
-        visit(pair.value);
-      }
-    } else if (isSeq(node)) node.items.forEach(visit);
-  };
-  visit(doc.contents);
-  return text;
-}
-
 /** Limits on the shape of a manifest, so that no text makes reading it hang or run out of memory. */
 export const MANIFEST_LIMITS = {
   /** Mappings and lists inside each other. */
   depth: 64,
   /** Values (each mapping, list, key and scalar) once every alias is written out. */
   values: 1_000_000,
+  /** Anchors and aliases together (yaml resolves each alias by a walk over all of them). */
+  anchors: 1000,
 };
 
 /**
@@ -191,7 +187,9 @@ export function firstInvalidUtf8(b: Uint8Array): number {
  */
 function compose(tokens: CST.Token[], text: string): Document {
   let doc: Document | null = null;
-  for (const next of new Composer({ uniqueKeys: true }).compose(tokens, true, text.length)) {
+  // Keys are checked for duplicates in checkNodes, in linear time (yaml's own check compares
+  // each key with every earlier one: 20000 keys took 20 s).
+  for (const next of new Composer({ uniqueKeys: false }).compose(tokens, true, text.length)) {
     if (doc === null) doc = next as Document;
     else {
       doc.errors.push(new YAMLParseError([next.range[0], next.range[1]], "MULTIPLE_DOCS", "Source contains multiple documents"));
@@ -199,6 +197,18 @@ function compose(tokens: CST.Token[], text: string): Document {
     }
   }
   return doc!;
+}
+
+/** A `%YAML 1.1` directive would read `010` as 8 and `n` as false: YAML 1.2 only. */
+function checkVersion(tokens: CST.Token[], lines: LineCounter, file: string): void {
+  for (const t of tokens) {
+    if (t.type !== "directive") continue;
+    const version = /^%YAML[ \t]+(\S+)/.exec(t.source)?.[1];
+    if (version !== undefined && version !== "1.2") {
+      const { line, col } = lines.linePos(t.offset);
+      throw manifestMessages.yamlVersion({ file, line, column: col }, version);
+    }
+  }
 }
 
 /**
@@ -229,48 +239,81 @@ function checkNesting(tokens: CST.Token[], lines: LineCounter, file: string): vo
   }
 }
 
+/** The explicit tags that give what JSON has: texts, numbers, booleans, null, lists, mappings. */
+const PLAIN_TAGS = new Set(["str", "int", "float", "bool", "null", "map", "seq"].map((t) => `tag:yaml.org,2002:${t}`));
+
+/** `tag:yaml.org,2002:binary` as it is written, `!!binary`. */
+function shortTag(tag: string): string {
+  return tag.startsWith("tag:yaml.org,2002:") ? `!!${tag.slice("tag:yaml.org,2002:".length)}` : tag;
+}
+
 /**
  * What toJS cannot be trusted with: keys that are not texts, aliases with no anchor before them
  * or inside their own anchor's value, and aliases that multiply (a "billion laughs" document of
  * a few lines expands to 10⁹ values). Walks the document in text order as the YAML rules resolve
  * aliases (the latest anchor of that name before the alias), counting each anchor's values once.
  */
-function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place): void {
+function checkNodes(doc: Document, placeOf: (node: Node, path: KeyPath) => Place): number {
   const anchors = new Map<string, Node>();
   const sizes = new Map<Node, number>();
   const limit = MANIFEST_LIMITS.values;
+  // The key path as a chain from the node up (one small object per node), made a list for a message only.
+  type Link = { up: Link; key: string | number } | null;
+  const at = (node: Node, link: Link): Place => {
+    const path: (string | number)[] = [];
+    for (let l = link; l !== null; l = l.up) path.push(l.key);
+    return placeOf(node, path.reverse());
+  };
   // The values so far, in text order, each alias counted as the values of its anchor.
   let total = 0;
-  const walk = (node: unknown, path: (string | number)[]): void => {
+  let marks = 0;
+  const mark = (node: Node, link: Link) => {
+    if (++marks > MANIFEST_LIMITS.anchors) throw manifestMessages.tooManyAnchors(at(node, link), MANIFEST_LIMITS.anchors);
+  };
+  const walk = (node: unknown, link: Link): void => {
     if (!isNode(node)) return;
     if (isAlias(node)) {
+      mark(node, link);
       const target = anchors.get(node.source);
-      if (target === undefined) throw manifestMessages.aliasWithoutAnchor(placeOf(node, path), node.source);
+      if (target === undefined) throw manifestMessages.aliasWithoutAnchor(at(node, link), node.source);
       const size = sizes.get(target);
-      if (size === undefined) throw manifestMessages.aliasInsideItself(placeOf(node, path), node.source);
+      if (size === undefined) throw manifestMessages.aliasInsideItself(at(node, link), node.source);
       total += size;
-      if (total > limit) throw manifestMessages.manifestTooLarge(placeOf(node, path), limit);
+      if (total > limit) throw manifestMessages.manifestTooLarge(at(node, link), limit);
       return;
     }
     const before = total;
     total += 1;
-    if (total > limit) throw manifestMessages.manifestTooLarge(placeOf(node, path), limit);
-    if (node.anchor !== undefined) anchors.set(node.anchor, node);
+    if (total > limit) throw manifestMessages.manifestTooLarge(at(node, link), limit);
+    if (node.tag !== undefined && !PLAIN_TAGS.has(node.tag)) throw manifestMessages.tagNotAllowed(at(node, link), shortTag(node.tag));
+    if (node.anchor !== undefined) {
+      mark(node, link);
+      anchors.set(node.anchor, node);
+    }
     if (isMap(node)) {
+      // Keys as the parsed data will hold them: `1` and `"1"` are one key there.
+      const keys = new Set<string>();
       for (const pair of node.items) {
         const key = pair.key;
         if (key !== null && !isScalar(key)) {
           const found = isAlias(key) ? "an alias" : isSeq(key) ? "a list" : "a mapping";
-          throw manifestMessages.keyNotText(placeOf(key as Node, path), found);
+          throw manifestMessages.keyNotText(at(key as Node, link), found);
         }
-        const keyPath = [...path, isScalar(key) ? String(key.value) : ""];
-        walk(key, keyPath);
-        walk(pair.value, keyPath);
+        const text = isScalar(key) ? String(key.value) : "";
+        if (keys.has(text)) {
+          const { line, column, file } = at(key ?? node, link);
+          throw manifestMessages.duplicateKey({ file, line, column }, text);
+        }
+        keys.add(text);
+        const keyLink = { up: link, key: text };
+        walk(key, keyLink);
+        walk(pair.value, keyLink);
       }
     } else if (isSeq(node)) {
-      node.items.forEach((item, i) => walk(item, [...path, i]));
+      node.items.forEach((item, i) => walk(item, { up: link, key: i }));
     }
-    sizes.set(node, total - before);
+    if (node.anchor !== undefined) sizes.set(node, total - before);
   };
-  walk(doc.contents, []);
+  walk(doc.contents, null);
+  return total;
 }

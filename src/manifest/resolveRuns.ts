@@ -79,6 +79,7 @@ export function resolveRuns(scenario: ScenarioSpec, index: number, baseDir: stri
   const runsPath: KeyPath = ["scenarios", index, "runs"];
   const entries = typeof scenario.runs === "string" ? [{ entry: scenario.runs, origin: runsPath }] : scenario.runs.map((entry, i) => ({ entry, origin: [...runsPath, i] }));
   const runs: ResolvedRun[] = [];
+  const byId = new Map<string, ResolvedRun>();
   for (const { entry, origin } of entries) {
     const spec = typeof entry === "string" ? { path: entry } : entry;
     const patternPath = typeof entry === "string" ? origin : [...origin, "path"];
@@ -88,8 +89,9 @@ export function resolveRuns(scenario: ScenarioSpec, index: number, baseDir: stri
       const run: ResolvedRun = { id: runIdOf(file), path, file, origin };
       if (spec.start !== undefined) run.start = spec.start;
       if (spec.end !== undefined) run.end = spec.end;
-      const twin = runs.find((r) => r.id === run.id);
+      const twin = byId.get(run.id);
       if (twin !== undefined) throw manifestMessages.duplicateRunId(source.place(patternPath), scenario.name, run.id, twin.file, run.file);
+      byId.set(run.id, run);
       runs.push(run);
     }
   }

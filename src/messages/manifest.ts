@@ -109,6 +109,29 @@ export function manifestTooLarge(place: Place, limit: number): UserError {
   );
 }
 
+/** More anchors and aliases than Sojourn resolves. */
+export function tooManyAnchors(place: Place, limit: number): UserError {
+  return located(place, `the manifest has more than ${limit.toLocaleString("en-US")} anchors and aliases (&name, *name)`, "Write the repeated values out, or repeat fewer of them: a study manifest needs a handful of aliases at most.");
+}
+
+/** An explicit YAML tag (`!foo`, `!!binary`) that does not give a plain text, number, true/false, list or mapping. */
+export function tagNotAllowed(place: Place, tag: string): UserError {
+  return located(
+    place,
+    `the tag ${tag} does not fit here: a manifest holds texts, numbers, true or false, lists and mappings, and the tag makes this value something else or does not fit it`,
+    'Remove the tag and write the value plainly; to make a number-like name a text, quote it ("2024").',
+  );
+}
+
+/** A `%YAML` directive for another version than 1.2. */
+export function yamlVersion(place: Place, version: string): UserError {
+  return located(
+    place,
+    `the manifest asks for YAML ${version}, and Sojourn reads YAML 1.2 only (in YAML 1.1, 010 is the number 8 and n is false)`,
+    "Remove the %YAML line (and the --- after it, if nothing else needs it).",
+  );
+}
+
 /** A mapping key written as a list, a mapping or an alias. */
 export function keyNotText(place: Place, found: string): UserError {
   return located(place, `a mapping key must be a text, found ${found}`, "Write the key as a plain name followed by a colon, such as name: queue.");

@@ -43,6 +43,19 @@ export function terminalText(text: string, options: { keepNewlines?: boolean } =
 }
 
 /**
+ * A catalogue message (`what\n  What to do: todo`) for a terminal: every control character
+ * escaped, line feeds too, but the one before "What to do", so that a name with a line feed in it
+ * cannot make a message look like two, or like something else.
+ */
+export function terminalMessage(message: string): string {
+  const at = message.indexOf(WHAT_TO_DO);
+  if (at < 0) return terminalText(message);
+  return terminalText(message.slice(0, at)) + WHAT_TO_DO + terminalText(message.slice(at + WHAT_TO_DO.length));
+}
+
+const WHAT_TO_DO = "\n  What to do: ";
+
+/**
  * `value` as JSON for a terminal: JSON.stringify escapes U+0000–U+001F inside strings but writes
  * DEL, C1 and the bidirectional characters as they are; these occur only inside strings, where
  * `\uXXXX` stands for the same character.

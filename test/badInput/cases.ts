@@ -127,6 +127,9 @@ const M_BOMB = [
   "g: &g [*f, *f, *f, *f, *f, *f, *f, *f, *f, *f]",
   "",
 ].join("\n") + manifest(QUEUE);
+const M_ALIASES = manifest(QUEUE) + `closing: &closing 10\nrepeats: [${Array.from({ length: 1200 }, () => "*closing").join(", ")}]\n`;
+const M_TAG = manifest(QUEUE, "{name: morning, end: !!timestamp 2024-03-01, runs: runs/*.csv}");
+const M_YAML11 = `%YAML 1.1\n---\n${manifest(QUEUE, "{name: morning, end: 010, runs: runs/*.csv}")}`;
 const M_NOANCHOR = manifest(QUEUE, "{name: morning, end: *closing, runs: runs/*.csv}");
 const M_SELFALIAS = manifest(QUEUE, "{name: morning, end: 10, runs: &days [runs/day-1.csv, *days]}");
 const M_LISTKEY = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, [a, b]: 1}");
@@ -961,6 +964,18 @@ export const CASES: BadInputCase[] = [
     startsWith: () => `study.yaml:6:${positionOf(M_BOMB, "f: ").column + 7 + 4 * 7} (at f[7]): with its aliases (*name) written out, the manifest would hold more than 1,000,000 values`,
   },
   {
+    id: "too-many-aliases",
+    title: "More than 1000 anchors and aliases",
+    what: "A manifest that repeats one value 1200 times with `*closing` (not shown). Sojourn resolves at most 1000 anchors and aliases, since each one is looked up among all the others.",
+    files: { [STUDY]: M_ALIASES, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    // &closing is the first of the 1000; the alias repeats[998] is the 1000th, repeats[999] the 1001st
+    // "repeats: [" is 10 characters and each "*closing, " 10 more
+    message: () => manifestMessages.tooManyAnchors({ file: STUDY, line: positionOf(M_ALIASES, "repeats:").line, column: 11 + 10 * 999, path: "repeats[999]" }, 1000),
+  },
+  {
     id: "alias-without-anchor",
     title: "An alias with no anchor",
     what: "`*closing` repeats the value marked `&closing`, but nothing is marked so before it.",
@@ -989,6 +1004,26 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.keyNotText(at(M_LISTKEY, "[a, b]", "scenarios[0]"), "a list"),
+  },
+  {
+    id: "yaml-tag",
+    title: "A YAML tag that makes a value a date",
+    what: "`!!timestamp` (and `!!binary`, `!!set`, a tag of one's own such as `!when`) would make the value something JSON has not; Sojourn reads texts, numbers, true or false, lists and mappings, and refuses the tag instead of reading the value as something else.",
+    files: { [STUDY]: M_TAG, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.tagNotAllowed(at(M_TAG, "2024-03-01", "scenarios[0].end"), "!!timestamp"),
+  },
+  {
+    id: "yaml-version",
+    title: "A manifest that asks for YAML 1.1",
+    what: "Under a `%YAML 1.1` line, `end: 010` would be the number 8 and `n` would mean false. Sojourn reads YAML 1.2 only, where `010` is 10.",
+    files: { [STUDY]: M_YAML11, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.yamlVersion({ file: STUDY, line: 1, column: 1 }, "1.1"),
   },
   {
     id: "listed-twice",

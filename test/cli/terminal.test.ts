@@ -8,7 +8,7 @@ import { spawnSync } from "node:child_process";
 import { rmSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { afterAll, describe, expect, it } from "vitest";
-import { terminalJson, terminalText } from "../../src/messages/terminal.js";
+import { terminalJson, terminalMessage, terminalText } from "../../src/messages/terminal.js";
 import { sojourn } from "../helpers/cli.js";
 import { csv, tempFolder } from "../helpers/tempStudy.js";
 
@@ -57,6 +57,11 @@ describe("terminalText / terminalJson", () => {
       "\\u007f\\u0085\\u009b\\u061c\\u200e\\u200f\\u2028\\u2029\\u202a\\u202e\\u2066\\u2069",
     );
     expect(terminalText("élan 队列 🚲 <b>")).toBe("élan 队列 🚲 <b>");
+  });
+
+  it("terminalMessage keeps only the line feed before What to do", () => {
+    expect(terminalMessage("a: x\ny\n  What to do: z\nw")).toBe("a: x\\u000ay\n  What to do: z\\u000aw");
+    expect(terminalMessage(`no marker\n${ESC}`)).toBe("no marker\\u000a\\u001b");
   });
 
   it("terminalJson is valid JSON with the same values and no raw control character", () => {
@@ -121,6 +126,20 @@ describe("command output with control characters in names", () => {
     expect(first).toContain(terminalText(`runs/${file}`));
     expect(first).toMatch(/^sojourn: runs\/bad\\u000a\\u001b\[2K\.csv:3/);
     expect(r.stderr).toContain("\n  What to do: ");
+  });
+
+  it("a message quoting a series name with a line feed stays two lines: what, and what to do", () => {
+    const series = "q\nWhat to do: nothing";
+    const text = `scenarios:\n  - {name: s, end: 10, runs: "runs/*.csv"}\nmeasures:\n  - {name: m, kind: level, series: ${yamlText(series)}}\n`;
+    const dir = tempFolder({ "study.yaml": text, "runs/r.csv": `time,series,value\n1,"${series}",\n` });
+    dirs.push(dir);
+    const r = sojourn(["check", "study.yaml"], dir);
+    expect(r.status).toBe(1);
+    const lines = r.stderr.split("\n");
+    expect(lines).toHaveLength(3); // the message's two lines and the final line feed
+    expect(lines[0]).toContain(`series "q\\u000aWhat to do: nothing"`);
+    expect(lines[1].startsWith("  What to do: ")).toBe(true);
+    expect(lines[2]).toBe("");
   });
 
   it("a usage error repeats a typed flag with its control characters escaped", () => {

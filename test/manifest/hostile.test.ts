@@ -7,6 +7,7 @@ import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterEach, describe, expect, it } from "vitest";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
+import { ALL_ERRORS_UP_TO } from "../../src/manifest/checkSchema.js";
 import { MANIFEST_LIMITS, firstInvalidUtf8 } from "../../src/manifest/manifestSource.js";
 import { manifestMessages as m } from "../../src/messages/index.js";
 import { RUN_FILES, pos, removeFolder, studyFolder, userError } from "./helpers.js";
@@ -141,6 +142,56 @@ describe("loadStudy: nesting and aliases that never end", () => {
     const text = GOOD + "---\n" + GOOD;
     const { error, file } = await failure(text);
     expect(error.message).toBe(m.yamlSyntax({ file, ...pos(text, "---") }, "MULTIPLE_DOCS", "Source contains multiple documents").message);
+  });
+
+  it(`stops at the alias past ${MANIFEST_LIMITS.anchors} anchors and aliases, quickly (yaml resolves each alias by a walk over all of them)`, async () => {
+    const text = GOOD + `x: &x 1\ny: [${Array.from({ length: 40000 }, () => "*x").join(", ")}]\n`;
+    const { error, file, ms } = await failure(text);
+    // the anchor &x is the first mark, so the 1000th alias, y[999], is mark number 1001
+    const column = "y: [".length + 1 + 4 * (MANIFEST_LIMITS.anchors - 1);
+    expect(error.message).toBe(m.tooManyAnchors({ file, line: 6, column, path: `y[${MANIFEST_LIMITS.anchors - 1}]` }, MANIFEST_LIMITS.anchors).message);
+    expect(ms).toBeLessThan(10000); // resolving all 40000 aliases took about 75 s on this machine
+  });
+
+  it("finds a key written twice in linear time, also when the data would merge 1 and \"1\"", async () => {
+    const keys = Array.from({ length: 20000 }, (_, i) => `  k${i}: 1`).join("\n");
+    const text = GOOD + `x:\n${keys}\n  k7: 2\n`;
+    const { error, file, ms } = await failure(text);
+    expect(error.message).toBe(m.duplicateKey({ file, line: 5 + 20000 + 1, column: 3 }, "k7").message);
+    expect(ms).toBeLessThan(10000); // yaml's own check took about 20 s for these 20000 keys on this machine
+    const merged = GOOD + 'x: {1: a, "1": b}\n';
+    const second = await failure(merged);
+    expect(second.error.message).toBe(m.duplicateKey({ file: second.file, ...pos(merged, '"1"') }, "1").message);
+  });
+
+  it(`checks a manifest of more than ${ALL_ERRORS_UP_TO} values to its first structural problem, in linear time`, async () => {
+    // 60000 scenarios without runs: collecting every one of their errors took 34 s for 40000 on
+    // this machine (growing as the square); the first wrong scenario is named instead.
+    const lines = Array.from({ length: 60000 }, (_, i) => `  - {name: s${i}, end: 10}`);
+    const text = "measures:\n  - {name: q, kind: level, series: queue}\nscenarios:\n" + lines.join("\n") + "\n";
+    const { error, file, ms } = await failure(text);
+    expect(error.message).toBe(m.missingKey({ file, ...pos(text, "{name: s0,"), path: "scenarios[0].runs" }, "runs", "a scenario", "a glob such as runs/*.csv, or a list of paths, globs or {path, start, end} mappings").message);
+    expect(ms).toBeLessThan(30000);
+  });
+
+  it("refuses a tag that gives something JSON has not (a date, bytes, a set) or that does not resolve, and reads !!str", async () => {
+    for (const [value, tag, column] of [["!foo x", "!foo", 8], ["!!float 1", "!!float", 8], ["!!binary aGVsbG8=", "!!binary", 17], ["!!timestamp 2001-12-14", "!!timestamp", 20], ["!!set {a, b}", "!!set", 14]] as const) {
+      const text = `title: ${value}\n${GOOD}`;
+      const { error, file } = await failure(text);
+      // an unresolved tag is named where the tag is written; a resolved one where its value starts
+      const path = column === 8 ? undefined : "title";
+      expect(error.message, value).toBe(m.tagNotAllowed({ file, line: 1, column, ...(path ? { path } : {}) }, tag).message);
+    }
+    const study = await loads(`title: !!str 2024\n${GOOD}`);
+    expect(study.title).toBe("2024");
+  });
+
+  it("refuses a %YAML 1.1 directive (010 would be 8, n false) and reads %YAML 1.2", async () => {
+    const text = `%YAML 1.1\n---\n${GOOD.replace("end: 600", "end: 010")}`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.yamlVersion({ file, line: 1, column: 1 }, "1.1").message);
+    const study = await loads(`%YAML 1.2\n---\n${GOOD.replace("end: 600", "end: 010")}`);
+    expect(study.scenarios[0].runs[0].end).toBe(10); // YAML 1.2: a decimal 10
   });
 
   it("still reads aliases that repeat a value a few times", async () => {
