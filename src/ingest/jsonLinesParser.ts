@@ -44,6 +44,19 @@ const COLON = 58;
  * colon.
  */
 function topLevelKeys(text: string): number {
+  // The usual row is flat, without escapes: every double quote then opens or closes a string, at
+  // depth 1, and a string followed by a colon is a key. Anything else takes the general walk.
+  if (text.indexOf("\\") < 0 && text.indexOf("{", 1) < 0 && text.indexOf("[") < 0) {
+    let keys = 0;
+    for (let open = text.indexOf('"'); open >= 0; ) {
+      const close = text.indexOf('"', open + 1);
+      let k = close + 1;
+      while (isSpace(text.charCodeAt(k))) k++;
+      if (text.charCodeAt(k) === COLON) keys++;
+      open = text.indexOf('"', close + 1);
+    }
+    return keys;
+  }
   let depth = 0;
   let keys = 0;
   for (let i = 0; i < text.length; i++) {

@@ -88,6 +88,8 @@ describe("readRun on names given twice", () => {
   it("readRun refuses a JSON object with a key twice, written alike or escaped", async () => {
     expect(await outcome("twice.jsonl", '{"time":1,"series":"queue"}\n{"time":2,"series":"queue","time":1}\n')).toBe(messages.duplicateKey(D, 2, "time").message);
     expect(await outcome("escaped.jsonl", '{"time":1, "series":"queue", "val\\u0075e": 1, "value" :2}\n')).toBe(messages.duplicateKey(D, 1, "value").message);
+    expect(await outcome("spaced.jsonl", '{"time" : 1, "series" :"queue", "entity":"a:b", "entity"\t: "c"}\n')).toBe(messages.duplicateKey(D, 1, "entity").message);
+    expect(await outcome("brace.jsonl", '{"time":1,"series":"{queue}","series":"x"}\n')).toBe(messages.duplicateKey(D, 1, "series").message);
     expect(await outcome("proto.jsonl", '{"time":1,"series":"queue","__proto__":1,"__proto__":2}\n')).toBe(messages.duplicateKey(D, 1, "__proto__").message);
   });
 
