@@ -2,8 +2,9 @@
  * A scenario's `runs` entry turned into run files: globs expanded (sorted, so the result does not
  * depend on the order a folder lists its files), plain paths checked, ids taken from file names.
  */
-import { lstatSync, statSync } from "node:fs";
-import { relative, resolve, sep } from "node:path";
+import { type Dirent, lstatSync, readdirSync, statSync } from "node:fs";
+import { isAbsolute, join, relative, resolve, sep } from "node:path";
+import picomatch from "picomatch";
 import { globSync, isDynamicPattern } from "tinyglobby";
 import { RUN_EXTENSIONS, notFileKind, runFormat, runIdOf } from "../ingest/runFile.js";
 import { manifestMessages } from "../messages/index.js";
@@ -36,6 +37,9 @@ function filesOf(pattern: string, origin: KeyPath, baseDir: string, source: Mani
   if (isDynamicPattern(pattern)) {
     // The walker lists regular files and links; a link may lead to a device (`/dev/zero`).
     const found = globSync(pattern, { cwd: baseDir, onlyFiles: true, expandDirectories: false, absolute: true });
+    // ...but never a pipe, a socket or a device itself: look for those the pattern matches.
+    const special = specialEntryMatching(pattern, baseDir);
+    if (special !== null) throw manifestMessages.runPathNotAFile(source.place(origin), relativeFile(baseDir, special.path), special.kind, false);
     if (found.length === 0) throw manifestMessages.globMatchedNothing(source.place(origin), pattern, baseDir);
     const files = found.map((p) => resolve(p)).sort((a, b) => byCodeUnits(relativeFile(baseDir, a), relativeFile(baseDir, b)));
     for (const path of files) {
@@ -53,6 +57,50 @@ function filesOf(pattern: string, origin: KeyPath, baseDir: string, source: Mani
 }
 
 const MISSING = "missing";
+
+/** Folders below a glob's fixed start that are looked through for pipes, sockets and devices. */
+const SPECIAL_SCAN_LIMIT = 100_000;
+
+/**
+ * The first pipe, socket or device (in path order) that `pattern` matches, or null. The glob
+ * walker lists only files, folders and links, so these are found by walking the folders under the
+ * pattern's fixed start, as deep as the pattern reaches (any depth with `**`), without following
+ * links to folders. Hidden names are skipped as the glob skips them.
+ */
+function specialEntryMatching(pattern: string, baseDir: string): { path: string; kind: string } | null {
+  const scan = picomatch.scan(pattern);
+  const root = resolve(baseDir, scan.base === "" ? "." : scan.base);
+  const rest = scan.glob.split("/");
+  const depth = rest.includes("**") ? Infinity : rest.length;
+  // Matched as written: relative to the manifest's folder, or absolute (the folder's own name may
+  // hold glob characters, so it is never made part of the pattern).
+  const absolute = isAbsolute(pattern);
+  const matches = picomatch(pattern);
+  const shown = (path: string) => (absolute ? path.split(sep).join("/") : relativeFile(baseDir, path));
+  let folders = 0;
+  const walk = (dir: string, level: number): { path: string; kind: string } | null => {
+    if (++folders > SPECIAL_SCAN_LIMIT) return null;
+    let entries: Dirent[];
+    try {
+      entries = readdirSync(dir, { withFileTypes: true });
+    } catch {
+      return null;
+    }
+    entries.sort((a, b) => byCodeUnits(a.name, b.name));
+    for (const e of entries) {
+      if (e.name.startsWith(".")) continue;
+      const path = join(dir, e.name);
+      if (e.isFIFO() || e.isSocket() || e.isCharacterDevice() || e.isBlockDevice()) {
+        if (matches(shown(path))) return { path, kind: notFileKind(e)! };
+      } else if (e.isDirectory() && level + 1 < depth) {
+        const inner = walk(path, level + 1);
+        if (inner !== null) return inner;
+      }
+    }
+    return null;
+  };
+  return walk(root, 0);
+}
 
 /** What the path leads to when it is not a regular file (links followed), MISSING, or null for a file. */
 function kindOf(path: string): string | null {

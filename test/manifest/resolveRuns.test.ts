@@ -20,7 +20,17 @@ let dir: string;
 let server: Server;
 
 beforeAll(async () => {
-  dir = studyFolder({ "runs/rep-01.csv": CSV, "glob/rep-01.csv": CSV });
+  dir = studyFolder({
+    "runs/rep-01.csv": CSV,
+    "glob/rep-01.csv": CSV,
+    "deep/a/rep-01.csv": CSV,
+    "deep/b/c/rep-02.csv": CSV,
+    "quiet/rep-01.csv": CSV,
+  });
+  // Pipes the walker of a glob never lists: one matched two folders down, and two no glob matches.
+  execFileSync("mkfifo", [join(dir, "deep/b/c/rep-03.csv")]);
+  execFileSync("mkfifo", [join(dir, "quiet/notes.txt")]);
+  execFileSync("mkfifo", [join(dir, "quiet/.hidden.csv")]);
   execFileSync("mkfifo", [join(dir, "runs/pipe.csv")]);
   symlinkSync("/dev/zero", join(dir, "runs/zero.csv"));
   symlinkSync("/dev/zero", join(dir, "glob/rep-02.csv"));
@@ -56,6 +66,21 @@ describe("resolveRuns on paths that are not regular files", () => {
     const file = join(dir, "glob.yaml");
     const error = await userError(loadStudy(file, { text }));
     expect(error.message).toBe(m.runPathNotAFile({ file, ...pos(text, "glob/*.csv"), path: "scenarios[0].runs" }, "glob/rep-02.csv", "a character device", true).message);
+  });
+
+  test("loadStudy on a glob that matches a named pipe refuses it, at any depth the glob reaches", async () => {
+    for (const pattern of ["runs/*.csv", "deep/**/*.csv", "deep/*/c/*.csv", `${dir}/deep/**/rep-0[13].csv`]) {
+      const text = manifest(JSON.stringify(pattern));
+      const file = join(dir, "pipes.yaml");
+      const error = await userError(loadStudy(file, { text }));
+      const found = pattern.startsWith("runs") ? "runs/pipe.csv" : "deep/b/c/rep-03.csv";
+      expect(error.message, pattern).toBe(m.runPathNotAFile({ file, ...pos(text, JSON.stringify(pattern)), path: "scenarios[0].runs" }, found, "a named pipe (FIFO)", false).message);
+    }
+  });
+
+  test("loadStudy on a glob beside pipes it does not match (another extension, a hidden name) reads the files", async () => {
+    const study = await loadStudy(join(dir, "quiet.yaml"), { text: manifest("quiet/*.csv") });
+    expect(study.scenarios[0].runs.map((r) => r.file)).toEqual(["quiet/rep-01.csv"]);
   });
 
   test("loadStudy on a link to a regular file takes it as a run with the link's name", async () => {
