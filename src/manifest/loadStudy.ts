@@ -9,8 +9,10 @@
  * Every problem stops at the first one found, as a `UserError` naming the file, line, column and
  * key path.
  */
-import { readFile } from "node:fs/promises";
+import { readFile, stat } from "node:fs/promises";
 import { basename, dirname, extname, resolve } from "node:path";
+import { notFileKind } from "../ingest/runFile.js";
+import { UserError } from "../messages/error.js";
 import { manifestMessages } from "../messages/index.js";
 import { buildStudy } from "./buildStudy.js";
 import { checkSchema } from "./checkSchema.js";
@@ -41,11 +43,22 @@ export async function loadStudy(manifestPath: string, options: LoadOptions = {})
   });
 }
 
+/** Largest manifest read (bytes): a manifest of 20 000 runs written out one per line is about 1 MB. */
+export const MAX_MANIFEST_BYTES = 16 * 1024 * 1024;
+
 async function readManifest(path: string): Promise<string> {
   let bytes: Buffer;
   try {
+    // A pipe, a socket or a device (also through a link) would be read without end: refused by kind.
+    const info = await stat(path);
+    if (info.isDirectory()) throw manifestMessages.manifestIsFolder(path);
+    const kind = notFileKind(info);
+    if (kind !== null) throw manifestMessages.manifestNotAFile(path, kind);
+    if (info.size > MAX_MANIFEST_BYTES) throw manifestMessages.manifestFileTooLarge(path, info.size, MAX_MANIFEST_BYTES);
     bytes = await readFile(path);
+    if (bytes.length > MAX_MANIFEST_BYTES) throw manifestMessages.manifestFileTooLarge(path, bytes.length, MAX_MANIFEST_BYTES);
   } catch (error) {
+    if (error instanceof UserError) throw error;
     const code = (error as NodeJS.ErrnoException).code;
     if (code === "ENOENT") throw manifestMessages.manifestNotFound(path);
     if (code === "EISDIR") throw manifestMessages.manifestIsFolder(path);

@@ -33,6 +33,14 @@ export function manifestIsFolder(file: string): UserError {
   return located({ file }, "this is a folder, not a manifest file", "Give the path of the manifest file itself (for example study.yaml).");
 }
 
+export function manifestNotAFile(file: string, kind: string): UserError {
+  return located({ file }, `this is ${kind}, not a regular file; Sojourn reads the manifest whole and records its text, so it reads regular files only`, "Save the manifest to a regular file (for example study.yaml) and give its path.");
+}
+
+export function manifestFileTooLarge(file: string, bytes: number, limit: number): UserError {
+  return located({ file }, `the manifest is ${bytes} bytes, more than the ${limit} bytes a manifest may have`, "A manifest names its run files (globs name thousands in one line) and holds no data; check that this is the manifest and not a run file.");
+}
+
 export function manifestUnreadable(file: string, reason: string): UserError {
   return located({ file }, `the manifest cannot be read (${reason})`, "Check that the file exists and that you may read it.");
 }
