@@ -57,27 +57,32 @@ function topLevelKeys(text: string): number {
     }
     return keys;
   }
-  let depth = 0;
   let keys = 0;
-  for (let i = 0; i < text.length; i++) {
-    const c = text.charCodeAt(i);
-    if (c === QUOTE) {
-      const close = closingQuote(text, i);
-      if (depth === 1) {
-        let k = close + 1;
-        while (isSpace(text.charCodeAt(k))) k++;
-        if (text.charCodeAt(k) === COLON) keys++;
-      }
-      i = close;
-    } else if (c === 123 || c === 91) depth++; // { [
-    else if (c === 125 || c === 93) depth--; // } ]
-  }
+  eachTopLevelKey(text, () => {
+    keys++;
+    return false;
+  });
   return keys;
 }
 
 /** The key of a valid JSON object text that is written twice (keys compared as JSON decodes them). */
 function duplicateOf(text: string): string {
   const seen = new Set<string>();
+  let twice = "";
+  eachTopLevelKey(text, (open, close) => {
+    const key = JSON.parse(text.slice(open, close + 1)) as string;
+    if (seen.has(key)) twice = key;
+    seen.add(key);
+    return twice !== "";
+  });
+  return twice;
+}
+
+/**
+ * Calls `visit` with the opening and closing quote of each key of the object a valid JSON text
+ * holds (the strings at depth 1 followed by a colon), in order, until it returns true.
+ */
+function eachTopLevelKey(text: string, visit: (open: number, close: number) => boolean): void {
   let depth = 0;
   for (let i = 0; i < text.length; i++) {
     const c = text.charCodeAt(i);
@@ -86,17 +91,12 @@ function duplicateOf(text: string): string {
       if (depth === 1) {
         let k = close + 1;
         while (isSpace(text.charCodeAt(k))) k++;
-        if (text.charCodeAt(k) === COLON) {
-          const key = JSON.parse(text.slice(i, close + 1)) as string;
-          if (seen.has(key)) return key;
-          seen.add(key);
-        }
+        if (text.charCodeAt(k) === COLON && visit(i, close)) return;
       }
       i = close;
-    } else if (c === 123 || c === 91) depth++;
-    else if (c === 125 || c === 93) depth--;
+    } else if (c === 123 || c === 91) depth++; // { [
+    else if (c === 125 || c === 93) depth--; // } ]
   }
-  return "";
 }
 
 /** The closing quote of the JSON string opening at `open` (the text is valid JSON). */
