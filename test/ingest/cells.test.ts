@@ -9,7 +9,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import type { SeriesRequest } from "../../src/ingest/readRun.js";
 import * as messages from "../../src/messages/ingest.js";
-import { gzip, record, scratch } from "./helpers.js";
+import { errorOf, plainAndGzip, record, scratch } from "./helpers.js";
 
 const dir = scratch();
 afterAll(() => dir.remove());
@@ -20,19 +20,8 @@ const CHUNKS = [1, 3, 7, 64, 1 << 20];
 /** The error message of reading `text` as `name`, the same at every chunk size and in gzip (null: read). */
 async function outcome(name: string, text: string, series = QUEUE): Promise<string | null> {
   const seen = new Set<string | null>();
-  for (const [file, content] of [
-    [name, text],
-    [`${name}.gz`, gzip(text)],
-  ] as const) {
-    const path = dir.file(file, content);
-    for (const chunkSize of CHUNKS) {
-      seen.add(
-        await record(path, series, { chunkSize }).then(
-          () => null,
-          (e: Error) => e.message,
-        ),
-      );
-    }
+  for (const [, path] of plainAndGzip(dir, name, text)) {
+    for (const chunkSize of CHUNKS) seen.add(await errorOf(record(path, series, { chunkSize })));
   }
   expect(seen.size, [...seen].join("\n---\n")).toBe(1);
   return [...seen][0];

@@ -28,6 +28,21 @@ export function scratch(): { dir: string; file(name: string, content: string | B
 
 export const gzip = (text: string | Buffer): Buffer => gzipSync(typeof text === "string" ? Buffer.from(text) : text);
 
+/** Writes `text` into `folder` as `name` and gzip-compressed as `name.gz`; returns both as [file name, path]. */
+export function plainAndGzip(folder: ReturnType<typeof scratch>, name: string, text: string): [string, string][] {
+  return [
+    [name, folder.file(name, text)],
+    [`${name}.gz`, folder.file(`${name}.gz`, gzip(text))],
+  ];
+}
+
+/** The message of the error `p` ends with, or null when it ends without one. */
+export const errorOf = (p: Promise<unknown>): Promise<string | null> =>
+  p.then(
+    () => null,
+    (e: Error) => e.message,
+  );
+
 /** One sink call. */
 export interface Call {
   series: number;

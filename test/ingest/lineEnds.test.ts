@@ -9,7 +9,7 @@
 import { afterAll, describe, expect, it } from "vitest";
 import type { SeriesRequest } from "../../src/ingest/readRun.js";
 import * as messages from "../../src/messages/ingest.js";
-import { type Call, gzip, record, rejection, scratch } from "./helpers.js";
+import { type Call, plainAndGzip, record, rejection, scratch } from "./helpers.js";
 
 const dir = scratch();
 afterAll(() => dir.remove());
@@ -25,11 +25,7 @@ const JSON_LINES = ['{"time":0,"series":"queue","value":2}', "", '{"time":1.5,"s
 /** Calls at every chunk size and in gzip; checks they agree and returns them. */
 async function calls(name: string, text: string): Promise<Call[]> {
   let first: Call[] | null = null;
-  for (const [file, content] of [
-    [name, text],
-    [`${name}.gz`, gzip(text)],
-  ] as const) {
-    const path = dir.file(file, content);
+  for (const [file, path] of plainAndGzip(dir, name, text)) {
     for (const chunkSize of CHUNKS) {
       const got = (await record(path, WANTED, { chunkSize })).calls;
       if (first === null) first = got;

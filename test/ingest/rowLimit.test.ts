@@ -15,7 +15,7 @@ import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "../../src/ingest/feeder.js";
 import * as messages from "../../src/messages/ingest.js";
-import { gzip, record, rejection, scratch } from "./helpers.js";
+import { errorOf, plainAndGzip, record, rejection, scratch } from "./helpers.js";
 
 const dir = scratch();
 afterAll(() => dir.remove());
@@ -38,19 +38,8 @@ const jsonRow = (time: number, n: number): string => {
 /** Reads `content` as `name`, plain and gzip, at every chunk size; returns the errors (null when read). */
 async function readAll(name: string, content: string): Promise<(string | null)[]> {
   const out: (string | null)[] = [];
-  for (const [file, bytes] of [
-    [name, content],
-    [`${name}.gz`, gzip(content)],
-  ] as const) {
-    const path = dir.file(file, bytes);
-    for (const chunkSize of CHUNKS) {
-      out.push(
-        await record(path, QUEUE, { chunkSize, maxRowBytes: LIMIT }).then(
-          () => null,
-          (e: Error) => e.message,
-        ),
-      );
-    }
+  for (const [, path] of plainAndGzip(dir, name, content)) {
+    for (const chunkSize of CHUNKS) out.push(await errorOf(record(path, QUEUE, { chunkSize, maxRowBytes: LIMIT })));
   }
   return out;
 }
