@@ -6,13 +6,13 @@
  * Every study is invented.
  */
 import { spawn, spawnSync } from "node:child_process";
-import { existsSync, readdirSync, readFileSync, realpathSync, statSync, symlinkSync, writeFileSync } from "node:fs";
-import { join, relative } from "node:path";
+import { existsSync, readdirSync, readFileSync, realpathSync, symlinkSync, writeFileSync } from "node:fs";
+import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import * as msg from "../../src/messages/output.js";
 import { sojourn } from "../helpers/cli.js";
-import { tempFolder } from "../helpers/tempStudy.js";
+import { folderSnapshot, tempFolder } from "../helpers/tempStudy.js";
 
 const MAIN = fileURLToPath(new URL("../../dist/cli/main.js", import.meta.url));
 const MANIFEST = "title: Bakery counter\nscenarios:\n  - {name: morning, end: 10, runs: runs/*.csv}\nmeasures:\n  - {name: queue, kind: level, series: queue}\n";
@@ -23,19 +23,6 @@ function bakery(extra: Record<string, string> = {}): string {
   return tempFolder({ "study.yaml": MANIFEST, "runs/day-1.csv": RUN, ...extra });
 }
 
-/** Every file below `dir` with its text. */
-function files(dir: string): Record<string, string> {
-  const out: Record<string, string> = {};
-  const walk = (at: string) => {
-    for (const name of readdirSync(at).sort()) {
-      const p = join(at, name);
-      if (statSync(p).isDirectory()) walk(p);
-      else out[relative(dir, p)] = readFileSync(p, "utf8");
-    }
-  };
-  walk(dir);
-  return out;
-}
 
 /** Runs the command line in `cwd`. */
 function run(args: string[], cwd: string) {
@@ -47,24 +34,24 @@ const err = (e: { message: string }) => `sojourn: ${e.message}\n`;
 describe("report --out never loses a file of the user's", () => {
   it("report --out . in a study folder that holds the user's results.json removes nothing, with or without --force", () => {
     const dir = bakery({ "results.json": '{"my": "own results"}\n' });
-    const before = files(dir);
+    const before = folderSnapshot(dir);
     const r = run(["report", "study.yaml", "--out", ".", "--quiet"], dir);
     expect(r.status).toBe(1);
     expect(r.stderr).toBe(err(msg.outHoldsInput(".", "study.yaml", "manifest")));
     expect(run(["report", "study.yaml", "--out", ".", "--force", "--quiet"], dir).status).toBe(1);
-    expect(files(dir)).toEqual(before);
+    expect(folderSnapshot(dir)).toEqual(before);
   });
 
   it("report --force into a parent of the study, or a link to the study's folder, is refused and removes nothing", () => {
     const top = tempFolder({ "study/study.yaml": MANIFEST, "study/runs/day-1.csv": RUN, "todo.txt": "call the bakery\n" });
-    const before = files(top);
+    const before = folderSnapshot(top);
     const parent = run(["report", "study/study.yaml", "--out", ".", "--force", "--quiet"], top);
     expect(parent.stderr).toBe(err(msg.outHoldsInput(".", "study/study.yaml", "manifest")));
     symlinkSync(join(top, "study"), join(top, "shortcut"));
     const link = run(["report", "study/study.yaml", "--out", "shortcut", "--force", "--quiet"], top);
     expect(link.status).toBe(1);
     expect(link.stderr).toBe(err(msg.outHoldsInput("shortcut", "study.yaml", "manifest")));
-    expect(files(join(top, "study"))).toEqual(Object.fromEntries(Object.entries(before).filter(([k]) => k.startsWith("study/")).map(([k, v]) => [k.slice(6), v])));
+    expect(folderSnapshot(join(top, "study"))).toEqual(Object.fromEntries(Object.entries(before).filter(([k]) => k.startsWith("study/")).map(([k, v]) => [k.slice(6), v])));
     expect(readFileSync(join(top, "todo.txt"), "utf8")).toBe("call the bakery\n");
   });
 
@@ -91,13 +78,13 @@ describe("report --out never loses a file of the user's", () => {
     expect(run(["report", "study.yaml", "--out", "report", "--quiet"], dir).status).toBe(0);
     expect(run(["report", "study.yaml", "--out", "report", "--quiet"], dir).status).toBe(0); // its own folder: replaced without --force
     writeFileSync(join(dir, "report", "tables", "notes.md"), "check day 1\n");
-    const before = files(join(dir, "report"));
+    const before = folderSnapshot(join(dir, "report"));
     const r = run(["report", "study.yaml", "--out", "report", "--quiet"], dir);
     expect(r.stderr).toBe(err(msg.outHoldsForeign("report", "tables/notes.md", "not-listed")));
-    expect(files(join(dir, "report"))).toEqual(before);
+    expect(folderSnapshot(join(dir, "report"))).toEqual(before);
     expect(run(["report", "study.yaml", "--out", "report", "--force", "--quiet"], dir).status).toBe(0);
     expect(existsSync(join(dir, "report", "tables", "notes.md"))).toBe(false);
-    expect(files(dir)["study.yaml"]).toBe(MANIFEST);
+    expect(folderSnapshot(dir)["study.yaml"]).toBe(MANIFEST);
   });
 
   it("report into an earlier report whose measure was removed replaces it without --force (the old table was Sojourn's)", () => {

@@ -1,6 +1,6 @@
-import { mkdirSync, mkdtempSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
-import { dirname, join } from "node:path";
+import { dirname, join, relative } from "node:path";
 import { gzipSync } from "node:zlib";
 
 /** Writes files (text, or Buffer for gzip) into a fresh temp folder; returns the folder. */
@@ -25,3 +25,17 @@ export function jsonl(rows: [number, string, (number | null)?, (string | null)?]
 }
 
 export const gz = (text: string): Buffer => gzipSync(Buffer.from(text));
+
+/** Every file below `dir`, by its path relative to `dir`, with its bytes as latin1 text (one character a byte). */
+export function folderSnapshot(dir: string): Record<string, string> {
+  const out: Record<string, string> = {};
+  const walk = (at: string) => {
+    for (const name of readdirSync(at).sort()) {
+      const p = join(at, name);
+      if (statSync(p).isDirectory()) walk(p);
+      else out[relative(dir, p)] = readFileSync(p, "latin1");
+    }
+  };
+  walk(dir);
+  return out;
+}

@@ -5,9 +5,9 @@
  * a small tmpfs (root on Linux), from a real full or read-only disk. The study is invented.
  */
 import { execFileSync } from "node:child_process";
-import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
-import { dirname, join, relative } from "node:path";
+import { dirname, join } from "node:path";
 import { afterAll, afterEach, describe, expect, it } from "vitest";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { UserError } from "../../src/messages/index.js";
@@ -15,6 +15,7 @@ import * as msg from "../../src/messages/output.js";
 import { faultyFs, nodeFs, type OutputFs, systemError } from "../../src/record/fileSystem.js";
 import { publishStudy } from "../../src/record/publish.js";
 import { stagePrefix } from "../../src/record/outputDir.js";
+import { folderSnapshot } from "../helpers/tempStudy.js";
 
 const folders: string[] = [];
 afterEach(() => {
@@ -40,19 +41,6 @@ async function publish(dir: string, out: string, fs?: OutputFs, manifest = "stud
   return publishStudy(study, { out, force: false, pdf: false, paper: "A4", workers: 1, generatedAt: "2026-01-01T00:00:00.000Z", fs });
 }
 
-/** Every file below `dir` with its bytes (relative path -> content). */
-function snapshot(dir: string): Record<string, string> {
-  const out: Record<string, string> = {};
-  const walk = (at: string) => {
-    for (const name of readdirSync(at).sort()) {
-      const p = join(at, name);
-      if (statSync(p).isDirectory()) walk(p);
-      else out[relative(dir, p)] = readFileSync(p, "latin1");
-    }
-  };
-  walk(dir);
-  return out;
-}
 
 async function failure(promise: Promise<unknown>): Promise<UserError> {
   const e = await promise.then(
@@ -71,11 +59,11 @@ describe("publishStudy when the disk fails", () => {
     const dir = bakery(20);
     const out = join(dir, "report");
     await publish(dir, out);
-    const before = snapshot(out);
+    const before = folderSnapshot(out);
     const e = await failure(publish(dir, out, faultyFs(nodeFs, "ENOSPC", "write", "tables/")));
     expect(e.message).toBe(msg.reportDiskFull(out, "tables/morning/runs/day-1/queue.csv", "ENOSPC", true).message);
     expect(e.message).toContain("The earlier report in the folder is intact.");
-    expect(snapshot(out)).toEqual(before);
+    expect(folderSnapshot(out)).toEqual(before);
     expect(leftovers(out)).toEqual([]);
   });
 
@@ -100,17 +88,17 @@ describe("publishStudy when the disk fails", () => {
     const dir = bakery(5);
     const out = join(dir, "report");
     await publish(dir, out);
-    const before = snapshot(out);
+    const before = folderSnapshot(out);
     const e = await failure(publish(dir, out, faultyFs(nodeFs, "ENAMETOOLONG", "write", "sold.csv")));
     expect(e.message).toBe(msg.reportFileNameTooLong(out, "tables/morning/runs/day-1/sold.csv", Buffer.byteLength(join(out, "tables/morning/runs/day-1/sold.csv"))).message);
-    expect(snapshot(out)).toEqual(before);
+    expect(folderSnapshot(out)).toEqual(before);
   });
 
   it("publishStudy whose second rename fails puts the earlier folder back (the commit is all or nothing)", async () => {
     const dir = bakery(5);
     const out = join(dir, "report");
     await publish(dir, out);
-    const before = snapshot(out);
+    const before = folderSnapshot(out);
     let renames = 0;
     const fs: OutputFs = {
       ...nodeFs,
@@ -122,7 +110,7 @@ describe("publishStudy when the disk fails", () => {
     };
     const e = await failure(publish(dir, out, fs));
     expect(e.message).toBe(msg.cannotWrite(out, `${msg.writeReason("EIO")}, EIO`).message);
-    expect(snapshot(out)).toEqual(before);
+    expect(folderSnapshot(out)).toEqual(before);
     expect(leftovers(out)).toEqual([]);
   });
 
@@ -157,11 +145,11 @@ describe.skipIf(!mounted)("publishStudy on a real small disk (a 1 MB tmpfs)", ()
     const big = bakery(40_000); // its tables, 40,000 rows each in full (max_rows), do not fit in 1 MB
     const out = join(mountPoint, "report");
     await publish(small, out);
-    const before = snapshot(out);
+    const before = folderSnapshot(out);
     const free = Number(execFileSync("df", ["--output=avail", "-B1", mountPoint], { encoding: "utf8" }).split("\n")[1]);
     const e = await failure(publish(big, out));
     expect(e.message).toMatch(/: the disk is full \(ENOSPC\): Sojourn could not write tables\/.+ The earlier report in the folder is intact\./);
-    expect(snapshot(out)).toEqual(before);
+    expect(folderSnapshot(out)).toEqual(before);
     expect(readdirSync(mountPoint)).toEqual(["report"]);
     expect(Number(execFileSync("df", ["--output=avail", "-B1", mountPoint], { encoding: "utf8" }).split("\n")[1])).toBe(free);
   });
