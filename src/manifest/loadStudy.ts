@@ -9,9 +9,10 @@
  * Every problem stops at the first one found, as a `UserError` naming the file, line, column and
  * key path.
  */
-import { readFile, stat } from "node:fs/promises";
+import { stat } from "node:fs/promises";
 import { basename, dirname, extname, resolve } from "node:path";
 import { notFileKind } from "../ingest/runFile.js";
+import { fileBytes } from "../regularFile.js";
 import { UserError } from "../messages/error.js";
 import { manifestMessages } from "../messages/index.js";
 import { buildStudy } from "./buildStudy.js";
@@ -55,7 +56,8 @@ async function readManifest(path: string): Promise<string> {
     const kind = notFileKind(info);
     if (kind !== null) throw manifestMessages.manifestNotAFile(path, kind);
     if (info.size > MAX_MANIFEST_BYTES) throw manifestMessages.manifestFileTooLarge(path, info.size, MAX_MANIFEST_BYTES);
-    bytes = await readFile(path);
+    // Opened without waiting and checked again on the open file, in case the path changed meanwhile.
+    bytes = await fileBytes(path);
     if (bytes.length > MAX_MANIFEST_BYTES) throw manifestMessages.manifestFileTooLarge(path, bytes.length, MAX_MANIFEST_BYTES);
   } catch (error) {
     if (error instanceof UserError) throw error;
