@@ -1,6 +1,8 @@
-import { bonferroniLevel, pairedInterval, welchInterval } from "../stats/compare.js";
+import { bonferroniLevel, type DifferenceInterval, pairedInterval, welchInterval } from "../stats/compare.js";
 import type { Study } from "../manifest/types.js";
 import type { Results, RunResult } from "./outcome.js";
+import { runBatchMeans } from "./summaries.js";
+import * as batchMessages from "../messages/batchMeans.js";
 
 function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
   const out = new Map<string, number>();
@@ -26,9 +28,14 @@ export function compareScenarios(study: Study, results: Results): Record<string,
     const runsB = results.scenarios.find((s) => s.name === c.b)!.runs;
     const a = valuesOf(runsA, c.measure);
     const b = valuesOf(runsB, c.measure);
+    const scA = study.scenarios.find((s) => s.name === c.a)!;
+    const scB = study.scenarios.find((s) => s.name === c.b)!;
+    const long = batchMeansBasis(c, runsA, runsB, scA.analysis.type === "batch-means", scB.analysis.type === "batch-means");
     let iv;
     let pairs: string[] | undefined;
-    if (c.method === "paired") {
+    if (long?.values !== undefined) {
+      iv = c.method === "paired" ? refusedPair(long.values.a, long.values.b, each) : welchInterval(long.values.a, long.values.b, each);
+    } else if (c.method === "paired") {
       pairs = [...a.keys()].filter((id) => b.has(id));
       iv = pairedInterval(pairs.map((id) => a.get(id)!), pairs.map((id) => b.get(id)!), each);
     } else {
@@ -57,7 +64,46 @@ export function compareScenarios(study: Study, results: Results): Record<string,
       mean_a: iv.mean_a,
       mean_b: iv.mean_b,
       ...(pairs !== undefined ? { pairs: pairs.length } : {}),
+      ...(long?.fields ?? {}),
       verdict,
     };
   });
+}
+
+/**
+ * What a comparison that involves a scenario with batch means compares (null when neither side
+ * has them, so those entries do not change). Both sides a single long run with batch means: the
+ * two sets of batch means (`values`), Welch on them, with `basis`, `values` (in words), `assumes`
+ * and the lag-1 checks. Otherwise the run values, as without batch means, and `basis` says so.
+ */
+function batchMeansBasis(
+  c: Study["comparisons"][number],
+  runsA: RunResult[],
+  runsB: RunResult[],
+  batchA: boolean,
+  batchB: boolean,
+): { values?: { a: number[]; b: number[] }; fields: Record<string, unknown> } | null {
+  if (!batchA && !batchB) return null;
+  const bmA = batchA && runsA.length === 1 ? runBatchMeans(runsA[0], c.measure) : null;
+  const bmB = batchB && runsB.length === 1 ? runBatchMeans(runsB[0], c.measure) : null;
+  if (bmA !== null && bmB !== null) {
+    return {
+      values: { a: bmA.batch_values, b: bmB.batch_values },
+      fields: {
+        basis: "batch-means",
+        values: batchMessages.comparedBatches(c.a, runsA[0].id, bmA.batches, c.b, runsB[0].id, bmB.batches),
+        assumes: batchMessages.welchOnBatchesAssumes,
+        lag1_a: bmA.lag1,
+        lag1_b: bmB.lag1,
+      },
+    };
+  }
+  const single = bmA !== null ? c.a : bmB !== null ? c.b : null;
+  return { fields: { basis: "across-runs", values: single === null ? batchMessages.comparedRuns : batchMessages.mixedBasis(single) } };
+}
+
+/** A paired comparison of two single long runs: no interval, and the note says why (docs/statistics.md). */
+function refusedPair(a: number[], b: number[], confidence: number): DifferenceInterval {
+  const w = welchInterval(a, b, confidence);
+  return { ...w, sd_diff: null, standard_error: null, df: null, t: null, half_width: null, ci_low: null, ci_high: null, note: batchMessages.pairedLongRuns };
 }

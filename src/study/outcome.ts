@@ -58,7 +58,45 @@ export interface RunResult {
 
 /** Across-run summary of one figure. Interval fields are null with fewer than two runs. */
 export interface Summary extends IntervalSummary {
+  /**
+   * Which interval the report shows for this row (only on the primary figure of a scenario with
+   * `analysis: batch-means`; absent means "across-runs"): the contract's fields above, or
+   * `batch_means` below. See docs/statistics.md, "Batch means inside long runs".
+   */
+  interval_method?: IntervalMethod;
+  /** The batch-means interval of the scenario's single long run, when `interval_method` is "batch-means". */
+  batch_means?: BatchMeansSummary;
+  /** Why the row's interval is the one `interval_method` names (with batch means only). */
+  interval_note?: string;
   [extra: string]: unknown;
+}
+
+/** "across-runs": the contract's summary fields (one value per run); "batch-means": one long run's batch means. */
+export type IntervalMethod = "across-runs" | "batch-means";
+
+/**
+ * The interval of a single long run from its k batch means (t with k − 1 degrees of freedom):
+ * the same numbers as the run's `batch_means` figures, under the scenario's summary.
+ */
+export interface BatchMeansSummary {
+  method: "batch-means";
+  /** The id of the run the batches come from. */
+  run: string;
+  /** k, the number of batch means. */
+  batches: number;
+  /** k − 1. */
+  df: number | null;
+  /** Grand mean of the batch means. */
+  mean: number | null;
+  /** Sample standard deviation of the batch means (k − 1 divisor). */
+  sd: number | null;
+  /** t(1 − α/2, k − 1). */
+  t: number | null;
+  half_width: number | null;
+  ci_low: number | null;
+  ci_high: number | null;
+  /** Lag-1 autocorrelation of the batch means (the independence check). */
+  lag1: number | null;
 }
 
 export interface ScenarioResult {

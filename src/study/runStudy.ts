@@ -8,7 +8,7 @@ import { compareScenarios } from "./compare.js";
 import { type Check, runChecks } from "./consistency.js";
 import type { InputRecord, LevelTrace, Results, RunResult, ScenarioResult, StudyOutcome, TableRecord, Warning } from "./outcome.js";
 import { EvenSample, thinned } from "./sample.js";
-import { summarizeMeasure } from "./summaries.js";
+import { intervalChoice, summarizeMeasure } from "./summaries.js";
 import { intervalTable, intervalTablePath, PREVIEW_RUNS, tableFile } from "./tables.js";
 import { type ResolvedWarmup, resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
@@ -187,7 +187,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     }
     for (const m of scenario.measures) {
       const s = summarizeMeasure(scenario.name, m, sc.runs, study.confidence);
-      sc.summary[m.name] = s.summary;
+      sc.summary[m.name] = { ...s.summary, ...intervalChoice(m, sc.runs, s.summary, scenario.analysis) };
       const without = s.summary.runs_without_value as string[] | undefined;
       if (without !== undefined) {
         outcome.warnings.push({ scenario: scenario.name, run: null, measure: m.name, message: runsWithoutValue(without, s.summary.n, sc.runs.length) });

@@ -1,9 +1,10 @@
 import { intervalArithmetic } from "../stats/interval.js";
 import { runsNeeded } from "../stats/runsNeeded.js";
-import type { Measure } from "../manifest/types.js";
-import type { IntervalArithmetic, RunResult, Summary } from "./outcome.js";
+import type { Analysis, Measure } from "../manifest/types.js";
+import type { BatchMeansSummary, IntervalArithmetic, IntervalMethod, RunResult, Summary } from "./outcome.js";
 import { nonFinitePath } from "./finite.js";
 import * as studyMessages from "../messages/study.js";
+import * as batchMessages from "../messages/batchMeans.js";
 
 /** The contract's summary fields taken from the interval arithmetic. */
 export function summaryOf(a: Omit<IntervalArithmetic, "scenario" | "measure" | "figure">): Summary {
@@ -82,4 +83,63 @@ export function summarizeMeasure(
     summary.target_half_width = need.halfWidth;
   }
   return { summary, intervals };
+}
+
+/** The `batch_means` figures of one run measure, as `runStudy` writes them. */
+interface RunBatchMeans {
+  batches: number;
+  mean: number | null;
+  sd: number | null;
+  df: number | null;
+  t: number | null;
+  half_width: number | null;
+  ci_low: number | null;
+  ci_high: number | null;
+  lag1: number | null;
+  batch_values: number[];
+}
+
+/** A run measure's batch means, or null when the run has none for it. */
+export function runBatchMeans(run: RunResult, measure: string): RunBatchMeans | null {
+  const bm = (run.measures[measure] as Record<string, unknown> | undefined)?.batch_means;
+  return bm !== null && typeof bm === "object" ? (bm as RunBatchMeans) : null;
+}
+
+/**
+ * Which interval a summary row shows under `analysis: batch-means` (issue 13), as fields to add
+ * to the primary figure's summary; nothing under replications, so those results do not change.
+ *
+ * - One run with batch means: `interval_method: "batch-means"` and `batch_means` holds the t
+ *   interval of its k batch means with k − 1 degrees of freedom (Law 2015, §9.5.3). The
+ *   contract's fields stay across the runs (n = 1, interval null).
+ * - Several runs: `interval_method: "across-runs"`. The run values of independent replications,
+ *   each after the warm-up, are independent by construction, so the interval across them needs
+ *   no assumption about the batches; this is the replication/deletion approach (Law 2015, §9.5.2,
+ *   from memory; Alexopoulos and Goldsman 2004 compare it with batching inside replications,
+ *   from memory). Each run's batch-means interval stays in its figures as a check.
+ * - One run without batch means for the measure (a count, or fewer observations than batches):
+ *   `interval_method: "across-runs"` (no interval) and the note says why.
+ */
+export function intervalChoice(measure: Measure, runs: RunResult[], summary: Summary, analysis: Analysis): Partial<Summary> {
+  if (analysis.type !== "batch-means") return {};
+  if (runs.length !== 1) return { interval_method: "across-runs", interval_note: batchMessages.severalRuns(runs.length) };
+  const run = runs[0];
+  if (summary.n === 0) return { interval_method: "across-runs", interval_note: batchMessages.noRunValue([run.id]) };
+  const bm = runBatchMeans(run, measure.name);
+  if (bm === null) return { interval_method: "across-runs", interval_note: batchMessages.noBatchMeans(run.id, measure.kind) };
+  const batchMeans: BatchMeansSummary = {
+    method: "batch-means",
+    run: run.id,
+    batches: bm.batches,
+    df: bm.df,
+    mean: bm.mean,
+    sd: bm.sd,
+    t: bm.t,
+    half_width: bm.half_width,
+    ci_low: bm.ci_low,
+    ci_high: bm.ci_high,
+    lag1: bm.lag1,
+  };
+  const method: IntervalMethod = "batch-means";
+  return { interval_method: method, batch_means: batchMeans, interval_note: batchMessages.fromBatchMeans(run.id, bm.batches) };
 }
