@@ -56,6 +56,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
 
   // Study-wide settings.
   const confidence = spec.confidence ?? DEFAULT_CONFIDENCE;
+  const timeUnit = spec.time_unit ?? DEFAULT_TIME_UNIT;
   if (!(confidence > 0 && confidence < 1)) throw manifestMessages.confidenceOutOfRange(place(["confidence"]), confidence);
   checkAnalysis(spec.analysis, ["analysis"]);
   const tables = toTables(spec.tables);
@@ -71,6 +72,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
       if (measure.series === undefined && measure.from === undefined) throw manifestMessages.noSource(place(path), measure.name, measure.kind, fromForm);
     }
     checkOptionValues(measure, measure.name, path);
+    for (const key of ["label", "unit"] as const) checkShownText(measure[key], [...path, key]);
     for (const [scenario, options] of Object.entries(measure.scenarios ?? {})) {
       const optionsPath: KeyPath = [...path, "scenarios", scenario];
       if (!scenarioSet.has(scenario)) {
@@ -89,7 +91,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     manifestPath: context.manifestPath,
     manifestText: context.manifestText,
     title: spec.title ?? context.defaultTitle,
-    timeUnit: spec.time_unit ?? DEFAULT_TIME_UNIT,
+    timeUnit,
     confidence,
     warmup,
     scenarios,
@@ -122,6 +124,18 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
       if (first !== undefined) throw manifestMessages.duplicateName(place([key, i, "name"]), what, name, source.lineOf([key, first]));
       firstAt.set(name, i);
     });
+  }
+
+  /** A text shown to the reader (`label`, `unit`): not only spaces, no control character (the schema checks its length). */
+  function checkShownText(text: string | undefined, path: KeyPath): void {
+    if (text === undefined) return;
+    let position = 0;
+    for (const ch of text) {
+      position++;
+      const code = ch.codePointAt(0) as number;
+      if (isControl(code)) throw manifestMessages.controlCharacter(place(path), code, position);
+    }
+    if (text.trim() === "") throw manifestMessages.blankText(place(path));
   }
 
   function checkAnalysis(analysis: AnalysisSpec | undefined, path: KeyPath): void {
@@ -194,7 +208,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
       }
     }
 
-    const measures = spec.measures.map((m) => toMeasure(m, own(m.scenarios, name), own(scenario.measures, m.name)));
+    const measures = spec.measures.map((m) => toMeasure(m, own(m.scenarios, name), own(scenario.measures, m.name), timeUnit));
     for (const measure of measures) {
       if (measure.kind !== "level" && measure.kind !== "utilization") continue;
       const open = runs.find((run) => run.end === null);
@@ -260,7 +274,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
  * A measure for one scenario: the definition's options, then the measure's `scenarios:` entry,
  * then the scenario's `measures:` entry; a later source wins key by key.
  */
-function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fromScenario: OverrideSpec | undefined): Measure {
+function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fromScenario: OverrideSpec | undefined, timeUnit: string): Measure {
   const options: OverrideSpec = {};
   for (const layer of [spec, fromMeasure ?? {}, fromScenario ?? {}]) {
     for (const key of OVERRIDABLE_KEYS) {
@@ -269,6 +283,8 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
   }
   const target = toTarget(options.target);
   const name = spec.name;
+  const label = spec.label ?? name;
+  const unit = spec.unit ?? defaultUnit(spec, timeUnit);
   // The schema and the checks above guarantee the source keys each kind needs.
   const series = spec.series as string;
   const from = spec.from as Required<NonNullable<MeasureSpec["from"]>>;
@@ -278,6 +294,8 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
         kind: "level",
         name,
         target,
+        label,
+        unit,
         source: spec.series !== undefined ? { type: "series", series } : { type: "entities", enter: from.enter, leave: from.leave },
         initial: options.initial ?? 0,
         atLeast: options.at_least ?? [],
@@ -287,6 +305,8 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
         kind: "utilization",
         name,
         target,
+        label,
+        unit,
         series,
         initial: options.initial ?? 0,
         capacity: typeof options.capacity === "string" ? { type: "series", series: options.capacity, initial: options.capacity_initial ?? 0 } : { type: "constant", value: options.capacity as number },
@@ -297,13 +317,39 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
         kind: "observation",
         name,
         target,
+        label,
+        unit,
         source: spec.series !== undefined ? { type: "series", series } : { type: "entities", start: from.start, end: from.end },
         quantiles: options.quantiles ?? [...DEFAULT_QUANTILES],
         within: options.within ?? [],
       };
     case "count":
-      return { kind: "count", name, target, series };
+      return { kind: "count", name, target, label, unit, series };
   }
+}
+
+/** The unit of a measure that gives none (docs/manifest.md, "label and unit"). */
+export const UTILIZATION_UNIT = "fraction";
+
+/**
+ * A measure's unit when the manifest gives none: an observation `from: {start, end}` is a
+ * duration, in the study's time unit; a utilization is a fraction of the capacity; a level, a
+ * count and an observation of a series' values have no unit Sojourn could know (null).
+ */
+function defaultUnit(spec: MeasureSpec, timeUnit: string): string | null {
+  if (spec.kind === "observation" && spec.from !== undefined) return timeUnit;
+  if (spec.kind === "utilization") return UTILIZATION_UNIT;
+  return null;
+}
+
+/**
+ * Control characters a shown text must not hold: C0 (U+0000–U+001F, tab and line breaks too),
+ * DEL and C1 (U+007F–U+009F), the line and paragraph separators (U+2028, U+2029) and the
+ * bidirectional embeddings, overrides and isolates (U+202A–U+202E, U+2066–U+2069), which
+ * reorder the text around them.
+ */
+function isControl(code: number): boolean {
+  return code <= 0x1f || (code >= 0x7f && code <= 0x9f) || code === 0x2028 || code === 0x2029 || (code >= 0x202a && code <= 0x202e) || (code >= 0x2066 && code <= 0x2069);
 }
 
 function toTarget(target: TargetSpec | undefined): Target | null {

@@ -119,6 +119,9 @@ function toMessage(error: ErrorObject, source: ManifestSource) {
       const key = String(params.additionalProperty);
       const place = placeOf(error, source);
       const allowed = Object.keys(parent.properties ?? {});
+      if (parent.title === "a measure override" && (key === "label" || key === "unit")) {
+        return manifestMessages.shownTheSameEverywhere(place, key);
+      }
       if (parent.title === "a measure override" && key !== "__proto__" && MEASURE_KEYS.has(key)) {
         return manifestMessages.notOverridable(place, key, OVERRIDABLE_KEYS);
       }
@@ -159,6 +162,8 @@ function toMessage(error: ErrorObject, source: ManifestSource) {
     }
     case "minLength":
       return manifestMessages.emptyText(source.place(path));
+    case "maxLength":
+      return manifestMessages.textTooLong(source.place(path), [...String(error.data)].length, Number(params.limit));
     case "minProperties":
     case "maxProperties": {
       const count = error.data !== null && typeof error.data === "object" ? Object.keys(error.data).length : 0;
@@ -170,7 +175,7 @@ function toMessage(error: ErrorObject, source: ManifestSource) {
 }
 
 /** The keys a measure definition may have, to tell "not overridable" from "unknown". */
-const MEASURE_KEYS = new Set(["name", "kind", "series", "from", "scenarios"]);
+const MEASURE_KEYS = new Set(["name", "kind", "series", "from", "scenarios", "label", "unit"]);
 
 interface SchemaNode {
   title?: string;

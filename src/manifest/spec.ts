@@ -91,6 +91,10 @@ export interface MeasureSpec extends OverrideSpec {
   scenarios?: Record<string, OverrideSpec>;
   /** The measure's series may appear in none of a scenario's runs (a rare event). */
   may_be_absent?: boolean;
+  /** The name the report shows (free text); the same in every scenario. */
+  label?: string;
+  /** The unit of the measure's values (free text); the same in every scenario. */
+  unit?: string;
 }
 
 export interface ComparisonSpec {

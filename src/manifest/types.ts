@@ -58,6 +58,15 @@ export type Target = { type: "half_width"; value: number } | { type: "relative";
 interface MeasureBase {
   name: string;
   target: Target | null;
+  /** What the report shows instead of `name`: the manifest's `label`, else the name itself. */
+  label: string;
+  /**
+   * The unit of the measure's primary value and its spread (free text), the same in every
+   * scenario: the manifest's `unit`, else the default of docs/manifest.md (an observation
+   * `from: {start, end}` is a duration in the study's time unit; a utilization is a "fraction";
+   * any other measure has none, null). A count's rate is this unit per time unit.
+   */
+  unit: string | null;
 }
 
 export interface LevelMeasure extends MeasureBase, LevelExtras {

@@ -371,3 +371,32 @@ function roundUp(x: number): number {
   const up = Number((Math.ceil(x / step - 1e-9) * step).toPrecision(3));
   return up >= x ? up : Number((up + step).toPrecision(3));
 }
+
+/** A text longer than the schema allows (`label`, `unit`). */
+export function textTooLong(place: Place, length: number, limit: number): UserError {
+  return located(place, `this text has ${length} characters, more than the ${limit} allowed`, `Write a shorter text (at most ${limit} characters); a long explanation belongs in the study's README, not in a caption.`);
+}
+
+/** A text of only spaces where something is shown to the reader (`label`, `unit`). */
+export function blankText(place: Place): UserError {
+  return located(place, "this text holds only spaces", "Write the text to show, or leave the key out.");
+}
+
+/** A control character inside a text shown to the reader (`label`, `unit`). */
+export function controlCharacter(place: Place, codePoint: number, position: number): UserError {
+  const code = `U+${codePoint.toString(16).toUpperCase().padStart(4, "0")}`;
+  return located(
+    place,
+    `this text holds the control character ${code} at character ${position}`,
+    "Remove it: a label or unit is shown on one line of the report, and tabs, line breaks and direction controls would change how it reads. Write plain text.",
+  );
+}
+
+/** A scenario override gives a measure's `label` or `unit`, which are the same in every scenario. */
+export function shownTheSameEverywhere(place: Place, key: "label" | "unit"): UserError {
+  return located(
+    place,
+    `the key ${quote(key)} cannot be overridden per scenario`,
+    `A measure's ${key} is the same in every scenario, so that its figures side by side and its comparisons are of one quantity. Give ${key} in the measure's definition under measures:.`,
+  );
+}

@@ -138,6 +138,9 @@ const M_EDGE = manifest(QUEUE, undefined, "tables: {max_rows: 1000, edge_rows: 5
 const M_SLICES = manifest(QUEUE, "{name: morning, end: 600, runs: runs/*.csv}", "warmup: {method: mser-5, measure: queue, slice: 0.001}\n");
 const M_QUANTILES = manifest(`  - {name: wait, kind: observation, series: wait, quantiles: [${Array.from({ length: 101 }, (_, i) => i / 100).join(", ")}]}\n`);
 const M_BATCHES = manifest(QUEUE, undefined, "analysis: {method: batch-means, batches: 50000}\n");
+const M_LABEL_LONG = manifest(`  - {name: queue, kind: level, series: queue, label: ${"Bread queue".repeat(20)}}\n`);
+const M_LABEL_CONTROL = manifest('  - {name: queue, kind: level, series: queue, label: "Bread\\tqueue"}\n');
+const M_UNIT_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queue: {unit: loaves}}}");
 
 function gzipCut(text: string): Buffer {
   const z = gzipSync(Buffer.from(text));
@@ -1054,6 +1057,36 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     startsWith: () => `study.yaml:${positionOf(M_BATCHES, "50000").line}:${positionOf(M_BATCHES, "50000").column} (at analysis.batches): 50000 is out of range: it must be at most 10000`,
+  },
+  {
+    id: "label-too-long",
+    title: "A label or unit longer than 200 characters",
+    what: "A measure's `label` and `unit` are captions: at most 200 characters each.",
+    files: { [STUDY]: M_LABEL_LONG, "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.textTooLong(at(M_LABEL_LONG, "Bread queue", "measures[0].label"), 220, 200),
+  },
+  {
+    id: "label-control-character",
+    title: "A control character in a label or unit",
+    what: "Tabs, line breaks and other control characters (direction overrides too) are refused in a `label` or `unit`: they would change how the caption reads.",
+    files: { [STUDY]: M_LABEL_CONTROL, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.controlCharacter(at(M_LABEL_CONTROL, '"Bread', "measures[0].label"), 0x09, 6),
+  },
+  {
+    id: "unit-per-scenario",
+    title: "A label or unit given per scenario",
+    what: "A measure is one quantity in every scenario, so its `label` and `unit` go in its definition, not in a scenario's overrides.",
+    files: { [STUDY]: M_UNIT_OVERRIDE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.shownTheSameEverywhere(at(M_UNIT_OVERRIDE, "unit: loaves", "scenarios[0].measures.queue.unit"), "unit"),
   },
   {
     id: "edge-rows-too-many",

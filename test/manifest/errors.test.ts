@@ -127,7 +127,7 @@ describe("loadStudy: structure", () => {
   test("loadStudy on a key of another measure kind lists that kind's keys", async () => {
     const text = `${SCENARIOS}measures:\n  - {name: lane_queue, kind: level, series: queue, quantiles: [0.5]}\n`;
     const { error, file } = await failure(text);
-    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent"];
+    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent", "label", "unit"];
     expect(error.message).toBe(m.unknownKey(at(file, text, "quantiles", "measures[0].quantiles"), "quantiles", "a level measure", levelKeys, null).message); // brief: level accepts at_least, not quantiles
   });
 
@@ -190,7 +190,7 @@ describe("loadStudy: structure", () => {
   test("loadStudy locates problems in a JSON manifest by line and column too", async () => {
     const text = '{\n  "scenarios": [{"name": "s", "end": 10, "runs": "runs/two/*.csv"}],\n  "measures": [{"name": "q", "kind": "level", "seris": "queue"}]\n}\n';
     const { error, file } = await failure(text, "study.json");
-    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent"];
+    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent", "label", "unit"];
     expect(error.message).toBe(m.unknownKey(at(file, text, '"seris"', "measures[0].seris"), "seris", "a level measure", levelKeys, "series").message); // CONTRACT.md section 6: YAML or JSON
   });
 });
