@@ -12,7 +12,7 @@
  * scenario's measures, window, warm-up, columns and table limits) and a digest of itself.
  */
 import { sha256 } from "../digest.js";
-import type { Study } from "../manifest/types.js";
+import type { Measure, Study } from "../manifest/types.js";
 import { fileDigest } from "../regularFile.js";
 import { checkShape, type Shape, shapeText } from "../shape.js";
 import * as msg from "../messages/summary.js";
@@ -132,16 +132,21 @@ export function scenarioPlans(study: Study, scenario: Study["scenarios"][number]
 export function planDigest(plan: RunPlan): string {
   const { scenario, run } = plan;
   const what = {
-    scenario: { name: scenario.name, measures: scenario.measures, warmup: scenario.warmup, analysis: scenario.analysis, columns: scenario.columns },
+    scenario: { name: scenario.name, measures: computed(scenario.measures), warmup: scenario.warmup, analysis: scenario.analysis, columns: scenario.columns },
     run: { id: run.id, file: run.file, start: run.start, end: run.end },
     warmup: plan.warmup,
-    measures: plan.measures,
+    measures: computed(plan.measures),
     tables: plan.tables,
     trace: plan.trace,
     batches: plan.batches,
     slice: plan.slice,
   };
   return sha256(JSON.stringify(what));
+}
+
+/** A measure without what only the report shows (`label`, `unit`): changing a caption keeps the summaries. */
+function computed(measures: readonly Measure[]): Record<string, unknown>[] {
+  return measures.map(({ label: _label, unit: _unit, ...rest }) => rest);
 }
 
 function replacer(_key: string, value: unknown): unknown {

@@ -7,6 +7,7 @@ import { readFileSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterEach, describe, expect, test } from "vitest";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
+import { planDigest, scenarioPlans } from "../../src/study/runSummary.js";
 import { manifestMessages as m, type Place } from "../../src/messages/index.js";
 import { RUN_FILES, pos, removeFolder, studyFolder, userError } from "./helpers.js";
 
@@ -128,5 +129,16 @@ describe("label and unit: bad values get a message at the key path", () => {
     const file = write(text);
     const error = await userError(loadStudy(file));
     expect(error.message).toBe(m.shownTheSameEverywhere({ file, ...pos(text, "unit: cars"), path: "measures[0].scenarios.two.unit" }, "unit").message);
+  });
+});
+
+describe("label and unit change no computation", () => {
+  test("planDigest (what a run summary is checked against) is the same with another label and unit", async () => {
+    const plain = await loadStudy(write(manifest("{name: q, kind: level, series: queue}")));
+    const captioned = await loadStudy(write(manifest("{name: q, kind: level, series: queue, label: Queue length, unit: vehicles}")));
+    const other = await loadStudy(write(manifest("{name: q, kind: level, series: queue, initial: 1}")));
+    const digest = (s: typeof plain) => planDigest(scenarioPlans(s, s.scenarios[0], null)[0]);
+    expect(digest(captioned)).toBe(digest(plain));
+    expect(digest(other)).not.toBe(digest(plain)); // the digest does see options that change figures
   });
 });
