@@ -2,7 +2,8 @@ import { bonferroniLevel, pairedInterval, welchInterval } from "../stats/compare
 import type { Study } from "../manifest/types.js";
 import type { Results, RunResult } from "./outcome.js";
 
-function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
+/** Each run's primary value of a measure, by run id, in run order (runs without a value left out). */
+export function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
   const out = new Map<string, number>();
   for (const r of runs) {
     const v = r.measures[measure]?.value;
