@@ -9,17 +9,20 @@ import { meanCorrectionMatters, safeName, type TableFile } from "./tables.js";
 
 /**
  * The arithmetic of every comparison between scenarios, and its calculation table under
- * `tables/comparisons/`. The values are the ones `compareScenarios` compares (each run's primary
+ * `tables/<a>/comparisons/`. The values are the ones `compareScenarios` compares (each run's primary
  * value; paired: runs matched by run id), so the tables end with results.json's numbers.
  */
 
 /**
- * `tables/comparisons/<measure>/<n>-<a>-vs-<b>.csv`, n the comparison's 1-based position in
- * results.json's `comparisons`: the position alone makes the name injective; the names (written
- * as `safeName` writes them) are there for the reader. Each part stays below 255 bytes.
+ * `tables/<a>/comparisons/<n>-<measure>-vs-<b>.csv`, under the folder of the comparison's first
+ * scenario beside its `runs/` and `intervals/`, n the comparison's 1-based position in
+ * results.json's `comparisons`. The position alone makes the name injective; the names (written
+ * as `safeName` writes them) are there for the reader. A top-level `tables/comparisons/` could be
+ * a scenario's folder (a scenario named "comparisons"); a folder inside a scenario's cannot.
+ * Each part stays below 255 bytes (a safe name has at most 100 characters).
  */
 export function comparisonTablePath(index: number, measure: string, a: string, b: string): string {
-  return `tables/comparisons/${safeName(measure)}/${index + 1}-${safeName(a)}-vs-${safeName(b)}.csv`;
+  return `tables/${safeName(a)}/comparisons/${index + 1}-${safeName(measure)}-vs-${safeName(b)}.csv`;
 }
 
 export const PAIRED_COLUMNS = ["item", "run", "value_a", "value_b", "difference", "deviation", "squared_deviation"];
