@@ -4,7 +4,8 @@ import type { Results, RunResult } from "./outcome.js";
 import { runBatchMeans } from "./summaries.js";
 import * as batchMessages from "../messages/batchMeans.js";
 
-function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
+/** Each run's primary value of a measure, by run id, in run order (runs without a value left out). */
+export function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
   const out = new Map<string, number>();
   for (const r of runs) {
     const v = r.measures[measure]?.value;

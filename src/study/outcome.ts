@@ -1,4 +1,5 @@
 import type { TraceLine } from "../measures/trace.js";
+import type { PairedSteps, WelchSteps } from "../stats/differenceSteps.js";
 import type { IntervalSteps, IntervalSummary } from "../stats/interval.js";
 
 /**
@@ -159,9 +160,15 @@ export interface TableRecord {
   /**
    * The rows the report page shows (all written rows when there are at most `PREVIEW_HEAD +
    * PREVIEW_TAIL`, else the first and the last, see `study/tables.ts`); null for the tables of a
-   * scenario's runs after the first `PREVIEW_RUNS`, which are files only.
+   * scenario's runs after the first `PREVIEW_RUNS`, which are files only, and for comparison
+   * tables, whose arithmetic the page takes from `StudyOutcome.comparisons`.
    */
   preview: (number | string | null)[][] | null;
+  /**
+   * Only on a comparison table (kind "comparison"; `scenario` is then side a and `run` null):
+   * which comparison of results.json's `comparisons` it is (0-based) and its two sides.
+   */
+  comparison?: { index: number; a: string; b: string; method: string };
 }
 
 /** Step-by-step arithmetic of one across-run interval, labelled with what it summarises. */
@@ -170,6 +177,27 @@ export interface IntervalArithmetic extends IntervalSteps {
   measure: string;
   /** What is summarised: "value", or a sub-figure such as "quantiles.0.9". */
   figure: string;
+}
+
+/**
+ * Step-by-step arithmetic of one comparison between scenarios, parallel to results.json's
+ * `comparisons` (`index` is its position there), with the calculation table that holds it.
+ */
+export interface ComparisonArithmetic {
+  index: number;
+  measure: string;
+  a: string;
+  b: string;
+  method: "paired" | "welch";
+  /** The study's confidence, the number K of comparisons, and the level of each one, 1 − (1 − confidence)/K (Bonferroni). */
+  confidence: number;
+  comparisons: number;
+  confidence_each: number;
+  /** The calculation table (relative to the report folder), also listed in `StudyOutcome.tables`. */
+  file: string;
+  /** Runs of one side that have no run of the same id with a value on the other (paired only; empty for Welch). */
+  unpaired: { scenario: string; run: string; value: number }[];
+  steps: PairedSteps | WelchSteps;
 }
 
 /**
@@ -210,6 +238,8 @@ export interface StudyOutcome {
   inputs: InputRecord[];
   tables: TableRecord[];
   intervals: IntervalArithmetic[];
+  /** The arithmetic of each comparison, in the order of results.json's `comparisons`. */
+  comparisons: ComparisonArithmetic[];
   traces: LevelTrace[];
   samples: ObservationSample[];
   warnings: Warning[];

@@ -5,6 +5,7 @@ import type { MeasureOutput } from "../measures/accumulator.js";
 import { type RunAnalysis, type RunPlan, runTableFiles } from "./analyzeRun.js";
 import { checkSeriesPresent } from "./absentSeries.js";
 import { compareScenarios } from "./compare.js";
+import { comparisonArithmetic, comparisonTableFile } from "./comparisonTables.js";
 import { type Check, runChecks } from "./consistency.js";
 import type { InputRecord, LevelTrace, Results, RunResult, ScenarioResult, StudyOutcome, TableRecord, Warning } from "./outcome.js";
 import { EvenSample, thinned } from "./sample.js";
@@ -75,7 +76,7 @@ interface ScenarioWork {
  *          │                ├─ as each run ends: its tables written (writeTable), batch means,
  *          │                │  checks, its values into the samples; then only its small results kept
  *          │                └─ per measure: across-run summaries with their interval arithmetic
- *          ├─ comparisons between scenarios (Bonferroni over all of them)
+ *          ├─ comparisons between scenarios (Bonferroni over all of them), each with its table
  *          └─ results.json + tables + chart data + audit records  ──▶  StudyOutcome
  *
  * Runs end in any order (worker threads); what each leaves is kept at its index and the samples
@@ -96,6 +97,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     inputs: [],
     tables: [],
     intervals: [],
+    comparisons: [],
     traces: [],
     samples: [],
     warnings: [],
@@ -209,6 +211,12 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
 
   const comparisons = compareScenarios(study, outcome.results);
   if (comparisons.length > 0) outcome.results.comparisons = comparisons;
+  for (const c of comparisonArithmetic(study, outcome.results)) {
+    outcome.comparisons.push(c);
+    const f = comparisonTableFile(c);
+    writeTable(f.record.file, f.csv);
+    outcome.tables.push(f.record);
+  }
   assertDistinctFiles(outcome.tables);
   return { outcome };
 }
