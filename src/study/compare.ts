@@ -103,6 +103,21 @@ function batchMeansBasis(
   return { fields: { basis: "across-runs", values: single === null ? batchMessages.comparedRuns : batchMessages.mixedBasis(single) } };
 }
 
+/**
+ * The values a comparison of two single long runs with batch means compares (Welch on the two sets
+ * of batch means), labelled for its calculation table; null when the comparison is on run values.
+ */
+export function longRunValues(study: Study, results: Results, c: Study["comparisons"][number]): { a: { run: string; value: number }[]; b: { run: string; value: number }[] } | null {
+  const runsA = results.scenarios.find((s) => s.name === c.a)!.runs;
+  const runsB = results.scenarios.find((s) => s.name === c.b)!.runs;
+  const scA = study.scenarios.find((s) => s.name === c.a)!;
+  const scB = study.scenarios.find((s) => s.name === c.b)!;
+  const long = batchMeansBasis(c, runsA, runsB, scA.analysis.type === "batch-means", scB.analysis.type === "batch-means");
+  if (long?.values === undefined) return null;
+  const label = (run: string, values: number[]) => values.map((value, i) => ({ run: `${run} batch ${i + 1}`, value }));
+  return { a: label(runsA[0].id, long.values.a), b: label(runsB[0].id, long.values.b) };
+}
+
 /** A paired comparison of two single long runs: no interval, and the note says why (docs/statistics.md). */
 function refusedPair(a: number[], b: number[], confidence: number): DifferenceInterval {
   const w = welchInterval(a, b, confidence);

@@ -3,7 +3,7 @@ import type { Comparison, Study } from "../manifest/types.js";
 import { type BuiltTable, type Cell, tableToCsv } from "../measures/table.js";
 import { bonferroniLevel } from "../stats/compare.js";
 import { pairedSteps, type PairedSteps, type SpreadSteps, welchSteps, type WelchSide, type WelchSteps } from "../stats/differenceSteps.js";
-import { valuesOf } from "./compare.js";
+import { longRunValues, valuesOf } from "./compare.js";
 import type { ComparisonArithmetic, Results } from "./outcome.js";
 import { meanCorrectionMatters, safeName, type TableFile } from "./tables.js";
 
@@ -38,7 +38,10 @@ export function comparisonArithmetic(study: Study, results: Results): Comparison
     const a = valuesOf(results.scenarios.find((s) => s.name === c.a)!.runs, c.measure);
     const b = valuesOf(results.scenarios.find((s) => s.name === c.b)!.runs, c.measure);
     const base = { index, measure: c.measure, a: c.a, b: c.b, confidence: study.confidence, comparisons: K, confidence_each: each, file: comparisonTablePath(index, c.measure, c.a, c.b) };
-    const steps = stepsOf(c, a, b, each);
+    // Two single long runs with batch means are compared on their batch means (Welch), as in
+    // compareScenarios; a paired comparison of them has no interval, so no arithmetic either.
+    const long = longRunValues(study, results, c);
+    const steps = long === null ? stepsOf(c, a, b, each) : c.method === "welch" ? { steps: welchSteps(long.a, long.b, each), unpaired: [] } : null;
     if (steps !== null) out.push({ ...base, method: steps.steps.method, unpaired: steps.unpaired, steps: steps.steps });
   });
   return out;

@@ -170,6 +170,12 @@ describe("comparison of two single long runs", () => {
     close(c.half_width as number, t * se, 1e-7);
     const runA = outcome.results.scenarios[0].runs[0].measures.wait.batch_means as { lag1: number };
     expect(c.lag1_a).toBe(runA.lag1);
+    // Its calculation table is the arithmetic of the same batch means and ends with the same numbers.
+    const steps = outcome.comparisons[0].steps;
+    if (steps.method !== "welch") throw new Error(`expected Welch steps, got ${steps.method}`);
+    expect(steps.a.rows.map((r) => r.value)).toEqual(batchMeansByHand(a, 10).map((v) => expect.closeTo(v, 12)));
+    expect(steps.a.rows[0].run).toBe("long batch 1");
+    expect([steps.df, steps.half_width, steps.ci_low, steps.ci_high]).toEqual([c.df, c.half_width, c.ci_low, c.ci_high]);
   });
 
   it("a paired comparison of two single long runs gives no interval and says why", async () => {
@@ -178,5 +184,7 @@ describe("comparison of two single long runs", () => {
     expect(c.basis).toBe("batch-means");
     expect([c.half_width, c.ci_low, c.ci_high, c.df]).toEqual([null, null, null, null]);
     expect(c.verdict).toBe(`no interval: ${batchMessages.pairedLongRuns}`);
+    // No interval, so no arithmetic table either (the entry's verdict says why).
+    expect(outcome.comparisons).toEqual([]);
   });
 });
