@@ -47,7 +47,7 @@ export function resultsJson(outcome: StudyOutcome): string {
  * the report's date, so that `verify` can make the page again from the record.
  */
 export async function reportHtml(study: Study, outcome: StudyOutcome, meta: { toolVersion: string; generatedAt: string }): Promise<string> {
-  const [{ buildReportModel }, { renderHtml }] = await Promise.all([import("../report/model.js"), import("../report/html.js")]);
+  const [{ buildReportModel }, { renderHtml }] = await Promise.all([import("../report/model/index.js"), import("../report/html.js")]);
   return renderHtml(buildReportModel(study, outcome, meta));
 }
 
@@ -80,7 +80,7 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
       writeTable: (file, csv) => staged.write(file, csv),
     });
     // The report's modules (templates, chart renderer) and the t quantile load while the runs are read.
-    const reportModules = Promise.all([import("../report/model.js"), import("../report/html.js")]);
+    const reportModules = Promise.all([import("../report/model/index.js"), import("../report/html.js")]);
     setImmediate(loadTQuantile);
     const { outcome } = await computed;
     mark("runs analysed");

@@ -1,7 +1,7 @@
 import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
-import { buildReportModel, LAG1_FLAG, roundNumbersIn, slug, TABLE_ROW_CAP, type ReportModel } from "../../src/report/model.js";
+import { buildReportModel, LAG1_FLAG, roundNumbersIn, slug, TABLE_ROW_CAP, type ReportModel } from "../../src/report/model/index.js";
 import { welchMovingAverage, welchWindow } from "../../src/report/charts.js";
 import { formatNumber, MISSING } from "../../src/report/number.js";
 import { bakery, HOSTILE } from "./fixtures/bakery.js";

@@ -1,7 +1,7 @@
 import Handlebars from "handlebars";
 import { describe, expect, it } from "vitest";
 import * as warn from "../../src/messages/warnings.js";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { renderHtml } from "../../src/report/html.js";
 import { LATE_FRACTION } from "../../src/study/runChecks.js";
 import { csv } from "../helpers/tempStudy.js";
