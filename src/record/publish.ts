@@ -10,7 +10,7 @@ import { studyInputs } from "./ownership.js";
 import { onInterrupt } from "../interrupt.js";
 import * as msg from "../messages/output.js";
 import { toolVersion } from "./version.js";
-import type { StudyOutcome } from "../study/outcome.js";
+import type { StudyOutcome } from "../outcome/index.js";
 import { mark } from "../timing.js";
 import { loadTQuantile } from "../stats/tQuantile.js";
 

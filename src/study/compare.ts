@@ -1,6 +1,6 @@
 import { bonferroniLevel, pairedInterval, welchInterval } from "../stats/compare.js";
 import type { Study } from "../manifest/types.js";
-import type { Results, RunResult } from "./outcome.js";
+import type { Comparison, Results, RunResult } from "../outcome/index.js";
 
 function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
   const out = new Map<string, number>();
@@ -17,7 +17,7 @@ function valuesOf(runs: RunResult[], measure: string): Map<string, number> {
  * Paired: runs matched by run id (common random numbers), t on the differences a − b. Welch:
  * difference of means with the Welch–Satterthwaite degrees of freedom (Welch 1947).
  */
-export function compareScenarios(study: Study, results: Results): Record<string, unknown>[] {
+export function compareScenarios(study: Study, results: Results): Comparison[] {
   const K = study.comparisons.length;
   if (K === 0) return [];
   const each = bonferroniLevel(study.confidence, K);

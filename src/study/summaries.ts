@@ -1,7 +1,7 @@
 import { intervalArithmetic } from "../stats/interval.js";
 import { runsNeeded } from "../stats/runsNeeded.js";
 import type { Measure } from "../manifest/types.js";
-import type { IntervalArithmetic, RunResult, Summary } from "./outcome.js";
+import type { IntervalArithmetic, RunResult, Summary } from "../outcome/index.js";
 import { nonFinitePath } from "./finite.js";
 import * as studyMessages from "../messages/study.js";
 
@@ -52,7 +52,7 @@ export function summarizeMeasure(
     }
     return out;
   };
-  const stats = (r: RunResult) => r.measures[measure.name] as Record<string, unknown>;
+  const stats = (r: RunResult) => r.measures[measure.name] as unknown as Record<string, unknown>;
   const summary = interval("value", (r) => stats(r).value);
   const early = sortedIds(runs.filter((r) => r.ends_early === true));
   if (early.length > 0) summary.runs_ending_early = early;

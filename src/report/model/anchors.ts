@@ -2,8 +2,8 @@
  * Anchors of the report page: readable, unique and HTML-safe ids, assigned once per build.
  */
 import type { Measure, Study } from "../../manifest/types.js";
-import type { StudyOutcome } from "../../study/outcome.js";
-import { isRecord } from "./words.js";
+import type { StudyOutcome } from "../../outcome/index.js";
+import { batchMeansOf } from "./words.js";
 
 
 /** Lower-case letters, digits and single hyphens, at most 40 characters ("" when none remain). */
@@ -75,7 +75,7 @@ const measureIds = study.measureNames.map((m, i) => anchor("measure", i + 1, m))
 const batchIds = new Map<string, string>();
 let batchNo = 0;
 for (const name of study.measureNames) for (const sr of results.scenarios) {
-  if (sr.runs.some((r) => isRecord(r.measures[name]?.batch_means))) batchIds.set(key(sr.name, name), anchor("batches", ++batchNo, name, sr.name));
+  if (sr.runs.some((r) => batchMeansOf(r.measures[name]) !== undefined)) batchIds.set(key(sr.name, name), anchor("batches", ++batchNo, name, sr.name));
 }
 const ivId = (scenario: string, measure: string, figure: string) => intervalIds.get(key(scenario, measure, figure)) ?? null;
 const tbId = (scenario: string, run: string | null, measure: string) => tableIds.get(key(scenario, run, measure)) ?? null;

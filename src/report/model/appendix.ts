@@ -3,7 +3,7 @@
  * the consistency checks and the batch values.
  */
 import { meanCorrectionMatters, PREVIEW_HEAD, PREVIEW_RUNS, PREVIEW_TAIL } from "../../study/tables.js";
-import type { IntervalArithmetic, StudyOutcome, TableRecord } from "../../study/outcome.js";
+import type { Check, IntervalArithmetic, StudyOutcome, TableRecord } from "../../outcome/index.js";
 import { MISSING } from "../number.js";
 import { anchor, key, type ReportContext, TABLES_ELSEWHERE } from "./anchors.js";
 import {
@@ -17,7 +17,7 @@ import {
   tableView,
   type TableView,
 } from "./view.js";
-import { figureLabel, fmt, intervalText, isRecord, link, numOrNull, q, relative, roundNumbersIn, text } from "./words.js";
+import { batchMeansOf, figureLabel, fmt, intervalText, link, q, relative, roundNumbersIn, text } from "./words.js";
 
 /** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS` (the rows the study keeps as the table's preview). */
 export const TABLE_HEAD_ROWS = PREVIEW_HEAD;
@@ -170,22 +170,7 @@ function intervalView(
   };
 }
 
-interface CheckRecord {
-  check: string;
-  run: string;
-  measure: string;
-  passed: boolean;
-  message: string;
-  applies?: unknown;
-}
-
-export function checksOf(sr: StudyOutcome["results"]["scenarios"][number]): CheckRecord[] {
-  if (!Array.isArray(sr.checks)) return [];
-  return (sr.checks as unknown[]).filter((c): c is CheckRecord =>
-    isRecord(c) && typeof c.check === "string" && typeof c.passed === "boolean" && typeof c.message === "string");
-}
-
-export const CHECK_LABELS: Record<string, string> = {
+export const CHECK_LABELS: Record<Check["check"], string> = {
   "littles-law": "Little's law (L = λ·W)",
   conservation: "conservation (at start + entered − left = at end)",
   "utilization-range": "utilization within [0, 1]",
@@ -196,11 +181,11 @@ export function checksTable(scenarios: StudyOutcome["results"]["scenarios"]): { 
   const rows: Cell[][] = [];
   let failed = 0;
   let total = 0;
-  for (const sr of scenarios) for (const c of checksOf(sr)) {
+  for (const sr of scenarios) for (const c of sr.checks ?? []) {
     total++;
     if (!c.passed) failed++;
     const result: Cell = c.passed ? text(c.applies === false ? "passed (not an identity here)" : "passed") : { ...text("FAILED"), flag: true };
-    rows.push([text(sr.name), text(String(c.run ?? "")), text(String(c.measure ?? "")), text(CHECK_LABELS[c.check] ?? c.check), result, text(roundNumbersIn(c.message))]);
+    rows.push([text(sr.name), text(c.run), text(c.measure), text(CHECK_LABELS[c.check]), result, text(roundNumbersIn(c.message))]);
   }
   if (rows.length === 0) return null;
   return {
@@ -222,10 +207,10 @@ export function batchValuesView(
     if (id === undefined) continue;
     const rows: Cell[][] = [];
     for (const r of sr.runs) {
-      const b = r.measures[name]?.batch_means;
-      if (!isRecord(b)) continue;
-      const values = Array.isArray(b.batch_values) ? (b.batch_values as unknown[]).map(numOrNull) : [];
-      rows.push([text(r.id), text(fmt(numOrNull(b.batches))), text(fmt(numOrNull(b.lag1))), text(values.length > 0 ? values.map((v) => fmt(v)).join(", ") : MISSING)]);
+      const b = batchMeansOf(r.measures[name]);
+      if (b === undefined) continue;
+      const values = b.batch_values;
+      rows.push([text(r.id), text(fmt(b.batches)), text(fmt(b.lag1)), text(values.length > 0 ? values.map((v) => fmt(v)).join(", ") : MISSING)]);
     }
     items.push({ id, table: tableView(`${name} — ${sr.name}: each run's batch means in time order`, ["Run", "Batches", "Lag-1 correlation", "Batch means Z₁, Z₂, …"], rows) });
   }

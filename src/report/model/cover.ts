@@ -24,10 +24,10 @@ export function coverView(ctx: ReportContext, meta: { toolVersion: string; gener
     const sc = study.scenarios.find((s) => s.name === sr.name);
     const windows = [...new Set(sr.runs.map((r) => `${fmt(r.start)} to ${r.end === null ? "last row" : fmt(r.end)} ${unit}`))];
     let warm = sc ? warmupText(sc.warmup, unit) : MISSING;
-    const est = sr.warmup_estimate as { method?: string; measure?: string; d?: number; batches?: number; time?: number } | undefined;
-    if (est && typeof est.time === "number") {
-      warm = `${fmt(est.time)} ${unit}, by ${String(est.method ?? "estimate").toUpperCase()} on ${String(est.measure ?? "")}: ` +
-        `first ${fmt(est.d ?? null)} of ${fmt(est.batches ?? null)} batches dropped`;
+    const est = sr.warmup_estimate;
+    if (est !== undefined) {
+      warm = `${fmt(est.time)} ${unit}, by ${est.method.toUpperCase()} on ${est.measure}: ` +
+        `first ${fmt(est.d)} of ${fmt(est.batches)} batches dropped`;
     }
     const analysis = sc?.analysis.type === "batch-means"
       ? `independent runs; batch means within each run (${sc.analysis.batches} batches)`

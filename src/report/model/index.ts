@@ -13,7 +13,7 @@
  * and the view types in `view.ts`.
  */
 import type { Study } from "../../manifest/types.js";
-import type { StudyOutcome } from "../../study/outcome.js";
+import type { StudyOutcome } from "../../outcome/index.js";
 import { SIGNIFICANT_DIGITS } from "../number.js";
 import { anchor, reportContext } from "./anchors.js";
 import { appendixView } from "./appendix.js";
@@ -30,7 +30,6 @@ import { dateText } from "./words.js";
 export type * from "./view.js";
 export { slug } from "./anchors.js";
 export { TABLE_HEAD_ROWS, TABLE_ROW_CAP, TABLE_TAIL_ROWS } from "./appendix.js";
-export { LAG1_FLAG } from "./measure.js";
 export { roundNumbersIn } from "./words.js";
 
 /**

@@ -4,12 +4,12 @@
  */
 import type { Measure, Scenario } from "../../manifest/types.js";
 import { runsNeededWhy } from "../../messages/warnings.js";
-import type { RunResult, RunStats, StudyOutcome, Summary } from "../../study/outcome.js";
+import type { BatchMeansReading, Readings, RunStats, StudyOutcome } from "../../outcome/index.js";
 import { formatPercent, MISSING } from "../number.js";
 import { key, type ReportContext } from "./anchors.js";
 import { measureCharts } from "./measureCharts.js";
 import { type Cell, type MeasureSection, tableView, type TableView } from "./view.js";
-import { capacityText, figureLabel, fmt, intervalText, isRecord, kindLabel, link, numOrNull, primaryName, q, text } from "./words.js";
+import { batchMeansOf, capacityText, figureLabel, fmt, intervalText, kindLabel, link, primaryName, q, text } from "./words.js";
 
 /** The section of the `mi`-th measure of the study. */
 export function measureSection(ctx: ReportContext, name: string, mi: number): MeasureSection {
@@ -25,7 +25,7 @@ export function measureSection(ctx: ReportContext, name: string, mi: number): Me
     charts,
     runs: runTable(name, m.kind, results.scenarios, unit, tbId),
     extras: extrasTable(name, m.kind, results.scenarios, ivId),
-    batchMeans: batchMeansTable(name, results.scenarios, batchIds),
+    batchMeans: batchMeansTable(name, results.scenarios, ctx.outcome.readings, batchIds),
     runsNeeded: runsNeededTable(name, results.scenarios),
   };
 }
@@ -60,6 +60,37 @@ function statement(measure: Measure, scenarios: Scenario[], unit: string): strin
   return scenarios.some((sc) => sc.runs.length >= 2) ? `${s} Across runs, each run's ${primaryName(m.kind)} is one value of the interval.` : s;
 }
 
+/** A run's figures in the runs table's column order, by kind. */
+function runFigures(st: RunStats): (number | null)[] {
+  switch (st.kind) {
+    case "level":
+      return [st.value, st.sd, st.min, st.max, st.final, st.area, st.duration];
+    case "utilization":
+      return [st.value];
+    case "observation":
+      return [st.value, st.sd, st.n, st.min, st.max];
+    case "count":
+      return [st.value, st.rate];
+  }
+}
+
+/** Entity-derived measures: what the engine counted about the entities themselves. */
+const ENTITY_FIGURES: { label: string; pick: (st: RunStats) => number | undefined }[] = [
+  { label: "censored (still open at the end)", pick: (st) => (st.kind === "observation" ? st.censored : undefined) },
+  { label: "entered", pick: (st) => (st.kind === "level" ? st.entered : undefined) },
+  { label: "left", pick: (st) => (st.kind === "level" ? st.left : undefined) },
+  { label: "inside at the end", pick: (st) => (st.kind === "level" ? st.inside_at_end : undefined) },
+];
+
+type FigureGroup = "quantiles" | "within" | "time_at_least";
+const FIGURE_GROUPS: FigureGroup[] = ["quantiles", "within", "time_at_least"];
+
+/** A run's per-key figures of one group (quantiles, shares within, shares of time at least), if it has them. */
+function groupFigures(st: RunStats, group: FigureGroup): Record<string, number | null> | undefined {
+  if (group === "time_at_least") return st.kind === "level" || st.kind === "utilization" ? st.time_at_least : undefined;
+  return st.kind === "observation" ? st[group] : undefined;
+}
+
 function runTable(
   name: string,
   kind: Measure["kind"],
@@ -73,29 +104,18 @@ function runTable(
     observation: ["mean", "sd", "n", "min", "max"],
     count: ["count", `rate (per ${unit})`],
   };
-  const fields: Record<Measure["kind"], string[]> = {
-    level: ["value", "sd", "min", "max", "final", "area", "duration"],
-    utilization: ["value"],
-    observation: ["value", "sd", "n", "min", "max"],
-    count: ["value", "rate"],
-  };
-  // Entity-derived measures: what the engine counted about the entities themselves.
-  const entityFields: [string, string][] = [
-    ["censored", "censored (still open at the end)"],
-    ["entered", "entered"],
-    ["left", "left"],
-    ["inside_at_end", "inside at the end"],
-  ];
-  const present = entityFields.filter(([f]) => scenarios.some((sr) => sr.runs.some((r) => typeof r.measures[name]?.[f] === "number")));
-  cols[kind] = [...cols[kind], ...present.map(([, label]) => label)];
-  fields[kind] = [...fields[kind], ...present.map(([f]) => f)];
-  const extraKeys: { group: string; key: string }[] = [];
+  const present = ENTITY_FIGURES.filter((e) => scenarios.some((sr) => sr.runs.some((r) => {
+    const st = r.measures[name];
+    return st !== undefined && e.pick(st) !== undefined;
+  })));
+  const columns = [...cols[kind], ...present.map((e) => e.label)];
+  const extraKeys: { group: FigureGroup; key: string }[] = [];
   for (const sr of scenarios) for (const r of sr.runs) {
     const st = r.measures[name];
     if (!st) continue;
-    for (const group of ["quantiles", "within", "time_at_least"]) {
-      const g = st[group];
-      if (g && typeof g === "object") for (const k of Object.keys(g)) {
+    for (const group of FIGURE_GROUPS) {
+      const g = groupFigures(st, group);
+      if (g !== undefined) for (const k of Object.keys(g)) {
         if (!extraKeys.some((e) => e.group === group && e.key === k)) extraKeys.push({ group, key: k });
       }
     }
@@ -104,20 +124,14 @@ function runTable(
   for (const sr of scenarios) for (const r of sr.runs) {
     const st: RunStats | undefined = r.measures[name];
     const href = tbId(sr.name, r.id, name);
-    const cells = fields[kind].map((f, i) => {
-      const v = st?.[f as keyof RunStats];
-      const t = fmt(typeof v === "number" ? v : null);
-      return i === 0 ? link(t, href) : text(t);
-    });
-    const extras = extraKeys.map((e) => {
-      const g = st?.[e.group] as Record<string, number> | undefined;
-      return text(fmt(g?.[e.key] ?? null));
-    });
+    const values = st === undefined ? columns.map(() => null) : [...runFigures(st), ...present.map((e) => e.pick(st) ?? null)];
+    const cells = values.map((v, i) => (i === 0 ? link(fmt(v), href) : text(fmt(v))));
+    const extras = extraKeys.map((e) => text(fmt((st === undefined ? undefined : groupFigures(st, e.group))?.[e.key] ?? null)));
     rows.push([text(sr.name), text(r.id), ...cells, ...extras]);
   }
   return tableView(
     `${name}: each run's figures (the first number links to the run's calculation table)`,
-    ["Scenario", "Run", ...cols[kind], ...extraKeys.map((e) => figureLabel(kind, `${e.group}.${e.key}`))],
+    ["Scenario", "Run", ...columns, ...extraKeys.map((e) => figureLabel(kind, `${e.group}.${e.key}`))],
     rows,
   );
 }
@@ -129,10 +143,10 @@ function extrasTable(
   ivId: (s: string, m: string, f: string) => string | null,
 ): TableView | null {
   const rows: Cell[][] = [];
-  for (const group of ["quantiles", "within", "time_at_least"]) {
+  for (const group of FIGURE_GROUPS) {
     for (const sr of scenarios) {
-      const g = sr.summary[name]?.[group] as Record<string, Summary> | undefined;
-      if (!g || typeof g !== "object") continue;
+      const g = sr.summary[name]?.[group];
+      if (g === undefined) continue;
       for (const [k, s] of Object.entries(g)) {
         const href = ivId(sr.name, name, `${group}.${k}`);
         rows.push([
@@ -150,20 +164,22 @@ function extrasTable(
   );
 }
 
-/** Size of the lag-1 correlation of batch means above which the batches are flagged as too short. */
-export const LAG1_FLAG = 0.2;
+/** The words of the study's lag-1 check of one run's batch means (src/study/readings.ts). */
+function lag1Words(reading: BatchMeansReading["lag1"], limit: number): string {
+  return { none: "no lag-1 (too few batches)", "too-large": `|lag-1| > ${limit}: batches too short`, ok: "ok" }[reading];
+}
 
-function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scenarios"], batchIds: Map<string, string>): TableView | null {
+function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scenarios"], readings: Readings, batchIds: Map<string, string>): TableView | null {
   const rows: Cell[][] = [];
-  for (const sr of scenarios) for (const r of sr.runs as RunResult[]) {
-    const b = r.measures[name]?.batch_means;
-    if (!isRecord(b)) continue;
-    const lag1 = numOrNull(b.lag1);
-    const flagged = lag1 !== null && Math.abs(lag1) > LAG1_FLAG;
-    const flag: Cell = { ...text(lag1 === null ? "no lag-1 (too few batches)" : flagged ? `|lag-1| > ${LAG1_FLAG}: batches too short` : "ok"), ...(flagged ? { flag: true } : {}) };
+  for (const sr of scenarios) for (const r of sr.runs) {
+    const b = batchMeansOf(r.measures[name]);
+    const reading = readings.batchMeans.find((x) => x.scenario === sr.name && x.run === r.id && x.measure === name);
+    if (b === undefined || reading === undefined) continue;
+    const flagged = reading.lag1 === "too-large";
+    const flag: Cell = { ...text(lag1Words(reading.lag1, readings.lag1Limit)), ...(flagged ? { flag: true } : {}) };
     rows.push([
-      text(sr.name), link(r.id, batchIds.get(key(sr.name, name)) ?? null), text(fmt(numOrNull(b.batches))), text(fmt(numOrNull(b.mean))),
-      text(fmt(numOrNull(b.half_width))), text(intervalText(numOrNull(b.ci_low), numOrNull(b.ci_high))), text(fmt(lag1)), flag,
+      text(sr.name), link(r.id, batchIds.get(key(sr.name, name)) ?? null), text(fmt(b.batches)), text(fmt(b.mean)),
+      text(fmt(b.half_width)), text(intervalText(b.ci_low, b.ci_high)), text(fmt(b.lag1)), flag,
     ]);
   }
   if (rows.length === 0) return null;
@@ -179,13 +195,11 @@ function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scena
   for (const sr of scenarios) {
     const s = sr.summary[name];
     if (s?.target === undefined) continue;
-    const need = typeof s.runs_needed === "number" ? s.runs_needed : null;
-    const t = s.target as { half_width?: number; relative?: number } | undefined;
-    let target = MISSING;
-    if (t && typeof t.relative === "number") target = `relative error ${formatPercent(t.relative)}`;
-    else if (t && typeof t.half_width === "number") target = `half-width ${fmt(t.half_width)}`;
-    const aim = typeof s.target_half_width === "number" ? s.target_half_width : null;
-    const why = need === null && typeof s.runs_needed_reason === "string" ? runsNeededWhy(s.runs_needed_reason, s.n) : null;
+    const need = s.runs_needed ?? null;
+    const t = s.target;
+    const target = "relative" in t ? `relative error ${formatPercent(t.relative)}` : `half-width ${fmt(t.half_width)}`;
+    const aim = s.target_half_width ?? null;
+    const why = need === null && s.runs_needed_reason != null ? runsNeededWhy(s.runs_needed_reason, s.n) : null;
     rows.push([
       text(sr.name), text(target), text(fmt(aim)), text(String(s.n)), text(fmt(s.half_width)),
       why === null ? text(fmt(need)) : { ...text(`${MISSING} ${why}`), flag: true },

@@ -4,8 +4,7 @@
  */
 import type { TopLevelSpec } from "vega-lite";
 import type { Measure, Study } from "../../manifest/types.js";
-import { fsum } from "../../stats/fsum.js";
-import type { LevelTrace, StudyOutcome } from "../../study/outcome.js";
+import type { LevelTrace, StudyOutcome, TimeAtValueMean } from "../../outcome/index.js";
 import {
   ecdfChart,
   ecdfSteps,
@@ -22,7 +21,7 @@ import {
 import { formatPercent } from "../number.js";
 import type { ReportContext } from "./anchors.js";
 import type { Chart } from "./view.js";
-import { fmt, isRecord, numOrNull, primaryName, valueTitle } from "./words.js";
+import { fmt, primaryName, valueTitle } from "./words.js";
 
 /** The charts of one measure's section, with ids under the section's id. */
 export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: string): Chart[] {
@@ -45,7 +44,7 @@ export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: 
     caption: `${name}: each run's ${primaryName(m.kind)} (dots) and the scenario mean (bar) (time unit ${unit}).`,
     spec: runsChart(results.scenarios.flatMap((sr) => sr.runs.flatMap((r) => {
       const v = r.measures[name]?.value;
-      return typeof v === "number" ? [{ scenario: sr.name, run: r.id, value: v }] : [];
+      return v === undefined || v === null ? [] : [{ scenario: sr.name, run: r.id, value: v }];
     })), scenarioNames, vTitle),
   });
   for (const sr of results.scenarios) {
@@ -70,7 +69,7 @@ export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: 
     if (ecdf !== null) charts.push({ id: chartId("distribution"), ...ecdf });
   }
   if (m.kind === "level" || m.kind === "utilization") {
-    const tav = timeAtValueView(name, m.kind, results.scenarios, unit);
+    const tav = timeAtValueView(name, m.kind, outcome.readings.timeAtValue, unit);
     if (tav !== null) charts.push({ id: chartId("time-at-value"), ...tav });
   }
   return charts;
@@ -119,28 +118,18 @@ function ecdfView(
 function timeAtValueView(
   name: string,
   kind: "level" | "utilization",
-  scenarios: StudyOutcome["results"]["scenarios"],
+  means: TimeAtValueMean[],
   unit: string,
 ): Omit<Chart, "id"> | null {
   const rows: { scenario: string; value: number; share: number }[] = [];
   const partial: string[] = [];
   const used: string[] = [];
-  for (const sr of scenarios) {
-    const lists = sr.runs.map((r) => r.measures[name]?.time_at_value).filter((x): x is unknown[] => Array.isArray(x));
-    if (lists.length === 0) continue;
-    used.push(sr.name);
-    if (lists.length < sr.runs.length) partial.push(`${sr.name}: ${lists.length} of ${sr.runs.length} runs`);
-    const byValue = new Map<number, number[]>();
-    for (const list of lists) for (const e of list) {
-      if (!isRecord(e)) continue;
-      const v = numOrNull(e.value);
-      const share = numOrNull(e.share);
-      if (v === null || share === null) continue;
-      byValue.set(v, [...(byValue.get(v) ?? []), share]);
-    }
-    for (const v of [...byValue.keys()].sort((a, b) => a - b)) {
-      rows.push({ scenario: sr.name, value: v, share: fsum(byValue.get(v) as number[]) / lists.length });
-    }
+  // The means over the runs are the study's (src/study/readings.ts), in scenario order.
+  for (const t of means) {
+    if (t.measure !== name) continue;
+    used.push(t.scenario);
+    if (t.runs < t.of) partial.push(`${t.scenario}: ${t.runs} of ${t.of} runs`);
+    for (const s of t.shares) rows.push({ scenario: t.scenario, value: s.value, share: s.share });
   }
   if (rows.length === 0) return null;
   return {

@@ -3,7 +3,7 @@
  * relative precision and what the row rests on.
  */
 import { runsEndEarlyOnRow, runWarningsOnRow, runsWithoutValue } from "../../messages/warnings.js";
-import type { Summary } from "../../study/outcome.js";
+import type { Summary } from "../../outcome/index.js";
 import { LATE_FRACTION } from "../../study/runChecks.js";
 import { formatPercent } from "../number.js";
 import type { ReportContext } from "./anchors.js";
@@ -47,7 +47,7 @@ export function summaryView(ctx: ReportContext): { intro: string; rows: SummaryR
  */
 function summaryWarnings(s: Summary | undefined, runs: number, runWarnings: number): string[] {
   const out: string[] = [];
-  const list = (v: unknown) => (Array.isArray(v) && v.length > 0 ? v.map(String) : null);
+  const list = (v: string[] | undefined) => (v !== undefined && v.length > 0 ? v : null);
   const without = list(s?.runs_without_value);
   if (s && without !== null) out.push(runsWithoutValue(without, s.n, runs));
   const early = list(s?.runs_ending_early);

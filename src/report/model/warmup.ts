@@ -2,11 +2,11 @@
  * The warm-up section: each scenario's MSER-5 estimate with its figures and the warm-up plot.
  */
 import type { Measure } from "../../manifest/types.js";
-import type { StudyOutcome } from "../../study/outcome.js";
+import type { StudyOutcome } from "../../outcome/index.js";
 import { MAX_WELCH_POINTS, welchChart, welchMovingAverage, welchWindow } from "../charts.js";
 import { anchor, type ReportContext } from "./anchors.js";
 import { type Chart, type Fact, tableView, type WarmupView } from "./view.js";
-import { fmt, isRecord, numOrNull, q, text } from "./words.js";
+import { fmt, q, text } from "./words.js";
 
 /** The warm-up section, or null when no scenario estimated its warm-up. */
 export function warmupSection(ctx: ReportContext): { intro: string; scenarios: WarmupView[] } | null {
@@ -33,25 +33,24 @@ function warmupView(
   measureOf: (scenario: string, name: string) => Measure,
 ): WarmupView | null {
   const est = sr.warmup_estimate;
-  if (!isRecord(est)) return null;
-  const measure = String(est.measure ?? "");
-  const time = numOrNull(est.time);
-  const d = numOrNull(est.d);
-  const batches = numOrNull(est.batches);
-  const method = String(est.method ?? "mser-5").toUpperCase();
+  if (est === undefined) return null;
+  const measure = est.measure;
+  const time = est.time;
+  const d = est.d;
+  const batches = est.batches;
+  const method = est.method.toUpperCase();
   const id = anchor("warmup", index, sr.name);
   const facts: Fact[] = [
     { label: "Method", value: method },
     { label: "Measure", value: measure },
   ];
 
-  if (Array.isArray(est.slice_means)) {
-    const means = (est.slice_means as unknown[]).map(numOrNull);
-    const slice = numOrNull(est.slice);
+  if ("slice_means" in est) {
+    const means = est.slice_means;
+    const slice = est.slice;
     const start = sr.runs.length > 0 ? Math.min(...sr.runs.map((r) => r.start)) : 0;
     const m = means.length;
     const w = welchWindow(m);
-    const ok = slice !== null && means.every((x): x is number => x !== null);
     facts.push(
       { label: "Slice width", value: `${fmt(slice)} ${unit}` },
       { label: "Slices (m)", value: fmt(m) },
@@ -61,9 +60,9 @@ function warmupView(
       { label: "Moving average", value: w > 0 ? `w = ${w} (${2 * w + 1} slices)` : "none (fewer than 4 slices)" },
     );
     let chart: Chart | null = null;
-    if (ok && m > 0) {
-      const ys = means as number[];
-      const mid = (j: number) => start + (j + 0.5) * (slice as number);
+    if (m > 0) {
+      const ys = means;
+      const mid = (j: number) => start + (j + 0.5) * slice;
       const smoothed = welchMovingAverage(ys, w).map((mean, j) => ({ time: mid(j), mean }));
       let kind: Measure["kind"] = "level";
       try { kind = measureOf(sr.name, measure).kind; } catch { /* the estimate names a measure the study lacks: keep the level wording */ }
@@ -92,41 +91,29 @@ function warmupView(
       facts,
       chart,
       runs: null,
-      warning: est.at_limit === true ? LIMIT_WARNING : null,
+      warning: est.at_limit ? LIMIT_WARNING : null,
     };
   }
 
-  if (Array.isArray(est.runs)) {
-    const runs = (est.runs as unknown[]).filter(isRecord);
-    facts.push({ label: "Warm-up", value: `${fmt(time)} ${unit}` });
-    const table = tableView(
-      `${measure} in ${sr.name}: MSER-5 on each run's observations in time order (the scenario's warm-up is the latest first kept observation)`,
-      ["Run", "Batches of 5", "Batches dropped d", `First kept observation (${unit})`, "At the limit"],
-      runs.map((r) => [
-        text(String(r.run ?? "")), text(fmt(numOrNull(r.batches))), text(fmt(numOrNull(r.d))), text(fmt(numOrNull(r.time))),
-        text(r.at_limit === true ? "yes" : "no"),
-      ]),
-    );
-    return {
-      id,
-      scenario: sr.name,
-      lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on the observations of ${q(measure)}, run by run: the latest time at which a run's kept observations begin.`,
-      facts,
-      chart: null,
-      runs: table,
-      warning: runs.some((r) => r.at_limit === true) ? LIMIT_WARNING : null,
-    };
-  }
-
-  facts.push({ label: "Batches dropped (d)", value: `${fmt(d)} of ${fmt(batches)}` }, { label: "Warm-up", value: `${fmt(time)} ${unit}` });
+  // MSER-5 on each run's observations.
+  const runs = est.runs;
+  facts.push({ label: "Warm-up", value: `${fmt(time)} ${unit}` });
+  const table = tableView(
+    `${measure} in ${sr.name}: MSER-5 on each run's observations in time order (the scenario's warm-up is the latest first kept observation)`,
+    ["Run", "Batches of 5", "Batches dropped d", `First kept observation (${unit})`, "At the limit"],
+    runs.map((r) => [
+      text(r.run), text(fmt(r.batches)), text(fmt(r.d)), text(fmt(r.time)),
+      text(r.at_limit ? "yes" : "no"),
+    ]),
+  );
   return {
     id,
     scenario: sr.name,
-    lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on ${q(measure)}.`,
+    lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on the observations of ${q(measure)}, run by run: the latest time at which a run's kept observations begin.`,
     facts,
     chart: null,
-    runs: null,
-    warning: est.at_limit === true ? LIMIT_WARNING : null,
+    runs: table,
+    warning: runs.some((r) => r.at_limit) ? LIMIT_WARNING : null,
   };
 }
 

@@ -3,6 +3,7 @@
  * and the one rounding rule (`../number.ts`) applied to every number shown.
  */
 import type { Measure, Warmup } from "../../manifest/types.js";
+import type { BatchMeansFigures, RunStats } from "../../outcome/index.js";
 import { formatNumber, formatPercent, MISSING } from "../number.js";
 import type { Cell } from "./view.js";
 
@@ -82,12 +83,9 @@ export function dateText(iso: string): string {
 export const text = (t: string): Cell => ({ text: t, href: null });
 export const link = (t: string, href: string | null): Cell => ({ text: t, href: href === null ? null : `#${href}` });
 
-export function isRecord(v: unknown): v is Record<string, unknown> {
-  return typeof v === "object" && v !== null && !Array.isArray(v);
-}
-
-export function numOrNull(v: unknown): number | null {
-  return typeof v === "number" && Number.isFinite(v) ? v : null;
+/** A run's batch means, when its measure has them (a count never has). */
+export function batchMeansOf(st: RunStats | undefined): BatchMeansFigures | undefined {
+  return st === undefined || st.kind === "count" ? undefined : st.batch_means;
 }
 
 /**

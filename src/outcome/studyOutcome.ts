@@ -1,93 +1,11 @@
-import type { TraceLine } from "../measures/trace.js";
-import type { IntervalSteps, IntervalSummary } from "../stats/interval.js";
+import type { IntervalSteps } from "../stats/interval.js";
+import type { LeftOut, Results } from "./results.js";
+import type { TraceLine } from "./trace.js";
 
 /**
  * What a study run produces: `results.json` (typed as `Results`) plus everything the report and
  * the study record need beside it (input audit, table index, interval arithmetic, chart data).
  */
-
-/** A run measure as written to results.json. Extra keys beyond the contract are allowed. */
-export interface LevelRunStats {
-  kind: "level";
-  value: number;
-  mean: number;
-  area: number;
-  duration: number;
-  sd: number;
-  min: number;
-  max: number;
-  final: number;
-  [extra: string]: unknown;
-}
-export interface UtilizationRunStats {
-  kind: "utilization";
-  value: number;
-  mean: number;
-  [extra: string]: unknown;
-}
-export interface ObservationRunStats {
-  kind: "observation";
-  /** null when the run has no observation in the window. */
-  value: number | null;
-  n: number;
-  mean: number | null;
-  sd: number | null;
-  min: number | null;
-  max: number | null;
-  [extra: string]: unknown;
-}
-export interface CountRunStats {
-  kind: "count";
-  value: number;
-  n: number;
-  /** null when the run has no window end. */
-  rate: number | null;
-  [extra: string]: unknown;
-}
-export type RunStats = LevelRunStats | UtilizationRunStats | ObservationRunStats | CountRunStats;
-
-export interface RunResult {
-  id: string;
-  file: string;
-  sha256: string;
-  start: number;
-  end: number | null;
-  measures: Record<string, RunStats>;
-  [extra: string]: unknown;
-}
-
-/** Across-run summary of one figure. Interval fields are null with fewer than two runs. */
-export interface Summary extends IntervalSummary {
-  [extra: string]: unknown;
-}
-
-export interface ScenarioResult {
-  name: string;
-  runs: RunResult[];
-  summary: Record<string, Summary>;
-  [extra: string]: unknown;
-}
-
-export interface Results {
-  format: "sojourn-results/1";
-  title: string;
-  time_unit: string;
-  confidence: number;
-  warmup: unknown;
-  scenarios: ScenarioResult[];
-  [extra: string]: unknown;
-}
-
-/** Why rows of a run file were not used. */
-export interface LeftOut {
-  /** Rows of series that measures read, after the window's end. */
-  after_end: number;
-  /** Rows of series that measures read, before the collection start c (warm-up or start):
-   *  levels still take their value from them; observations and counts leave them out. */
-  before_window: number;
-  /** Rows of series no measure reads. */
-  unused_series: number;
-}
 
 /** Audit of one input file. */
 export interface InputRecord {
@@ -175,4 +93,39 @@ export interface StudyOutcome {
   traces: LevelTrace[];
   samples: ObservationSample[];
   warnings: Warning[];
+  readings: Readings;
+}
+
+/** What the interval of a comparison's difference a − b says. */
+export type ComparisonReading = "higher" | "lower" | "no-difference" | "no-interval";
+
+/** The lag-1 check of one run's batch means: within the limit, above it, or no lag-1 (too few batches). */
+export interface BatchMeansReading {
+  scenario: string;
+  run: string;
+  measure: string;
+  lag1: "ok" | "too-large" | "none";
+}
+
+/** The share of the window's time at each value of a level, averaged over a scenario's runs. */
+export interface TimeAtValueMean {
+  scenario: string;
+  measure: string;
+  /** Runs with a time-at-value table (averaged), of the scenario's runs. */
+  runs: number;
+  of: number;
+  shares: { value: number; share: number }[];
+}
+
+/**
+ * The decisions the study made about its numbers (src/study/readings.ts), beside results.json
+ * and not written to it: the report only puts them into words and pictures.
+ */
+export interface Readings {
+  /** The lag-1 limit the batch-means check used. */
+  lag1Limit: number;
+  /** One per comparison, in the order of `results.comparisons`. */
+  comparisons: ComparisonReading[];
+  batchMeans: BatchMeansReading[];
+  timeAtValue: TimeAtValueMean[];
 }
