@@ -5,7 +5,7 @@ import { makeRecord, recordJson, type StudyRecord } from "./record.js";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { StagedDir } from "./outputDir.js";
-import { errorCode, outputFs, type OutputFs } from "./fileSystem.js";
+import { errorCode, outputFs, type OutputFs } from "../fileSystem.js";
 import { studyInputs } from "./ownership.js";
 import { onInterrupt } from "../interrupt.js";
 import * as msg from "../messages/output.js";
@@ -27,7 +27,7 @@ export interface PublishOptions {
   workers?: number;
   /** Take the runs from per-run summaries in this folder (see `RunStudyOptions.fromSummaries`). */
   fromSummaries?: string;
-  /** The calls that write the folder (tests make one fail); default node:fs (src/record/fileSystem.ts). */
+  /** The calls that write the folder (tests make one fail); default node:fs (src/fileSystem.ts). */
   fs?: OutputFs;
 }
 
