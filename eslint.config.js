@@ -1,6 +1,31 @@
 import js from "@eslint/js";
 import tseslint from "typescript-eslint";
 
+/**
+ * Which phase may import which (the data path of src/): a folder
+ * never imports the phases after it. Each entry: the folder, and the folders it must not import.
+ * Patterns match the import path as written, so `../study/x.js` and `../../study/x.js` both count.
+ */
+export const IMPORT_DIRECTIONS = {
+  outcome: ["measures", "study", "report", "record", "cli"],
+  measures: ["study", "report", "record", "cli"],
+  stats: ["study", "report", "record", "cli"],
+  study: ["report", "record", "cli"],
+  report: ["record", "cli", "ingest"],
+};
+
+const directions = Object.entries(IMPORT_DIRECTIONS).map(([folder, banned]) => ({
+  files: [`src/${folder}/**/*.ts`],
+  rules: {
+    "no-restricted-imports": ["error", {
+      patterns: banned.map((b) => ({
+        group: [`**/${b}/*`, `**/${b}/**`],
+        message: `src/${folder}/ must not import src/${b}/ (eslint.config.js IMPORT_DIRECTIONS).`,
+      })),
+    }],
+  },
+}));
+
 export default tseslint.config(
   { ignores: ["dist/**", "node_modules/**", "demo-study/**", "coverage/**"] },
   js.configs.recommended,
@@ -11,4 +36,5 @@ export default tseslint.config(
       "no-constant-condition": ["error", { checkLoops: false }],
     },
   },
+  ...directions,
 );

@@ -121,7 +121,7 @@ export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; qui
   const progress = progressTo(o.quiet);
   progress?.("generating the invented ferry check-in study (seeded, 2 scenarios x 8 runs)");
   const { folderError, makeFolders } = await import("../record/outputDir.js");
-  const { nodeFs } = await import("../record/fileSystem.js");
+  const { nodeFs } = await import("../fileSystem.js");
   let manifest: string;
   try {
     // one level at a time: node's recursive mkdir never returns on some file systems (/proc)

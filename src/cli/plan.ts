@@ -1,5 +1,5 @@
 import type { Measure, Study } from "../manifest/types.js";
-import type { StudyOutcome } from "../study/outcome.js";
+import type { StudyOutcome } from "../outcome/index.js";
 
 function reads(m: Measure): string {
   switch (m.kind) {

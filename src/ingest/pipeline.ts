@@ -20,7 +20,7 @@ import { availableParallelism } from "node:os";
 import { fileURLToPath } from "node:url";
 import { Worker, isMainThread } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
-import type { ReadOptions, ReadReport } from "./readRun.js";
+import type { ReadOptions, ReadReport } from "./readTypes.js";
 
 /**
  * Files at least this large are parsed on a second thread; `SOJOURN_PARALLEL_BYTES` overrides it

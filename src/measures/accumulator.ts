@@ -1,5 +1,5 @@
 import type { BuiltTable } from "./table.js";
-import type { RunStats } from "../study/outcome.js";
+import type { RunStats } from "../outcome/index.js";
 import type { TraceLine } from "./trace.js";
 
 /** One series a measure reads; `entity` asks the reader to decode the entity cell. */

@@ -1,5 +1,5 @@
 import type { CountMeasure } from "../manifest/types.js";
-import type { CountRunStats } from "../study/outcome.js";
+import type { CountRunStats } from "../outcome/index.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import type { MeasureSetup } from "./setup.js";
 import { TableBuilder } from "./table.js";

@@ -1,7 +1,7 @@
 import { Adder } from "../stats/adder.js";
 import * as msg from "../messages/study.js";
 import type { LevelMeasure } from "../manifest/types.js";
-import type { LevelRunStats } from "../study/outcome.js";
+import type { LevelRunStats } from "../outcome/index.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import { type IntervalSink, LevelTracker } from "./intervals.js";
 import { LevelStats } from "./levelStats.js";

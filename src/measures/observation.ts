@@ -2,7 +2,7 @@ import { Adder } from "../stats/adder.js";
 import { describe } from "../stats/moments.js";
 import * as msg from "../messages/study.js";
 import type { ObservationMeasure } from "../manifest/types.js";
-import type { ObservationRunStats } from "../study/outcome.js";
+import type { ObservationRunStats } from "../outcome/index.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import type { MeasureSetup } from "./setup.js";
 import { EntityVisits } from "./visits.js";

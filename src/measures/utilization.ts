@@ -2,7 +2,7 @@ import { Adder } from "../stats/adder.js";
 import * as msg from "../messages/study.js";
 import { busyAboveCapacity, type OverCapacity } from "../messages/warnings.js";
 import type { UtilizationMeasure } from "../manifest/types.js";
-import type { UtilizationRunStats } from "../study/outcome.js";
+import type { UtilizationRunStats } from "../outcome/index.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import { EventBuffer } from "./events.js";
 import { LevelStats } from "./levelStats.js";

@@ -4,7 +4,7 @@ import { sha256 } from "../digest.js";
 import { onInterrupt } from "../interrupt.js";
 import * as msg from "../messages/output.js";
 import { UserError } from "../messages/index.js";
-import { errorCode, nodeFs, type OutputFs } from "./fileSystem.js";
+import { errorCode, nodeFs, type OutputFs } from "../fileSystem.js";
 import { firstForeign, inputInside, realLocation, type StudyInput } from "./ownership.js";
 
 export interface StagedDirOptions {

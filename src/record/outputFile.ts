@@ -26,7 +26,7 @@ import { QUANTILE_COLUMNS, WITHIN_COLUMNS } from "../measures/quantiles.js";
 import { UTILIZATION_COLUMNS, UTILIZATION_SERIES_COLUMNS } from "../measures/utilization.js";
 import * as msg from "../messages/output.js";
 import { SUMMARY_FORMAT } from "../study/runSummary.js";
-import { errorCode, outputFs, type OutputFs } from "./fileSystem.js";
+import { errorCode, outputFs, type OutputFs } from "../fileSystem.js";
 import { makeFolders, stagePrefix } from "./outputDir.js";
 import { inputAt, realLocation, type StudyInput } from "./ownership.js";
 

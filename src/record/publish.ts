@@ -5,12 +5,12 @@ import { makeRecord, recordJson, type StudyRecord } from "./record.js";
 import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { StagedDir } from "./outputDir.js";
-import { errorCode, outputFs, type OutputFs } from "./fileSystem.js";
+import { errorCode, outputFs, type OutputFs } from "../fileSystem.js";
 import { studyInputs } from "./ownership.js";
 import { onInterrupt } from "../interrupt.js";
 import * as msg from "../messages/output.js";
 import { toolVersion } from "./version.js";
-import type { StudyOutcome } from "../study/outcome.js";
+import type { StudyOutcome } from "../outcome/index.js";
 import { mark } from "../timing.js";
 import { loadTQuantile } from "../stats/tQuantile.js";
 
@@ -27,7 +27,7 @@ export interface PublishOptions {
   workers?: number;
   /** Take the runs from per-run summaries in this folder (see `RunStudyOptions.fromSummaries`). */
   fromSummaries?: string;
-  /** The calls that write the folder (tests make one fail); default node:fs (src/record/fileSystem.ts). */
+  /** The calls that write the folder (tests make one fail); default node:fs (src/fileSystem.ts). */
   fs?: OutputFs;
 }
 
@@ -47,7 +47,7 @@ export function resultsJson(outcome: StudyOutcome): string {
  * the report's date, so that `verify` can make the page again from the record.
  */
 export async function reportHtml(study: Study, outcome: StudyOutcome, meta: { toolVersion: string; generatedAt: string }): Promise<string> {
-  const [{ buildReportModel }, { renderHtml }] = await Promise.all([import("../report/model.js"), import("../report/html.js")]);
+  const [{ buildReportModel }, { renderHtml }] = await Promise.all([import("../report/model/index.js"), import("../report/html.js")]);
   return renderHtml(buildReportModel(study, outcome, meta));
 }
 
@@ -80,7 +80,7 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
       writeTable: (file, csv) => staged.write(file, csv),
     });
     // The report's modules (templates, chart renderer) and the t quantile load while the runs are read.
-    const reportModules = Promise.all([import("../report/model.js"), import("../report/html.js")]);
+    const reportModules = Promise.all([import("../report/model/index.js"), import("../report/html.js")]);
     setImmediate(loadTQuantile);
     const { outcome } = await computed;
     mark("runs analysed");

@@ -1,6 +1,6 @@
 import { basename, dirname, relative, resolve, sep } from "node:path";
 import type { Study } from "../manifest/types.js";
-import type { InputRecord } from "../study/outcome.js";
+import type { InputRecord } from "../outcome/index.js";
 import { sha256 } from "../digest.js";
 import { checkShape, type Shape, shapeText } from "../shape.js";
 import { INPUT_RECORD_SHAPE } from "../study/runSummary.js";

@@ -5,7 +5,7 @@ import type { Study } from "../manifest/types.js";
 import * as msg from "../messages/verify.js";
 import { UserError } from "../messages/index.js";
 import { runStudy } from "../study/runStudy.js";
-import type { StudyOutcome } from "../study/outcome.js";
+import type { StudyOutcome } from "../outcome/index.js";
 import { sha256 } from "../digest.js";
 import { reportHtml, resultsJson } from "./publish.js";
 import { parseRecord, recordedManifest, type StudyRecord } from "./record.js";

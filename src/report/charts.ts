@@ -5,7 +5,7 @@
  * Every chart states the time unit on its time axis or in its value axis title.
  */
 import type { TopLevelSpec } from "vega-lite";
-import type { TraceLine } from "../measures/trace.js";
+import type { TraceLine } from "../outcome/index.js";
 import { fsum } from "../stats/fsum.js";
 
 /** The report's palette; the CSS in templates/report.css uses the same values. */

@@ -14,7 +14,7 @@ import { compile } from "vega-lite";
 import { parse, View } from "vega";
 import type { TopLevelSpec } from "vega-lite";
 import { reportMessages } from "../messages/index.js";
-import type { Chart, ReportModel } from "./model.js";
+import type { Chart, ReportModel } from "./model/index.js";
 import { precompiled } from "../precompiled.js";
 
 /** The templates folder: `templates/` at the package root, from `src/report/` and `dist/report/` alike. */

@@ -8,7 +8,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { onInterrupt } from "../interrupt.js";
 import { reportMessages } from "../messages/index.js";
-import { errorCode, nodeFs, type OutputFs } from "../record/fileSystem.js";
+import { errorCode, nodeFs, type OutputFs } from "../fileSystem.js";
 
 /** Where to look for a browser when neither `--chrome` nor SOJOURN_CHROME names one. */
 export const CHROME_CANDIDATES = [

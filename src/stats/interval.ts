@@ -4,7 +4,7 @@ import { tQuantile } from "./tQuantile.js";
 
 /**
  * The arithmetic of one across-run interval, before it is labelled with scenario and measure
- * (`IntervalArithmetic` in src/study/outcome.ts extends it with those labels).
+ * (`IntervalArithmetic` in src/outcome/studyOutcome.ts extends it with those labels).
  */
 export interface IntervalSteps {
   rows: { run: string; value: number; deviation: number; squared: number }[];

@@ -7,7 +7,7 @@
 import { closest } from "../manifest/didYouMean.js";
 import type { Measure, Scenario, Study } from "../manifest/types.js";
 import * as studyMessages from "../messages/study.js";
-import type { InputRecord, Warning } from "./outcome.js";
+import type { InputRecord, Warning } from "../outcome/index.js";
 
 /** The series a measure reads, in the order its definition names them. */
 export function seriesOf(m: Measure): string[] {

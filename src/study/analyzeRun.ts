@@ -4,7 +4,7 @@ import { createAccumulator } from "../measures/create.js";
 import type { MeasureSetup } from "../measures/setup.js";
 import { makeWindow, type RunWindow } from "../measures/window.js";
 import type { Measure, RunRef, Scenario, TableOptions } from "../manifest/types.js";
-import type { InputRecord, RunResult } from "./outcome.js";
+import type { InputRecord, RunResult } from "../outcome/index.js";
 import { nonFinitePath } from "./finite.js";
 import { closest } from "../manifest/didYouMean.js";
 import * as studyMessages from "../messages/study.js";

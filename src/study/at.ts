@@ -1,6 +1,7 @@
 import * as msg from "../messages/study.js";
 import type { Study } from "../manifest/types.js";
 import type { Cell } from "../measures/table.js";
+import type { LevelRunStats, UtilizationRunStats } from "../outcome/index.js";
 import { analyzeRun } from "./analyzeRun.js";
 import { locate } from "./locate.js";
 import { resolveWarmup } from "./warmup.js";
@@ -40,7 +41,8 @@ export async function timeAverageAt(study: Study, names: { scenario: string; run
     slice: null,
   });
   const out = a.outputs.get(measure.name)!;
-  const stats = out.stats as Record<string, number>;
+  // A time average at t is asked of a level or utilization measure only (checked by the caller).
+  const stats = out.stats as LevelRunStats | UtilizationRunStats;
   const duration = t - c;
   const table = out.tables[0].table;
   const lines: string[] = [];
@@ -64,7 +66,7 @@ export async function timeAverageAt(study: Study, names: { scenario: string; run
     lines.push(`Time average = area / duration = ${stats.area} / ${duration} = ${mean}`);
   } else {
     mean = stats.value;
-    lines.push(`Utilization = busy area / capacity area = ${stats.area} / ${stats.capacity_area} = ${mean}`);
+    lines.push(`Utilization = busy area / capacity area = ${stats.area} / ${(stats as UtilizationRunStats).capacity_area} = ${mean}`);
   }
   return { result: { time: t, area: stats.area, duration, mean }, lines };
 }

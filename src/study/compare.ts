@@ -1,6 +1,6 @@
 import { bonferroniLevel, type DifferenceInterval, pairedInterval, welchInterval } from "../stats/compare.js";
 import type { Study } from "../manifest/types.js";
-import type { Results, RunResult } from "./outcome.js";
+import type { Comparison, Results, RunResult } from "../outcome/index.js";
 import { runBatchMeans } from "./summaries.js";
 import * as batchMessages from "../messages/batchMeans.js";
 
@@ -20,7 +20,7 @@ export function valuesOf(runs: RunResult[], measure: string): Map<string, number
  * Paired: runs matched by run id (common random numbers), t on the differences a − b. Welch:
  * difference of means with the Welch–Satterthwaite degrees of freedom (Welch 1947).
  */
-export function compareScenarios(study: Study, results: Results): Record<string, unknown>[] {
+export function compareScenarios(study: Study, results: Results): Comparison[] {
   const K = study.comparisons.length;
   if (K === 0) return [];
   const each = bonferroniLevel(study.confidence, K);

@@ -4,7 +4,7 @@ import { type BuiltTable, type Cell, tableToCsv } from "../measures/table.js";
 import { bonferroniLevel } from "../stats/compare.js";
 import { pairedSteps, type PairedSteps, type SpreadSteps, welchSteps, type WelchSide, type WelchSteps } from "../stats/differenceSteps.js";
 import { longRunValues, valuesOf } from "./compare.js";
-import type { ComparisonArithmetic, Results } from "./outcome.js";
+import type { ComparisonArithmetic, Results } from "../outcome/index.js";
 import { meanCorrectionMatters, safeName, type TableFile } from "./tables.js";
 
 /**

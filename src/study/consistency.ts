@@ -1,14 +1,8 @@
 import type { LevelMeasure, ObservationMeasure, Scenario } from "../manifest/types.js";
+import type { Check, LevelRunStats, ObservationRunStats } from "../outcome/index.js";
 import type { RunAnalysis } from "./analyzeRun.js";
 
-export interface Check {
-  check: "littles-law" | "conservation" | "utilization-range" | "level-non-negative";
-  run: string;
-  measure: string;
-  passed: boolean;
-  message: string;
-  [detail: string]: unknown;
-}
+export type { Check };
 
 /** Relative difference |a − b| / max(|a|, |b|), 0 when both are 0. */
 function relDiff(a: number, b: number): number {
@@ -43,7 +37,8 @@ export function runChecks(scenario: Scenario, a: Pick<RunAnalysis, "result" | "o
   const run = a.result.id;
   for (const lm of entityLevels) {
     const src = lm.source as { enter: string; leave: string };
-    const st = a.result.measures[lm.name] as Record<string, number>;
+    // An entity level always carries entered, left and inside_at_end (measures/level.ts).
+    const st = a.result.measures[lm.name] as LevelRunStats & Required<Pick<LevelRunStats, "entered" | "left" | "inside_at_end">>;
     const out = a.outputs.get(lm.name)!;
     const atStart = (out.tables[0].table.rows[0]?.[1] as number | undefined) ?? lm.initial;
     const insideAtStart = atStart - lm.initial;
@@ -61,8 +56,8 @@ export function runChecks(scenario: Scenario, a: Pick<RunAnalysis, "result" | "o
     for (const om of entityDurations) {
       const os = om.source as { start: string; end: string };
       if (os.start !== src.enter || os.end !== src.leave) continue;
-      const obs = a.result.measures[om.name] as Record<string, number | null>;
-      const n = obs.n as number;
+      const obs = a.result.measures[om.name] as ObservationRunStats;
+      const n = obs.n;
       const T = st.duration;
       // L is the time-average number inside: the level less its `initial` (a level that starts at
       // 3 with nobody inside has L = 0, not 3). Older run summaries lack insideArea.
@@ -89,7 +84,8 @@ export function runChecks(scenario: Scenario, a: Pick<RunAnalysis, "result" | "o
   for (const m of scenario.measures) {
     if (m.kind !== "utilization") continue;
     const u = a.result.measures[m.name].value as number;
-    checks.push({ check: "utilization-range", run, measure: m.name, passed: u >= 0 && u <= 1, message: `utilization ${u} ${u >= 0 && u <= 1 ? "lies" : "does not lie"} within [0, 1]` });
+    const within = u >= 0 && u <= 1;
+    checks.push({ check: "utilization-range", run, measure: m.name, passed: within, message: `utilization ${u} ${within ? "lies" : "does not lie"} within [0, 1]` });
   }
   return checks;
 }

@@ -7,8 +7,9 @@ import { checkSeriesPresent } from "./absentSeries.js";
 import { compareScenarios } from "./compare.js";
 import { comparisonArithmetic, comparisonTableFile } from "./comparisonTables.js";
 import { type Check, runChecks } from "./consistency.js";
-import type { InputRecord, LevelTrace, Results, RunResult, ScenarioResult, StudyOutcome, TableRecord, Warning } from "./outcome.js";
+import type { InputRecord, LevelTrace, Results, RunResult, RunStats, ScenarioResult, StudyOutcome, TableRecord, Warning } from "../outcome/index.js";
 import { EvenSample, thinned } from "./sample.js";
+import { LAG1_LIMIT, lag1TooLarge, readResults } from "./readings.js";
 import { intervalChoice, summarizeMeasure } from "./summaries.js";
 import { intervalTable, intervalTablePath, PREVIEW_RUNS, tableFile } from "./tables.js";
 import { type ResolvedWarmup, resolveWarmup } from "./warmup.js";
@@ -100,6 +101,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     comparisons: [],
     traces: [],
     samples: [],
+    readings: { lag1Limit: LAG1_LIMIT, comparisons: [], batchMeans: [], timeAtValue: [] },
     warnings: [],
   };
   const writeTable = options.writeTable ?? (() => {});
@@ -217,6 +219,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     writeTable(f.record.file, f.csv);
     outcome.tables.push(f.record);
   }
+  outcome.readings = readResults(outcome.results);
   assertDistinctFiles(outcome.tables);
   return { outcome };
 }
@@ -261,7 +264,9 @@ function addBatchMeans(a: RunAnalysis, measure: string, k: number, confidence: n
   }
   if (means === null) return;
   const bm = batchMeansInterval(means, confidence);
-  a.result.measures[measure].batch_means = {
+  // Batch means come from a level, utilization or observation measure (a count has neither).
+  const stats = a.result.measures[measure] as Exclude<RunStats, { kind: "count" }>;
+  stats.batch_means = {
     batches: bm.batches,
     mean: bm.mean,
     half_width: bm.half_width,
@@ -273,12 +278,12 @@ function addBatchMeans(a: RunAnalysis, measure: string, k: number, confidence: n
     t: bm.t,
     batch_values: means,
   };
-  if (bm.lag1 !== null && Math.abs(bm.lag1) > 0.2) {
+  if (bm.lag1 !== null && lag1TooLarge(bm.lag1)) {
     warnings.push({
       scenario,
       run: a.result.id,
       measure,
-      message: `the lag-1 autocorrelation of the ${k} batch means is ${bm.lag1.toFixed(3)} (above 0.2 in size): the batches are probably too short to be independent. Use fewer, larger batches (e.g. ${Math.max(2, Math.floor(k / 2))}) or a longer run.`,
+      message: `the lag-1 autocorrelation of the ${k} batch means is ${bm.lag1.toFixed(3)} (above ${LAG1_LIMIT} in size): the batches are probably too short to be independent. Use fewer, larger batches (e.g. ${Math.max(2, Math.floor(k / 2))}) or a longer run.`,
     });
   }
 }

@@ -1,7 +1,7 @@
 import { intervalArithmetic } from "../stats/interval.js";
 import { runsNeeded } from "../stats/runsNeeded.js";
 import type { Analysis, Measure } from "../manifest/types.js";
-import type { BatchMeansSummary, IntervalArithmetic, IntervalMethod, RunResult, Summary } from "./outcome.js";
+import type { BatchMeansFigures, BatchMeansSummary, IntervalArithmetic, IntervalMethod, RunResult, Summary } from "../outcome/index.js";
 import { nonFinitePath } from "./finite.js";
 import * as studyMessages from "../messages/study.js";
 import * as batchMessages from "../messages/batchMeans.js";
@@ -53,7 +53,7 @@ export function summarizeMeasure(
     }
     return out;
   };
-  const stats = (r: RunResult) => r.measures[measure.name] as Record<string, unknown>;
+  const stats = (r: RunResult) => r.measures[measure.name] as unknown as Record<string, unknown>;
   const summary = interval("value", (r) => stats(r).value);
   const early = sortedIds(runs.filter((r) => r.ends_early === true));
   if (early.length > 0) summary.runs_ending_early = early;
@@ -85,24 +85,10 @@ export function summarizeMeasure(
   return { summary, intervals };
 }
 
-/** The `batch_means` figures of one run measure, as `runStudy` writes them. */
-interface RunBatchMeans {
-  batches: number;
-  mean: number | null;
-  sd: number | null;
-  df: number | null;
-  t: number | null;
-  half_width: number | null;
-  ci_low: number | null;
-  ci_high: number | null;
-  lag1: number | null;
-  batch_values: number[];
-}
-
 /** A run measure's batch means, or null when the run has none for it. */
-export function runBatchMeans(run: RunResult, measure: string): RunBatchMeans | null {
-  const bm = (run.measures[measure] as Record<string, unknown> | undefined)?.batch_means;
-  return bm !== null && typeof bm === "object" ? (bm as RunBatchMeans) : null;
+export function runBatchMeans(run: RunResult, measure: string): BatchMeansFigures | null {
+  const stats = run.measures[measure];
+  return stats !== undefined && stats.kind !== "count" ? (stats.batch_means ?? null) : null;
 }
 
 /**

@@ -1,6 +1,6 @@
 import { sha256 } from "../digest.js";
 import { type BuiltTable, tableToCsv } from "../measures/table.js";
-import type { IntervalArithmetic, TableRecord } from "./outcome.js";
+import type { IntervalArithmetic, TableRecord } from "../outcome/index.js";
 
 /**
  * A user's name (scenario, run or measure) as one part of a file name, the same on every file

@@ -1,13 +1,14 @@
 import { mser } from "../stats/mser5.js";
 import { fsum } from "../stats/fsum.js";
 import type { Scenario, Study } from "../manifest/types.js";
+import type { RunsWarmupEstimate, WarmupEstimate } from "../outcome/index.js";
 import type { AnalyzeRuns } from "./pool.js";
 import { inProcess } from "./pool.js";
 
 /** The warm-up of a scenario once resolved, with the estimate behind it when one was made. */
 export interface ResolvedWarmup {
   time: number | null;
-  estimate: Record<string, unknown> | null;
+  estimate: WarmupEstimate | null;
   warnings: string[];
 }
 
@@ -69,7 +70,7 @@ export async function resolveWarmup(study: Study, scenario: Scenario, analyze: A
     };
   }
   let best: { time: number; d: number; batches: number } | null = null;
-  const runs: Record<string, unknown>[] = [];
+  const runs: RunsWarmupEstimate["runs"] = [];
   for (const [i, run] of scenario.runs.entries()) {
     const { d, batches, first, atLimit } = choices[i];
     runs.push({ run: run.id, d, batches, time: first, at_limit: atLimit });

@@ -1257,7 +1257,7 @@ export const CASES: BadInputCase[] = [
   {
     id: "out-read-only",
     title: "An output folder on a read-only file system (simulated)",
-    what: "The file system refuses every write with EROFS, as a disk mounted read-only does. The test simulates it with `SOJOURN_TEST_FAULT` (src/record/fileSystem.ts), since a real read-only mount needs privileges.",
+    what: "The file system refuses every write with EROFS, as a disk mounted read-only does. The test simulates it with `SOJOURN_TEST_FAULT` (src/fileSystem.ts), since a real read-only mount needs privileges.",
     files: { [STUDY]: manifest(QUEUE), "runs/day-1.csv": GOOD_CSV },
     env: { SOJOURN_TEST_FAULT: "EROFS:mkdir:report" },
     show: [],

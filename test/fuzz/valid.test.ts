@@ -83,7 +83,7 @@ async function checkStudy(study: GenStudy): Promise<void> {
     const refs = sc.runs.map((run) => runRef(study, s, run));
     sc.runs.forEach((run, i) => {
       const r = refs[i];
-      const m = got.runs[i].measures as Record<string, Record<string, unknown>>;
+      const m = got.runs[i].measures as unknown as Record<string, Record<string, unknown>>;
       const where = `${sc.name}/${run.id}`;
       expect(got.runs[i].id).toBe(run.id);
       const input = outcome.inputs.find((x) => x.scenario === sc.name && x.run === run.id)!;
@@ -128,7 +128,7 @@ async function checkStudy(study: GenStudy): Promise<void> {
     });
 
     // across runs (CONTRACT.md section 4)
-    const summary = got.summary as Record<string, Record<string, unknown>>;
+    const summary = got.summary as unknown as Record<string, Record<string, unknown>>;
     compareSummary(summary[N.level], summaryRef(refs.map((r) => r.level.mean), study.confidence), `${sc.name} summary level`);
     compareSummary(summary[N.util], summaryRef(refs.map((r) => r.util.value), study.confidence), `${sc.name} summary utilization`);
     compareSummary(summary[N.obs], summaryRef(refs.map((r) => r.obs.mean), study.confidence), `${sc.name} summary observation`);

@@ -14,7 +14,7 @@ import type { Measure, Study } from "../../src/manifest/types.js";
 import { ingestMessages, initMessages } from "../../src/messages/index.js";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { runStudy } from "../../src/study/runStudy.js";
-import type { Results } from "../../src/study/outcome.js";
+import type { Results } from "../../src/outcome/index.js";
 import { sojourn } from "../helpers/cli.js";
 
 const EXAMPLES = join(import.meta.dirname, "..", "..", "examples");

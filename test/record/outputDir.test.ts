@@ -1,7 +1,7 @@
 /**
  * A report folder is replaced whole or not at all (src/record/outputDir.ts, publish.ts), also
  * when the system fails: a full disk, a read-only place, a name too long. The failures come
- * through the file-system seam (src/record/fileSystem.ts), and, where the machine lets us mount
+ * through the file-system seam (src/fileSystem.ts), and, where the machine lets us mount
  * a small tmpfs (root on Linux), from a real full or read-only disk. The study is invented.
  */
 import { execFileSync } from "node:child_process";
@@ -12,7 +12,7 @@ import { afterAll, afterEach, describe, expect, it } from "vitest";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { UserError } from "../../src/messages/index.js";
 import * as msg from "../../src/messages/output.js";
-import { faultyFs, nodeFs, type OutputFs, systemError } from "../../src/record/fileSystem.js";
+import { faultyFs, nodeFs, type OutputFs, systemError } from "../../src/fileSystem.js";
 import { publishStudy } from "../../src/record/publish.js";
 import { stagePrefix } from "../../src/record/outputDir.js";
 import { folderSnapshot } from "../helpers/tempStudy.js";

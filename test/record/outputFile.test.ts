@@ -11,7 +11,7 @@ import { loadStudy } from "../../src/manifest/loadStudy.js";
 import type { Study } from "../../src/manifest/types.js";
 import { UserError } from "../../src/messages/index.js";
 import * as msg from "../../src/messages/output.js";
-import { faultyFs, nodeFs } from "../../src/record/fileSystem.js";
+import { faultyFs, nodeFs } from "../../src/fileSystem.js";
 import { notOwnSummary, notOwnTable, TABLE_HEADERS, writeOwnFiles } from "../../src/record/outputFile.js";
 import { studyInputs } from "../../src/record/ownership.js";
 import { fullTable } from "../../src/study/fullTable.js";

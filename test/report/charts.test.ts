@@ -2,7 +2,7 @@ import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { Ajv } from "ajv";
 import fc from "fast-check";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { ecdfSteps, evenSample, welchMovingAverage, welchWindow } from "../../src/report/charts.js";
 import { bakery } from "./fixtures/bakery.js";
 

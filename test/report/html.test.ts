@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { renderHtml, renderChartSvg } from "../../src/report/html.js";
 import { HOSTILE, bakery } from "./fixtures/bakery.js";
 

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { compile, type TopLevelSpec } from "vega-lite";
 import { parse, View } from "vega";
 import { axisTitle, histogramChart } from "../../src/report/charts.js";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { renderHtml } from "../../src/report/html.js";
 import { csv } from "../helpers/tempStudy.js";
 import { studyOf } from "../helpers/runStudyFrom.js";

@@ -15,7 +15,7 @@ import { sha256 } from "../../src/digest.js";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { UserError } from "../../src/messages/index.js";
 import * as msg from "../../src/messages/output.js";
-import { faultyFs, nodeFs } from "../../src/record/fileSystem.js";
+import { faultyFs, nodeFs } from "../../src/fileSystem.js";
 import { publishStudy } from "../../src/record/publish.js";
 import { findChrome } from "../../src/report/pdf.js";
 import { sojourn } from "../helpers/cli.js";

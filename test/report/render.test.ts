@@ -10,7 +10,7 @@ import { join, resolve } from "node:path";
 import { pathToFileURL } from "node:url";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import puppeteer, { type Browser } from "puppeteer-core";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { renderHtml } from "../../src/report/html.js";
 import { CHROME_FLAGS, findChrome, renderPdf } from "../../src/report/pdf.js";
 import { bakery } from "./fixtures/bakery.js";

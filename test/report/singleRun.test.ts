@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { csv } from "../helpers/tempStudy.js";
 import { studyOf } from "../helpers/runStudyFrom.js";
 

@@ -15,7 +15,7 @@ import { parse, View } from "vega";
 import { studyOf } from "../helpers/runStudyFrom.js";
 import { fullTable } from "../../src/study/fullTable.js";
 import { traceChart, tracedAsBand } from "../../src/report/charts.js";
-import type { LevelTrace } from "../../src/study/outcome.js";
+import type { LevelTrace } from "../../src/outcome/index.js";
 import { uniform } from "../../src/demo/random.js";
 
 const PIXEL = 1;

@@ -11,7 +11,7 @@ import { Ajv, type ValidateFunction } from "ajv";
 import { parse } from "yaml";
 import { describe, expect, it } from "vitest";
 import { AJV_OPTIONS } from "../../src/manifest/checkSchema.js";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { renderHtml as renderFromSources, templatesDigest } from "../../src/report/html.js";
 import { bakery } from "../report/fixtures/bakery.js";
 import { seeded } from "../ingest/helpers.js";

@@ -53,7 +53,7 @@ describe("comparison tables (tables/<a>/comparisons/)", () => {
     expect(step("df")).toBe(1);
     expect(step("comparisons")).toBe(3);
     expect(step("confidence_each")).toBe(1 - (1 - 0.9) / 3);
-    const row = outcome.results.comparisons as Record<string, number>[];
+    const row = outcome.results.comparisons!;
     expect([step("t"), step("half_width"), step("ci_low"), step("ci_high")]).toEqual([row[0].t, row[0].half_width, row[0].ci_low, row[0].ci_high]);
     expect(outcome.comparisons[0].unpaired).toEqual([{ scenario: "=hi", run: "r2", value: 6 }]);
   });
@@ -80,7 +80,7 @@ describe("comparison tables (tables/<a>/comparisons/)", () => {
     expect(step("share", "'=hi")).toBeCloseTo(13 / 25, 15);
     expect(step("share", "lo")).toBeCloseTo(12 / 25, 15);
     expect(step("df")).toBeCloseTo(1 / ((13 / 25) ** 2 / 2 + (12 / 25) ** 2), 13);
-    const row = (outcome.results.comparisons as Record<string, number>[])[1];
+    const row = (outcome.results.comparisons!)[1];
     expect([step("df"), step("t"), step("half_width"), step("ci_low"), step("ci_high")]).toEqual([row.df, row.t, row.half_width, row.ci_low, row.ci_high]);
   });
 

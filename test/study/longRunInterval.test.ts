@@ -6,7 +6,8 @@
 import jstat from "jstat";
 import { describe, expect, it } from "vitest";
 import * as batchMessages from "../../src/messages/batchMeans.js";
-import type { BatchMeansSummary, Summary } from "../../src/study/outcome.js";
+import type { BatchMeansSummary, Comparison, Summary } from "../../src/outcome/index.js";
+import { runBatchMeans } from "../../src/study/summaries.js";
 import { csv } from "../helpers/tempStudy.js";
 import { studyOf } from "../helpers/runStudyFrom.js";
 import { referenceT } from "../stats/reference.js";
@@ -89,7 +90,7 @@ describe("summary of a single long run with batch means", () => {
     close(bm.ci_low, mean - h, 1e-9);
     close(bm.ci_high, mean + h, 1e-9);
     // the same numbers as the run's own batch_means figures
-    const run = outcome.results.scenarios[0].runs[0].measures.wait.batch_means as Record<string, unknown>;
+    const run = runBatchMeans(outcome.results.scenarios[0].runs[0], "wait")!;
     expect([bm.mean, bm.sd, bm.half_width, bm.lag1]).toEqual([run.mean, run.sd, run.half_width, run.lag1]);
   });
 
@@ -150,7 +151,7 @@ describe("comparison of two single long runs", () => {
 
   it("Welch on the two sets of batch means, with the Welch–Satterthwaite degrees of freedom", async () => {
     const { outcome } = await studyOf(twoScenarios("welch"), files);
-    const c = (outcome.results.comparisons as Record<string, unknown>[])[0];
+    const c = outcome.results.comparisons![0] as Comparison;
     const ya = meanAndVariance(batchMeansByHand(a, 10));
     const yb = meanAndVariance(batchMeansByHand(b, 10));
     // Welch (1947), Satterthwaite (1946): se² = s_a²/n_a + s_b²/n_b, ν = se⁴ / ((s_a²/n_a)²/(n_a − 1) + (s_b²/n_b)²/(n_b − 1))
@@ -168,7 +169,7 @@ describe("comparison of two single long runs", () => {
     close(c.df as number, df, 1e-10);
     close(c.t as number, t, 1e-7);
     close(c.half_width as number, t * se, 1e-7);
-    const runA = outcome.results.scenarios[0].runs[0].measures.wait.batch_means as { lag1: number };
+    const runA = runBatchMeans(outcome.results.scenarios[0].runs[0], "wait")!;
     expect(c.lag1_a).toBe(runA.lag1);
     // Its calculation table is the arithmetic of the same batch means and ends with the same numbers.
     const steps = outcome.comparisons[0].steps;
@@ -180,7 +181,7 @@ describe("comparison of two single long runs", () => {
 
   it("a paired comparison of two single long runs gives no interval and says why", async () => {
     const { outcome } = await studyOf(twoScenarios("paired"), files);
-    const c = (outcome.results.comparisons as Record<string, unknown>[])[0];
+    const c = outcome.results.comparisons![0] as Comparison;
     expect(c.basis).toBe("batch-means");
     expect([c.half_width, c.ci_low, c.ci_high, c.df]).toEqual([null, null, null, null]);
     expect(c.verdict).toBe(`no interval: ${batchMessages.pairedLongRuns}`);

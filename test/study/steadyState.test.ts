@@ -70,7 +70,7 @@ describe("comparisons with Bonferroni levels", () => {
       `title: cmp\nconfidence: 0.9\nscenarios:\n  - {name: A, runs: "a/*.csv"}\n  - {name: B, runs: "b/*.csv"}\nmeasures:\n  - {name: wait, kind: observation, series: w}\ncompare:\n  - {measure: wait, scenarios: [A, B], method: paired}\n  - {measure: wait, scenarios: [A, B], method: welch}\n`,
       files,
     );
-    const cmp = outcome.results.comparisons as Record<string, number | string>[];
+    const cmp = outcome.results.comparisons as unknown as Record<string, number | string>[];
     expect(cmp).toHaveLength(2);
     // Bonferroni: each at 1 − 0.1/2 = 0.95
     expect(cmp[0].confidence_each).toBe(bonferroniLevel(0.9, 2));

@@ -1,7 +1,7 @@
 import Handlebars from "handlebars";
 import { describe, expect, it } from "vitest";
 import * as warn from "../../src/messages/warnings.js";
-import { buildReportModel } from "../../src/report/model.js";
+import { buildReportModel } from "../../src/report/model/index.js";
 import { renderHtml } from "../../src/report/html.js";
 import { LATE_FRACTION } from "../../src/study/runChecks.js";
 import { csv } from "../helpers/tempStudy.js";
@@ -29,7 +29,7 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     const s = outcome.results.scenarios[0].summary.w;
     // computed by hand: run means 3 and 4 over 2 of 3 runs
     expect(s).toMatchObject({ n: 2, mean: 3.5, runs_without_value: ["r2"] });
-    expect((s.quantiles as Record<string, Record<string, unknown>>)["0.5"].runs_without_value).toEqual(["r2"]);
+    expect(s.quantiles!["0.5"].runs_without_value).toEqual(["r2"]);
     // the count has a value in every run: no list
     expect(outcome.results.scenarios[0].summary.t.runs_without_value).toBeUndefined();
     const message = warn.runsWithoutValue(["r2"], 2, 3);

@@ -1,0 +1,167 @@
+/**
+ * The charts of a measure's section: interval and run values across runs, level traces,
+ * histogram and distribution of observations, and time at each value.
+ */
+import type { TopLevelSpec } from "vega-lite";
+import type { Measure, Study } from "../../manifest/types.js";
+import type { LevelTrace, StudyOutcome, TimeAtValueMean } from "../../outcome/index.js";
+import {
+  ecdfChart,
+  ecdfSteps,
+  evenSample,
+  histogramChart,
+  intervalChart,
+  MAX_ECDF_POINTS,
+  MAX_HISTOGRAM_VALUES,
+  runsChart,
+  timeAtValueChart,
+  traceChart,
+  tracedAsBand,
+} from "../charts.js";
+import { formatPercent } from "../number.js";
+import type { ReportContext } from "./anchors.js";
+import type { Chart } from "./view.js";
+import { fmt, primaryName, valueTitle } from "./words.js";
+
+/** The charts of one measure's section, with ids under the section's id. */
+export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: string): Chart[] {
+  const { study, outcome, results, unit, scenarioNames } = ctx;
+  const vTitle = valueTitle(m, unit);
+  const charts: Chart[] = [];
+  let chartNo = 0;
+  const chartId = (what: string) => `${id}-chart-${++chartNo}-${what}`;
+
+  // Charts across runs say nothing when no scenario has two runs (one dot, no interval).
+  if (results.scenarios.some((sr) => sr.runs.length >= 2)) charts.push({
+    id: chartId("interval"),
+    caption: `${name}: mean of the run values and its ${formatPercent(study.confidence)} confidence interval, by scenario (time unit ${unit}).`,
+    spec: intervalChart(results.scenarios.map((sr) => {
+      const s = sr.summary[name];
+      return { scenario: sr.name, mean: s?.mean ?? null, low: s?.ci_low ?? null, high: s?.ci_high ?? null, label: fmt(s?.mean ?? null) };
+    }), vTitle),
+  }, {
+    id: chartId("runs"),
+    caption: `${name}: each run's ${primaryName(m.kind)} (dots) and the scenario mean (bar) (time unit ${unit}).`,
+    spec: runsChart(results.scenarios.flatMap((sr) => sr.runs.flatMap((r) => {
+      const v = r.measures[name]?.value;
+      return v === undefined || v === null ? [] : [{ scenario: sr.name, run: r.id, value: v }];
+    })), scenarioNames, vTitle),
+  });
+  for (const sr of results.scenarios) {
+    const tr = outcome.traces.find((t) => t.scenario === sr.name && t.measure === name);
+    if (!tr) continue;
+    charts.push({ id: chartId("trace"), ...traceView(name, m.kind, sr.name, tr, unit) });
+  }
+  if (m.kind === "observation") {
+    const rows = outcome.samples.filter((s) => s.measure === name)
+      .flatMap((s) => evenSample(s.values, Math.floor(MAX_HISTOGRAM_VALUES / Math.max(1, results.scenarios.length))).map((value) => ({ scenario: s.scenario, value })));
+    if (rows.length > 0) {
+      const sampled = outcome.samples.filter((s) => s.measure === name).some((s) => s.values.length < s.total);
+      charts.push({
+        id: chartId("histogram"),
+        caption: `${name}: histogram of the observations inside the window, all runs of each scenario together` +
+          (m.kind === "observation" && m.source.type === "entities" ? ` (values in ${unit})` : "") + "." +
+          (sampled ? " Drawn from an even sample of the observations; the statistics use all of them." : ""),
+        spec: histogramChart(rows, scenarioNames, m.source.type === "entities" ? `${name} (${unit})` : `${name} (observed value)`, "observations"),
+      });
+    }
+    const ecdf = ecdfView(name, m, outcome.samples.filter((s) => s.measure === name), scenarioNames, study, unit);
+    if (ecdf !== null) charts.push({ id: chartId("distribution"), ...ecdf });
+  }
+  if (m.kind === "level" || m.kind === "utilization") {
+    const tav = timeAtValueView(name, m.kind, outcome.readings.timeAtValue, unit);
+    if (tav !== null) charts.push({ id: chartId("time-at-value"), ...tav });
+  }
+  return charts;
+}
+
+/** The empirical distribution chart of an observation measure, or null without samples. */
+function ecdfView(
+  name: string,
+  m: Measure,
+  samples: StudyOutcome["samples"],
+  scenarios: string[],
+  study: Study,
+  unit: string,
+): Omit<Chart, "id"> | null {
+  const rows = samples.flatMap((s) => ecdfSteps(s.values).map((p) => ({ scenario: s.scenario, value: p.value, share: p.share })));
+  if (rows.length === 0) return null;
+  const within = [...new Set(study.scenarios.flatMap((sc) => sc.measures)
+    .filter((x): x is Extract<Measure, { kind: "observation" }> => x.name === name && x.kind === "observation")
+    .flatMap((x) => x.within))].sort((a, b) => a - b);
+  const entities = m.kind === "observation" && m.source.type === "entities";
+  const sampled = samples.filter((s) => s.values.length < s.total);
+  const thinned = samples.some((s) => s.values.length > MAX_ECDF_POINTS);
+  const caption = [
+    `${name}: share of the observations at or below each value (empirical distribution), all runs of each scenario pooled` +
+      (entities ? `, values in ${unit}` : "") + ".",
+    within.length > 0
+      ? `Dashed rules mark the ${within.length === 1 ? "threshold" : "thresholds"} ${within.map((x) => fmt(x)).join(", ")}; the table of further figures gives the mean of the per-run shares within ${within.length === 1 ? "it" : "them"}, which can differ from the pooled share read here.`
+      : "",
+    ...sampled.map((s) => `${s.scenario}: drawn from a strided sample of ${fmt(s.values.length)} of the ${fmt(s.total)} observations.`),
+    thinned ? `Each line has at most ${MAX_ECDF_POINTS} steps, at evenly spaced ranks.` : "",
+    "The statistics use every observation.",
+  ].filter((x) => x !== "").join(" ");
+  return {
+    caption,
+    spec: ecdfChart({
+      rows,
+      scenarios: scenarios.filter((sc) => samples.some((s) => s.scenario === sc && s.values.length > 0)),
+      thresholds: within.map((x) => ({ value: x, label: `≤ ${fmt(x)}` })),
+      valueTitle: entities ? `${name} (${unit})` : `${name} (observed value)`,
+      shareTitle: "share of observations ≤ value",
+    }),
+  };
+}
+
+/** The time-at-value bar chart of a level or utilization, or null when no run has the figures. */
+function timeAtValueView(
+  name: string,
+  kind: "level" | "utilization",
+  means: TimeAtValueMean[],
+  unit: string,
+): Omit<Chart, "id"> | null {
+  const rows: { scenario: string; value: number; share: number }[] = [];
+  const partial: string[] = [];
+  const used: string[] = [];
+  // The means over the runs are the study's (src/study/readings.ts), in scenario order.
+  for (const t of means) {
+    if (t.measure !== name) continue;
+    used.push(t.scenario);
+    if (t.runs < t.of) partial.push(`${t.scenario}: ${t.runs} of ${t.of} runs`);
+    for (const s of t.shares) rows.push({ scenario: t.scenario, value: s.value, share: s.share });
+  }
+  if (rows.length === 0) return null;
+  return {
+    caption: `${name}: share of the window's time spent at each ${kind === "utilization" ? "number of busy units" : "value"} (time at the value ÷ window length, both in ${unit}), ` +
+      "averaged over the runs of each scenario; a run that never took a value counts as 0 for it." +
+      (partial.length > 0 ? ` Only the runs with a time-at-value table are averaged (${partial.join("; ")}).` : "") +
+      " Each run's own shares are in its time-at-value table in the appendix.",
+    spec: timeAtValueChart(rows, used, kind === "utilization" ? `${name}: busy units` : `${name}: level`, "share of time"),
+  };
+}
+
+/** A run's level over time: caption and chart (the level, or busy against capacity for a utilization). */
+function traceView(name: string, kind: Measure["kind"], scenario: string, tr: LevelTrace, unit: string): { caption: string; spec: TopLevelSpec } {
+  const band = tracedAsBand(tr);
+  const util = kind === "utilization";
+  const shape = band
+    ? `the ${util ? "busy level and the capacity" : "level"} as a band from the lowest to the highest value in each of ${tr.level.slices.length} equal slices of the window, with each slice's time average as a line (the run has too many changes to draw one by one; every row counts in the numbers)`
+    : util ? "the busy level (area under it shaded) and the capacity" : "the level (area under it shaded)";
+  const average = util
+    ? `the running utilization from ${fmt(tr.from)} ${unit} (busy area over capacity area so far, right axis)`
+    : `the running time average from ${fmt(tr.from)} ${unit} (area so far over elapsed time)`;
+  const caption = `${name} over time in run ${tr.run} of ${scenario}: ${shape}, and ${average}` +
+    (tr.from > tr.start ? `; the warm-up up to ${fmt(tr.from)} ${unit} is the grey band` : "") + ".";
+  const spec = traceChart({
+    start: tr.start, from: tr.from, to: tr.to, warmup: tr.warmup, level: tr.level, capacity: tr.capacity,
+    timeTitle: `time (${unit})`,
+    valueTitle: util ? `${name}: units busy and available` : `${name}: level`,
+    levelLabel: util ? "busy" : "level",
+    capacityLabel: "capacity",
+    averageLabel: util ? "running utilization" : "running time average",
+    averageTitle: util ? `${name}: running utilization` : null,
+    warmupLabel: "warm-up",
+  });
+  return { caption, spec };
+}

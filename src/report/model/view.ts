@@ -1,0 +1,188 @@
+/**
+ * The view types of the report model: what the templates place, every number already text.
+ */
+import type { TopLevelSpec } from "vega-lite";
+
+/** A number as shown, with the anchor of the place that derives it (or null). */
+export interface Cell {
+  text: string;
+  href: string | null;
+  /** Set on cells of columns that hold numbers: right-aligned, tabular figures. */
+  num?: boolean;
+  /** Set on cells of columns of short labels (run ids, scenario names), kept on one line. */
+  nowrap?: boolean;
+  /** Set on a cell that flags a problem (shown in the warning colour). */
+  flag?: boolean;
+}
+
+export interface Fact {
+  label: string;
+  value: string;
+}
+
+export interface ScenarioLine {
+  name: string;
+  runs: string;
+  window: string;
+  warmup: string;
+  analysis: string;
+}
+
+export interface SummaryRow {
+  measure: string;
+  measureHref: string;
+  /** Rows of the measure's block; set on its first row only (0 elsewhere). */
+  measureRows: number;
+  scenario: string;
+  mean: Cell;
+  halfWidth: Cell;
+  interval: Cell;
+  runs: string;
+  relative: Cell;
+  note: string | null;
+  /** What the row's interval rests on that a reader should know: runs left out, runs that stopped early. */
+  warnings: string[];
+}
+
+export interface Chart {
+  id: string;
+  caption: string;
+  spec: TopLevelSpec;
+}
+
+/** A plain table of text cells; a cell with `href` links to where it comes from. */
+export interface TableView {
+  caption: string;
+  columns: string[];
+  /** Per column: true when every cell is a number as shown (or missing). */
+  numeric: boolean[];
+  rows: Cell[][];
+}
+
+export const NUMERIC = /^(—|-?[0-9][0-9.e-]*( %)?|\[[^\]]*\])$/;
+
+/** A table view with its numeric columns marked. */
+export function tableView(caption: string, columns: string[], rows: Cell[][]): TableView {
+  const numeric = columns.map((_, j) => rows.length > 0 && rows.every((r) => NUMERIC.test(r[j]?.text ?? "")));
+  const short = columns.map((_, j) => !numeric[j] && rows.length > 0 && rows.every((r) => (r[j]?.text ?? "").length <= SHORT_LABEL));
+  return {
+    caption, columns, numeric,
+    rows: rows.map((r) => r.map((c, j) => (numeric[j] ? { ...c, num: true } : short[j] ? { ...c, nowrap: true } : c))),
+  };
+}
+
+/** Longest label kept on one line in a table column. */
+export const SHORT_LABEL = 16;
+
+export interface MeasureSection {
+  id: string;
+  name: string;
+  kind: string;
+  statement: string;
+  charts: Chart[];
+  runs: TableView;
+  extras: TableView | null;
+  batchMeans: TableView | null;
+  runsNeeded: TableView | null;
+}
+
+export interface MethodNote {
+  id: string;
+  term: string;
+  formula: string;
+  text: string;
+  source: string;
+}
+
+export interface WarningLine {
+  where: string;
+  message: string;
+}
+
+export interface InputLine {
+  scenario: string;
+  run: string;
+  file: string;
+  bytes: string;
+  rows: string;
+  used: string;
+  leftOut: string;
+  beforeWindow: string;
+  series: string;
+  sha256: string;
+}
+
+export interface CalcTable {
+  id: string;
+  heading: string;
+  /** One line on what the columns mean (share and quantile tables), or null. */
+  explain: string | null;
+  file: string;
+  sha256: string;
+  columns: string[];
+  /** Per column: false for a column of text (such as written-out arithmetic), which wraps. */
+  numeric: boolean[];
+  /** A row of cells, or a gap marker row with its text. */
+  rows: { cells: string[] | null; gap: string | null }[];
+  note: string;
+}
+
+export interface ArithmeticStep {
+  label: string;
+  formula: string;
+  value: string;
+}
+
+export interface IntervalView {
+  id: string;
+  heading: string;
+  rows: { run: string; value: Cell; deviation: string; squared: string }[];
+  steps: ArithmeticStep[];
+  note: string | null;
+}
+
+/** The warm-up estimate of one scenario: its figures, the warm-up plot, or the per-run table. */
+export interface WarmupView {
+  id: string;
+  scenario: string;
+  /** One sentence: what was estimated and the result. */
+  lead: string;
+  facts: Fact[];
+  chart: Chart | null;
+  runs: TableView | null;
+  /** Shown when MSER-5 stopped at its limit (half the batches). */
+  warning: string | null;
+}
+
+export interface ReportModel {
+  title: string;
+  generatedAt: string;
+  reportDate: string;
+  toolVersion: string;
+  timeUnit: string;
+  rule: string;
+  cover: { facts: Fact[]; scenarios: ScenarioLine[] };
+  contents: { href: string; label: string }[];
+  summary: { intro: string; rows: SummaryRow[] };
+  /** The warm-up estimates (MSER-5) with the warm-up plot; null when no scenario estimated one. */
+  warmup: { intro: string; scenarios: WarmupView[] } | null;
+  measures: MeasureSection[];
+  comparisons: { intro: string; table: TableView } | null;
+  methods: MethodNote[];
+  limitations: string[];
+  warnings: WarningLine[];
+  appendix: {
+    manifest: { file: string; text: string };
+    inputs: InputLine[];
+    inputsIntro: string;
+    tablesIntro: string;
+    tables: CalcTable[];
+    /** Where the tables not shown are (runs after the first `PREVIEW_RUNS` of a scenario); null when every table is shown. */
+    tablesElsewhere: { id: string; text: string } | null;
+    intervals: IntervalView[];
+    /** Consistency checks of the run data, one row per check and run; null when there are none. */
+    checks: { intro: string; table: TableView } | null;
+    /** The batch means of every run, per measure; null without batch means. */
+    batchValues: { intro: string; items: { id: string; table: TableView }[] } | null;
+  };
+}

@@ -1,0 +1,15 @@
+/**
+ * The warnings section: the study's warnings (a failed consistency check among them, added by the
+ * study), each with where it applies.
+ */
+import type { StudyOutcome } from "../../outcome/index.js";
+import type { WarningLine } from "./view.js";
+import { roundNumbersIn } from "./words.js";
+
+/** The warning lines: where (scenario › run › measure, or "study") and the message as shown. */
+export function warningLines(outcome: StudyOutcome): WarningLine[] {
+  return outcome.warnings.map((w) => ({
+    where: [w.scenario, w.run, w.measure].filter((x): x is string => x !== null).join(" › ") || "study",
+    message: roundNumbersIn(w.message),
+  }));
+}
