@@ -47,6 +47,19 @@ export function templatesDigest(page: string, partials: readonly (readonly [stri
   return hash.digest("hex");
 }
 
+/**
+ * `{{breakable text}}`: the text escaped, with a line-break opportunity (`<wbr>`) after each `_`,
+ * so that a column named `running_time_average` may wrap in a narrow printed table instead of
+ * widening it past the page.
+ */
+export function breakable(text: unknown): Handlebars.SafeString {
+  return new Handlebars.SafeString(Handlebars.escapeExpression(String(text ?? "")).replace(/_/g, "_<wbr>"));
+}
+
+function registerHelpers(hb: typeof Handlebars): void {
+  hb.registerHelper("breakable", breakable);
+}
+
 interface PrecompiledTemplates {
   sourceSha256: string;
   page: Parameters<typeof Handlebars.template>[0];
@@ -66,6 +79,7 @@ async function loadTemplates(): Promise<Templates> {
     const partials = await Promise.all(names.map(async (n) => [n.slice(0, -4), await readFile(new URL(n, partialsDir), "utf8")] as const));
     const pageText = await readFile(new URL("report.hbs", TEMPLATES_DIR), "utf8");
     const css = await readFile(new URL("report.css", TEMPLATES_DIR), "utf8");
+    registerHelpers(hb);
     const built = precompiled<PrecompiledTemplates>(import.meta.url, "./templates.cjs");
     if (built !== null && built.sourceSha256 === templatesDigest(pageText, partials)) {
       for (const [name] of partials) hb.registerPartial(name, hb.template(built.partials[name]));
