@@ -193,14 +193,18 @@ describe.skipIf(chrome === null || !pdftotext)("the printed report (examples)", 
         }
       });
 
-      it("no page ends with a heading, and the last page holds more than the colophon", () => {
+      it("no page ends with a heading, the last page holds more than the colophon, and the cover holds the colophon's facts", () => {
         const { html, pdf } = out.get(key) as Printed;
         const bodies = pageBodies(pdf);
         expect(headingsAtFoot(bodies, headings(html))).toEqual([]);
         const last = bodies[bodies.length - 1].join(" ");
         const colophon = last.indexOf("Made by Sojourn");
-        expect(colophon).toBeGreaterThanOrEqual(0);
-        expect(last.slice(0, colophon).trim().length).toBeGreaterThan(40);
+        expect((colophon < 0 ? last : last.slice(0, colophon)).trim().length).toBeGreaterThan(40);
+        // the colophon's facts on paper: tool and version, the edition, the rounding rule
+        const cover = bodies[0].join(" ");
+        expect(cover).toContain("Sojourn 0.1.0");
+        expect(cover.replace(/\s/g, "")).toContain(`${c.edition}edition`.toUpperCase());
+        expect(cover).toContain("significant digits");
       });
     });
   }
