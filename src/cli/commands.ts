@@ -6,7 +6,7 @@ import { terminalJson, terminalText } from "../messages/terminal.js";
 import { mark } from "../timing.js";
 
 // Each command loads what it needs when it runs, so that starting the command line stays quick.
-const publishing = () => import("../record/publish.js");
+const story = () => import("../story/makeReport.js");
 
 let status = 0;
 /** The exit status a command asked for without throwing (verify's verdict). */
@@ -31,13 +31,10 @@ export async function report(
   manifest: string,
   o: { out: string; pdf?: boolean; edition: "audit" | "client"; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
 ): Promise<void> {
-  const study = await loadStudy(manifest);
-  mark("manifest loaded");
-  await noteWorkers(study, o.workers);
   const started = Date.now();
-  const { publishStudy } = await publishing();
+  const { makeReport } = await story();
   mark("report modules loaded");
-  const r = await publishStudy(study, {
+  const r = await makeReport(manifest, {
     out: o.out,
     force: o.force ?? false,
     pdf: o.pdf ?? false,
@@ -45,6 +42,7 @@ export async function report(
     paper: o.paper,
     chrome: o.chrome,
     onProgress: progressTo(o.quiet),
+    onStudy: (study) => noteWorkers(study, o.workers),
     workers: o.workers,
     fromSummaries: o.fromSummaries,
   });
@@ -115,7 +113,7 @@ export async function verify(dir: string, o: { inputs?: string; root?: string })
 }
 
 export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; quiet?: boolean; force?: boolean }): Promise<void> {
-  const [{ demoDirUsable, writeFerryStudy }, { publishStudy }] = await Promise.all([import("../demo/ferry.js"), publishing()]);
+  const [{ demoDirUsable, writeFerryStudy }, { makeReport }] = await Promise.all([import("../demo/ferry.js"), story()]);
   if (!demoDirUsable(dir)) {
     throw new UserError(`${dir}: the folder exists and is not an earlier demo folder.\n  What to do: choose a new or empty folder for the demo.`);
   }
@@ -131,10 +129,9 @@ export async function demo(dir: string, o: { pdf?: boolean; chrome?: string; qui
   } catch (e) {
     throw folderError(dir, resolve(dir), e);
   }
-  const study: Study = await loadStudy(manifest);
   const started = Date.now();
   // DIR/report is replaced when it is the demo's own earlier report, or with --force (never a file of the study).
-  const r = await publishStudy(study, { out: join(dir, "report"), force: o.force ?? false, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
+  const r = await makeReport(manifest, { out: join(dir, "report"), force: o.force ?? false, pdf: o.pdf ?? false, paper: "A4", chrome: o.chrome, onProgress: progress });
   say(`Demo study written to ${resolve(dir)} (manifest ${manifest})`);
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
 }

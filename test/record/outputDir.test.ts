@@ -13,7 +13,7 @@ import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { UserError } from "../../src/messages/index.js";
 import * as msg from "../../src/messages/output.js";
 import { faultyFs, nodeFs, type OutputFs, systemError } from "../../src/fileSystem.js";
-import { publishStudy } from "../../src/record/publish.js";
+import { reportStudy } from "../../src/story/makeReport.js";
 import { stagePrefix } from "../../src/record/outputDir.js";
 import { folderSnapshot } from "../helpers/tempStudy.js";
 
@@ -38,7 +38,7 @@ function bakery(rows: number, end = rows): string {
 
 async function publish(dir: string, out: string, fs?: OutputFs, manifest = "study.yaml") {
   const study = await loadStudy(join(dir, manifest));
-  return publishStudy(study, { out, force: false, pdf: false, paper: "A4", workers: 1, generatedAt: "2026-01-01T00:00:00.000Z", fs });
+  return reportStudy(study, { out, force: false, pdf: false, paper: "A4", workers: 1, generatedAt: "2026-01-01T00:00:00.000Z", fs });
 }
 
 
@@ -54,8 +54,8 @@ async function failure(promise: Promise<unknown>): Promise<UserError> {
 /** Names beside `out` left by a report (temporary folders, scratch files). */
 const leftovers = (out: string) => readdirSync(dirname(out)).filter((n) => n.startsWith(stagePrefix("report")));
 
-describe("publishStudy when the disk fails", () => {
-  it("publishStudy on a disk that fills up at the first table: the message names the table, the earlier report is intact byte for byte, nothing is left beside it", async () => {
+describe("reportStudy when the disk fails", () => {
+  it("reportStudy on a disk that fills up at the first table: the message names the table, the earlier report is intact byte for byte, nothing is left beside it", async () => {
     const dir = bakery(20);
     const out = join(dir, "report");
     await publish(dir, out);
@@ -67,7 +67,7 @@ describe("publishStudy when the disk fails", () => {
     expect(leftovers(out)).toEqual([]);
   });
 
-  it("publishStudy on a disk that fills up with no earlier report: 'Nothing was written' and no folder", async () => {
+  it("reportStudy on a disk that fills up with no earlier report: 'Nothing was written' and no folder", async () => {
     const dir = bakery(20);
     const out = join(dir, "report");
     const e = await failure(publish(dir, out, faultyFs(nodeFs, "EDQUOT", "write", "report.html")));
@@ -76,7 +76,7 @@ describe("publishStudy when the disk fails", () => {
     expect(leftovers(out)).toEqual([]);
   });
 
-  it("publishStudy into a read-only place says read-only (EROFS), not ENOENT, and names the folder that exists", async () => {
+  it("reportStudy into a read-only place says read-only (EROFS), not ENOENT, and names the folder that exists", async () => {
     const dir = bakery(5);
     const out = join(dir, "new", "report");
     const e = await failure(publish(dir, out, faultyFs(nodeFs, "EROFS", "mkdir", "/new")));
@@ -84,7 +84,7 @@ describe("publishStudy when the disk fails", () => {
     expect(e.message).not.toContain("ENOENT");
   });
 
-  it("publishStudy with a table file name the file system refuses names that file and leaves the earlier report", async () => {
+  it("reportStudy with a table file name the file system refuses names that file and leaves the earlier report", async () => {
     const dir = bakery(5);
     const out = join(dir, "report");
     await publish(dir, out);
@@ -94,7 +94,7 @@ describe("publishStudy when the disk fails", () => {
     expect(folderSnapshot(out)).toEqual(before);
   });
 
-  it("publishStudy whose second rename fails puts the earlier folder back (the commit is all or nothing)", async () => {
+  it("reportStudy whose second rename fails puts the earlier folder back (the commit is all or nothing)", async () => {
     const dir = bakery(5);
     const out = join(dir, "report");
     await publish(dir, out);
@@ -114,7 +114,7 @@ describe("publishStudy when the disk fails", () => {
     expect(leftovers(out)).toEqual([]);
   });
 
-  it("publishStudy into a folder whose name is close to the 255-byte limit works: the temporary names are shortened", async () => {
+  it("reportStudy into a folder whose name is close to the 255-byte limit works: the temporary names are shortened", async () => {
     const dir = bakery(5);
     const out = join(dir, "q".repeat(250));
     expect(stagePrefix("q".repeat(250))).toMatch(/^\.[0-9a-f]{16}\.sojourn-$/);
@@ -139,8 +139,8 @@ afterAll(() => {
   rmSync(mountPoint, { recursive: true, force: true });
 });
 
-describe.skipIf(!mounted)("publishStudy on a real small disk (a 1 MB tmpfs)", () => {
-  it("publishStudy that fills a real disk keeps the earlier report byte for byte and frees the space it took", async () => {
+describe.skipIf(!mounted)("reportStudy on a real small disk (a 1 MB tmpfs)", () => {
+  it("reportStudy that fills a real disk keeps the earlier report byte for byte and frees the space it took", async () => {
     const small = bakery(10);
     const big = bakery(40_000); // its tables, 40,000 rows each in full (max_rows), do not fit in 1 MB
     const out = join(mountPoint, "report");
@@ -154,7 +154,7 @@ describe.skipIf(!mounted)("publishStudy on a real small disk (a 1 MB tmpfs)", ()
     expect(Number(execFileSync("df", ["--output=avail", "-B1", mountPoint], { encoding: "utf8" }).split("\n")[1])).toBe(free);
   });
 
-  it("publishStudy onto a real read-only mount says read-only (EROFS)", async () => {
+  it("reportStudy onto a real read-only mount says read-only (EROFS)", async () => {
     const dir = bakery(5);
     execFileSync("mount", ["-o", "remount,ro", mountPoint]);
     try {

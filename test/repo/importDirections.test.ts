@@ -21,11 +21,12 @@ async function restricted(code: string, path: string): Promise<string[]> {
 describe("eslint.config.js import directions", () => {
   it("IMPORT_DIRECTIONS names the directions of the data path", () => {
     expect(IMPORT_DIRECTIONS).toEqual({
-      outcome: ["measures", "study", "report", "record", "cli"],
-      measures: ["study", "report", "record", "cli"],
-      stats: ["study", "report", "record", "cli"],
-      study: ["report", "record", "cli"],
-      report: ["record", "cli", "ingest"],
+      outcome: ["measures", "study", "report", "record", "story", "cli"],
+      measures: ["study", "report", "record", "story", "cli"],
+      stats: ["study", "report", "record", "story", "cli"],
+      study: ["report", "record", "story", "cli"],
+      report: ["record", "story", "cli", "ingest"],
+      record: ["story", "cli"],
     });
   });
 

@@ -16,7 +16,7 @@ import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { UserError } from "../../src/messages/index.js";
 import * as msg from "../../src/messages/output.js";
 import { faultyFs, nodeFs } from "../../src/fileSystem.js";
-import { publishStudy } from "../../src/record/publish.js";
+import { reportStudy } from "../../src/story/makeReport.js";
 import { findChrome } from "../../src/report/pdf.js";
 import { sojourn } from "../helpers/cli.js";
 
@@ -109,11 +109,11 @@ describe.skipIf(chrome === null)("report --pdf", () => {
     }, 120_000);
   }
 
-  it("publishStudy --pdf on a disk that fills up while the PDF is written: the message says so, the folder is complete without it, no scratch file", async () => {
+  it("reportStudy --pdf on a disk that fills up while the PDF is written: the message says so, the folder is complete without it, no scratch file", async () => {
     const dir = bakery();
     const study = await loadStudy(join(dir, "study.yaml"));
     const out = join(dir, "report");
-    const e = await publishStudy(study, { out, force: false, pdf: true, paper: "A4", workers: 1, fs: faultyFs(nodeFs, "ENOSPC", "write", ".sojourn-pdf-") }).then(
+    const e = await reportStudy(study, { out, force: false, pdf: true, paper: "A4", workers: 1, fs: faultyFs(nodeFs, "ENOSPC", "write", ".sojourn-pdf-") }).then(
       () => null,
       (x: unknown) => x,
     );
