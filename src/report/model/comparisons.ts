@@ -35,11 +35,14 @@ export function comparisonsView(ctx: ReportContext): { intro: string; table: Tab
     }),
   );
   return {
-    intro: `Each row is the difference a − b of the scenario means of one measure with its confidence interval. ` +
-      (comps.length > 1
-        ? `There are ${comps.length} comparisons; each interval is at the confidence shown (Bonferroni), so that all of them hold together at ${formatPercent(study.confidence)} or more.`
-        : "") + " An interval that excludes 0 says the scenarios differ in that measure at the stated confidence." +
-      " The numbers of a row link to its arithmetic, step by step, in the appendix.",
+    intro: [
+      "Each row is the difference a − b of the scenario means of one measure with its confidence interval.",
+      ...(comps.length > 1
+        ? [`There are ${comps.length} comparisons; each interval is at the confidence shown (Bonferroni), so that all of them hold together at ${formatPercent(study.confidence)} or more.`]
+        : []),
+      "An interval that excludes 0 says the scenarios differ in that measure at the stated confidence.",
+      "The numbers of a row link to its arithmetic, step by step, in the appendix.",
+    ].join(" "),
     table: { ...table, rowIds: comparisonRowIds },
     notes: comps.flatMap((c, i) => comparisonNote(c, comparisonIds[i] !== null)),
   };
