@@ -165,7 +165,7 @@ describe("comparison arithmetic in the appendix", () => {
     expect(v("Squared standard error")).toBe(fmt(sa.vn + sb.vn));
     // The formula of ν is written out with the two terms it adds.
     const df = model.appendix.comparisons!.blocks[1].steps.find((s) => s.label.startsWith("Degrees of freedom"))!;
-    expect(df.formula).toBe(`ν = 1 / (w_a²/(n_a − 1) + w_b²/(n_b − 1)) = 1 / (${v("Term of a")} + ${v("Term of b")})`);
+    expect(df.formula).toBe(`ν = 1 / (w_a²/(n_a − 1) + w_b²/(n_b − 1)) = 1 / (${v("Term of a in ν")} + ${v("Term of b in ν")})`);
     // Each side's values in a table of its own.
     expect(model.appendix.comparisons!.blocks[1].values.map((t) => t.rows.length)).toEqual([6, 6]);
   });

@@ -159,8 +159,8 @@ function welchSteps(c: ComparisonArithmetic, s: WelchSteps): ArithmeticStep[] {
     out.push({ label: "Share of b in se²", formula: `w_b = (s_b²/n_b) / se² = ${fmt(s.b.variance_over_n)} / ${fmt(s.standard_error_squared)}`, value: fmt(s.share_b) });
   }
   if (s.df_term_a !== null && s.df_term_b !== null) {
-    out.push({ label: "Term of a", formula: `w_a² / (n_a − 1) = ${fmt(s.share_a)}² / ${fmt(s.a.n - 1)}`, value: fmt(s.df_term_a) });
-    out.push({ label: "Term of b", formula: `w_b² / (n_b − 1) = ${fmt(s.share_b)}² / ${fmt(s.b.n - 1)}`, value: fmt(s.df_term_b) });
+    out.push({ label: "Term of a in ν", formula: `w_a² / (n_a − 1) = ${fmt(s.share_a)}² / ${fmt(s.a.n - 1)}`, value: fmt(s.df_term_a) });
+    out.push({ label: "Term of b in ν", formula: `w_b² / (n_b − 1) = ${fmt(s.share_b)}² / ${fmt(s.b.n - 1)}`, value: fmt(s.df_term_b) });
   }
   if (s.df !== null) {
     out.push({
