@@ -41,6 +41,10 @@ export interface ReportContext {
   intervalIds: Map<string, string>;
   measureIds: string[];
   batchIds: Map<string, string>;
+  /** Per comparison of results.json: the anchor of its row in the comparisons section. */
+  comparisonRowIds: string[];
+  /** Per comparison of results.json: the anchor of its arithmetic in the appendix, null when it has none. */
+  comparisonIds: (string | null)[];
   ivId: (scenario: string, measure: string, figure: string) => string | null;
   tbId: (scenario: string, run: string | null, measure: string) => string | null;
 }
@@ -77,7 +81,10 @@ let batchNo = 0;
 for (const name of study.measureNames) for (const sr of results.scenarios) {
   if (sr.runs.some((r) => batchMeansOf(r.measures[name]) !== undefined)) batchIds.set(key(sr.name, name), anchor("batches", ++batchNo, name, sr.name));
 }
+const comparisonRowIds = (results.comparisons ?? []).map((c, i) => anchor("comparison", i + 1, c.measure, c.a, c.b));
+const comparisonIds = (results.comparisons ?? []).map((c, i) =>
+  (outcome.comparisons.some((x) => x.index === i) ? anchor("comparison-steps", i + 1, c.measure, c.a, c.b) : null));
 const ivId = (scenario: string, measure: string, figure: string) => intervalIds.get(key(scenario, measure, figure)) ?? null;
 const tbId = (scenario: string, run: string | null, measure: string) => tableIds.get(key(scenario, run, measure)) ?? null;
-  return { study, outcome, results, unit, scenarioNames, measureOf, tableAnchors, intervalIds, measureIds, batchIds, ivId, tbId };
+  return { study, outcome, results, unit, scenarioNames, measureOf, tableAnchors, intervalIds, measureIds, batchIds, comparisonRowIds, comparisonIds, ivId, tbId };
 }

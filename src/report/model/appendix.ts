@@ -17,6 +17,7 @@ import {
   tableView,
   type TableView,
 } from "./view.js";
+import { comparisonBlocksView } from "./comparisonSteps.js";
 import { batchMeansOf, figureLabel, fmt, intervalText, link, q, relative, roundNumbersIn, text } from "./words.js";
 
 /** Rows of one calculation table shown in the appendix: the first `TABLE_HEAD_ROWS` and the last `TABLE_TAIL_ROWS` (the rows the study keeps as the table's preview). */
@@ -42,7 +43,7 @@ export function appendixView(ctx: ReportContext): ReportModel["appendix"] {
       sha256: r.sha256,
     };
   });
-  const tables: CalcTable[] = outcome.tables.flatMap((t, i) => (t.preview === null ? [] : [calcTable(t, t.preview, tableAnchors[i])]));
+  const tables: CalcTable[] = outcome.tables.flatMap((t, i) => (t.preview === null ? [] : [calcTable(t, t.preview, tableAnchors[i], closingLine(ctx, t))]));
   const tablesElsewhere = elsewhereNote(outcome.tables);
   const intervals: IntervalView[] = outcome.intervals.map((a, i) => {
     const kind = (() => { try { return measureOf(a.scenario, a.measure).kind; } catch { return "level" as const; } })();
@@ -61,9 +62,28 @@ export function appendixView(ctx: ReportContext): ReportModel["appendix"] {
     tables,
     tablesElsewhere,
     intervals,
+    comparisons: comparisonBlocksView(ctx),
     checks,
     batchValues,
   };
+}
+
+/**
+ * The line that closes a run's main level or utilization table: the run's totals from results.json
+ * and their quotient, the run value (contract section 4), linked to the interval arithmetic that
+ * lists the run's value. Null for the other tables.
+ */
+function closingLine(ctx: ReportContext, t: TableRecord): CalcTable["closing"] {
+  if (t.run === null || (t.kind !== "level" && t.kind !== "utilization")) return null;
+  const st = ctx.results.scenarios.find((s) => s.name === t.scenario)?.runs.find((r) => r.id === t.run)?.measures[t.measure];
+  const value = (v: number) => link(fmt(v), ctx.ivId(t.scenario, t.measure, "value"));
+  if (st?.kind === "utilization" && t.kind === "utilization") {
+    return { text: `busy area ${fmt(st.area)} ÷ capacity area ${fmt(st.capacity_area)}`, value: value(st.value), what: "(the run's utilization)" };
+  }
+  if (st?.kind === "level" && t.kind === "level") {
+    return { text: `area ${fmt(st.area)} ÷ duration ${fmt(st.duration)}`, value: value(st.value), what: "(the run's time average)" };
+  }
+  return null;
 }
 
 /** What the columns of a share or quantile table mean, by table kind (one line each). */
@@ -108,7 +128,7 @@ function elsewhereNote(tables: TableRecord[]): { id: string; text: string } | nu
 }
 
 /** A calculation table as the appendix shows it, from its preview rows (head and tail of the written rows). */
-function calcTable(t: TableRecord, preview: NonNullable<TableRecord["preview"]>, id: string): CalcTable {
+function calcTable(t: TableRecord, preview: NonNullable<TableRecord["preview"]>, id: string, closing: CalcTable["closing"]): CalcTable {
   const written = t.rows_written;
   const show = preview.length <= TABLE_ROW_CAP ? preview : [...preview.slice(0, TABLE_HEAD_ROWS), ...preview.slice(-TABLE_TAIL_ROWS)];
   const cell = (v: number | string | null) => (typeof v === "number" ? fmt(v) : v === null ? MISSING : roundNumbersIn(v));
@@ -128,7 +148,7 @@ function calcTable(t: TableRecord, preview: NonNullable<TableRecord["preview"]>,
   const extra = TABLE_EXPLAIN[t.kind];
   const base = t.run === null ? `${t.measure} — ${t.scenario}` : `${t.measure} — ${t.scenario} — run ${t.run}`;
   const heading = extra ? `${base} — ${extra.label}` : base;
-  return { id, heading, explain: extra?.text ?? null, file: t.file, sha256: t.sha256, columns: t.columns, numeric, rows, note: parts.join(" ") };
+  return { id, heading, explain: extra?.text ?? null, file: t.file, sha256: t.sha256, columns: t.columns, numeric, rows, closing, note: parts.join(" ") };
 }
 
 function intervalView(

@@ -57,6 +57,8 @@ export interface TableView {
   /** Per column: true when every cell is a number as shown (or missing). */
   numeric: boolean[];
   rows: Cell[][];
+  /** Anchors of the rows, one per row (a link elsewhere on the page leads back to the row); absent when no row has one. */
+  rowIds?: string[];
 }
 
 export const NUMERIC = /^(—|-?[0-9][0-9.e-]*( %)?|\[[^\]]*\])$/;
@@ -124,6 +126,12 @@ export interface CalcTable {
   numeric: boolean[];
   /** A row of cells, or a gap marker row with its text. */
   rows: { cells: string[] | null; gap: string | null }[];
+  /**
+   * The line that closes a run's level or utilization table: the division that gives the run's
+   * value ("busy area 1302 ÷ capacity area 1561"), the value linked to where the run value is used,
+   * and what it is; null for the other tables.
+   */
+  closing: { text: string; value: Cell; what: string } | null;
   note: string;
 }
 
@@ -139,6 +147,33 @@ export interface IntervalView {
   rows: { run: string; value: Cell; deviation: string; squared: string }[];
   steps: ArithmeticStep[];
   note: string | null;
+}
+
+/** A table of values behind a comparison: a row of cells, or a gap marker for rows not shown. */
+export interface ValuesTable {
+  caption: string;
+  columns: string[];
+  rows: { cells: Cell[] | null; gap: string | null }[];
+}
+
+/** The arithmetic of one comparison a − b in the appendix, step by step. */
+export interface ComparisonBlock {
+  id: string;
+  /** The comparison's row in the comparisons section. */
+  back: string;
+  heading: string;
+  /** What was compared: a, b, the measure, the method and the values. */
+  compared: string;
+  /** What the comparison assumes, when results.json says (comparisons of batch means). */
+  assumes: string | null;
+  values: ValuesTable[];
+  /** Runs of one side without a run of the same id on the other (paired), left out; null when none. */
+  unpaired: string | null;
+  steps: ArithmeticStep[];
+  /** Why the interval is missing, when it is. */
+  note: string | null;
+  /** The comparison's calculation table and its digest, in one sentence. */
+  file: string;
 }
 
 /** The warm-up estimate of one scenario: its figures, the warm-up plot, or the per-run table. */
@@ -167,7 +202,8 @@ export interface ReportModel {
   /** The warm-up estimates (MSER-5) with the warm-up plot; null when no scenario estimated one. */
   warmup: { intro: string; scenarios: WarmupView[] } | null;
   measures: MeasureSection[];
-  comparisons: { intro: string; table: TableView } | null;
+  /** The comparisons table; `notes` under it say what a comparison was made on, what it assumes, and why one has no arithmetic. */
+  comparisons: { intro: string; table: TableView; notes: string[] } | null;
   methods: MethodNote[];
   limitations: string[];
   warnings: WarningLine[];
@@ -180,6 +216,8 @@ export interface ReportModel {
     /** Where the tables not shown are (runs after the first `PREVIEW_RUNS` of a scenario); null when every table is shown. */
     tablesElsewhere: { id: string; text: string } | null;
     intervals: IntervalView[];
+    /** The arithmetic of each comparison that has one; null when the study compares no scenarios. */
+    comparisons: { intro: string; blocks: ComparisonBlock[] } | null;
     /** Consistency checks of the run data, one row per check and run; null when there are none. */
     checks: { intro: string; table: TableView } | null;
     /** The batch means of every run, per measure; null without batch means. */
