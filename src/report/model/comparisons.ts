@@ -21,7 +21,7 @@ export function comparisonsView(ctx: ReportContext): { intro: string; table: Tab
       "Scenario comparisons",
       ["Measure", "a", "b", "Method", "Mean of a − b", "Standard error", "t", "Degrees of freedom", "Half-width", "Interval", "Confidence of each", "Reading"],
       comps.map((c, i) => [
-        text(c.measure), text(c.a), text(c.b),
+        text(ctx.labelOf(c.measure)), text(c.a), text(c.b),
         text(c.method === "welch" ? "unequal variances (Welch)" : "paired runs"),
         text(fmt(c.diff_mean)), text(fmt(c.standard_error)), text(fmt(c.t)), text(fmt(c.df)),
         text(fmt(c.half_width)), text(intervalText(c.ci_low, c.ci_high)),
