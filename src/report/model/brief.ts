@@ -52,7 +52,10 @@ export function briefSentences(ctx: ReportContext): BriefSentence[] {
       const words = (i: number) => significantWords(comps[i], outcome.readings.comparisons[i] === "higher", labelOf(comps[i].measure), unitOf(comps[i].measure));
       if (one) toComparisons(`${level}, the difference is significant: ${words(b.significant[0])}`);
       else {
-        say(`${level}, ${b.significant.length} of the ${comps.length} differences ${b.significant.length === 1 ? "is" : "are"} significant (${b.significant.length === 1 ? "its interval excludes" : "their intervals exclude"} 0):`);
+        const all = b.significant.length === comps.length;
+        const which = all ? (comps.length === 2 ? "both differences are" : `all ${comps.length} differences are`)
+          : `${b.significant.length} of the ${comps.length} differences ${b.significant.length === 1 ? "is" : "are"}`;
+        say(`${level}, ${which} significant (${b.significant.length === 1 ? "its interval excludes" : "their intervals exclude"} 0):`);
         for (const i of b.significant) toComparisons(words(i));
       }
       if (b.notSignificant.length > 0) {
