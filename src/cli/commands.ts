@@ -29,7 +29,7 @@ async function noteWorkers(study: Study, workers: number | undefined): Promise<v
 
 export async function report(
   manifest: string,
-  o: { out: string; pdf?: boolean; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
+  o: { out: string; pdf?: boolean; edition: "audit" | "client"; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
 ): Promise<void> {
   const study = await loadStudy(manifest);
   mark("manifest loaded");
@@ -41,6 +41,7 @@ export async function report(
     out: o.out,
     force: o.force ?? false,
     pdf: o.pdf ?? false,
+    edition: o.edition,
     paper: o.paper,
     chrome: o.chrome,
     onProgress: progressTo(o.quiet),

@@ -41,6 +41,11 @@ export function program(): Command {
     .argument("<manifest>", "the study manifest (YAML or JSON)")
     .requiredOption("--out <dir>", "the report folder to write (replaced atomically when complete)")
     .option("--pdf", "also write report.pdf (needs Chromium)")
+    .addOption(
+      new Option("--edition <name>", "audit: every section and the audit appendix; client: the appendix replaced by a one-page guide to the audit files (report.html and report.pdf alike)")
+        .choices(["audit", "client"])
+        .default("audit"),
+    )
     .addOption(new Option("--paper <size>", "PDF paper size").choices(["A4", "Letter"]).default("A4"))
     .option("--chrome <path>", "the Chromium or Chrome executable for the PDF (else $SOJOURN_CHROME, then usual places)")
     .option("--force", "replace --out even if it holds files Sojourn did not write (never a folder holding the manifest or an input)")

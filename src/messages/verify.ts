@@ -55,6 +55,8 @@ export const resultsDiffer = () => "differs from the results computed again from
 
 export const tableDiffers = () => "differs from the table computed again from the inputs. What to do: " + REPORT_AGAIN;
 
+export const chartDiffers = () => "differs from the chart drawn again from the inputs. What to do: " + REPORT_AGAIN;
+
 export const pageUndatable = () =>
   "record.json does not hold the report's date (an earlier version wrote it), so the page cannot be made again to compare. What to do: write the report again with `sojourn report`";
 

@@ -13,12 +13,16 @@ import { toolVersion } from "./version.js";
 import type { StudyOutcome } from "../outcome/index.js";
 import { mark } from "../timing.js";
 import { loadTQuantile } from "../stats/tQuantile.js";
+import { DEFAULT_EDITION, type Edition } from "../report/edition.js";
+import type { RenderedReport } from "../report/html.js";
 
 export interface PublishOptions {
   out: string;
   force: boolean;
   pdf: boolean;
   paper: "A4" | "Letter";
+  /** Which edition report.html and report.pdf are (src/report/edition.ts); default the audit edition. */
+  edition?: Edition;
   chrome?: string;
   /** The report's date (ISO); default now, or SOURCE_DATE_EPOCH when set. */
   generatedAt?: string;
@@ -43,12 +47,23 @@ export function resultsJson(outcome: StudyOutcome): string {
 }
 
 /**
- * report.html's exact bytes: a pure function of the study, its outcome, the tool's version and
- * the report's date, so that `verify` can make the page again from the record.
+ * report.html's exact bytes and the chart files': a pure function of the study, its outcome, the
+ * tool's version, the report's date and the edition, so that `verify` can make them again from
+ * the record.
  */
-export async function reportHtml(study: Study, outcome: StudyOutcome, meta: { toolVersion: string; generatedAt: string }): Promise<string> {
-  const [{ buildReportModel }, { renderHtml }] = await Promise.all([import("../report/model/index.js"), import("../report/html.js")]);
-  return renderHtml(buildReportModel(study, outcome, meta));
+export async function reportFiles(
+  study: Study,
+  outcome: StudyOutcome,
+  meta: { toolVersion: string; generatedAt: string },
+  edition: Edition = DEFAULT_EDITION,
+): Promise<RenderedReport> {
+  const [{ buildReportModel }, { renderReport }] = await Promise.all([import("../report/model/index.js"), import("../report/html.js")]);
+  return renderReport(buildReportModel(study, outcome, meta), edition);
+}
+
+/** report.html's exact bytes (see `reportFiles`). */
+export async function reportHtml(study: Study, outcome: StudyOutcome, meta: { toolVersion: string; generatedAt: string }, edition: Edition = DEFAULT_EDITION): Promise<string> {
+  return (await reportFiles(study, outcome, meta, edition)).html;
 }
 
 export function reportDate(): string {
@@ -60,7 +75,7 @@ export function reportDate(): string {
 /**
  * Computes a study and writes its report folder atomically:
  *
- *   runStudy (tables/*.csv written as each run ends) ──▶ results.json ──▶ report.html ──▶ record.json
+ *   runStudy (tables/*.csv written as each run ends) ──▶ results.json ──▶ report.html, charts/*.svg ──▶ record.json
  *     ──▶ commit ──▶ report.pdf ──▶ record.json again, with the PDF's digest
  *
  * The PDF comes last, after the folder is in place, so that a missing browser still leaves a
@@ -95,10 +110,13 @@ export async function publishStudy(study: Study, options: PublishOptions): Promi
     progress(`wrote ${outcome.tables.length} calculation tables`);
     mark("results and tables written");
     const page = { toolVersion: toolVersion().version, generatedAt: options.generatedAt ?? reportDate() };
-    put("report.html", await reportHtml(study, outcome, page));
+    const edition = options.edition ?? DEFAULT_EDITION;
+    const rendered = await reportFiles(study, outcome, page, edition);
+    put("report.html", rendered.html);
+    for (const c of rendered.charts) put(c.file, c.svg);
     mark("report.html written");
-    progress("wrote report.html");
-    record = makeRecord(study, staged.final, outcome.inputs, outputs, page.generatedAt);
+    progress(`wrote report.html (${edition} edition) and ${rendered.charts.length} chart files under charts/`);
+    record = makeRecord(study, staged.final, outcome.inputs, outputs, page.generatedAt, edition);
     staged.write("record.json", recordJson(record));
     staged.commit();
     mark("report folder in place");

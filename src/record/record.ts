@@ -5,6 +5,7 @@ import { sha256 } from "../digest.js";
 import { checkShape, type Shape, shapeText } from "../shape.js";
 import { INPUT_RECORD_SHAPE } from "../study/runSummary.js";
 import { toolVersion } from "./version.js";
+import { EDITIONS, isEdition, type Edition } from "../report/edition.js";
 
 /** The study record: what anyone needs to re-derive a report folder later (issue 5). */
 export interface StudyRecord {
@@ -23,8 +24,11 @@ export interface StudyRecord {
   /**
    * What report.html depends on beside the inputs and the tool: its date. With it the page can
    * be made again byte for byte (`verify`). Absent in records of versions before 0.1.
+   * `edition`: which edition report.html (and report.pdf) is; the chart files under charts/ are
+   * listed in `outputs`. Absent in records written before editions: those are the audit edition,
+   * without chart files.
    */
-  report?: { generated_at: string };
+  report?: { generated_at: string; edition?: Edition };
   /** The PDF, once written: it is the page printed by a browser, so only its digest is checked. */
   pdf?: { file: string; sha256: string; pages: number };
 }
@@ -42,7 +46,10 @@ export const RECORD_SHAPE: Shape = {
     manifest: { object: { path: "string", sha256: "sha256", text: "string" } },
     inputs: { array: INPUT_RECORD_SHAPE },
     outputs: { array: FILE_DIGEST },
-    report: { object: { generated_at: "string" } },
+    report: {
+      object: { generated_at: "string", edition: { test: isEdition, expected: EDITIONS.map((e) => `"${e}"`).join(" or ") } },
+      optional: ["edition"],
+    },
     pdf: { object: { file: "string", sha256: "sha256", pages: "number" } },
   },
   optional: ["report", "pdf"],
@@ -72,7 +79,7 @@ export function toPosix(p: string): string {
   return p.split(sep).join("/");
 }
 
-export function makeRecord(study: Study, reportDir: string, inputs: InputRecord[], outputs: StudyRecord["outputs"], generatedAt: string): StudyRecord {
+export function makeRecord(study: Study, reportDir: string, inputs: InputRecord[], outputs: StudyRecord["outputs"], generatedAt: string, edition: Edition): StudyRecord {
   return {
     format: RECORD_FORMAT,
     tool: toolVersion(),
@@ -84,7 +91,7 @@ export function makeRecord(study: Study, reportDir: string, inputs: InputRecord[
     },
     inputs,
     outputs,
-    report: { generated_at: generatedAt },
+    report: { generated_at: generatedAt, edition },
   };
 }
 

@@ -7,7 +7,7 @@ import { UserError } from "../messages/index.js";
 import { runStudy } from "../study/runStudy.js";
 import type { StudyOutcome } from "../outcome/index.js";
 import { sha256 } from "../digest.js";
-import { reportHtml, resultsJson } from "./publish.js";
+import { reportFiles, resultsJson } from "./publish.js";
 import { parseRecord, recordedManifest, type StudyRecord } from "./record.js";
 import { fileBytes, fileDigest } from "../regularFile.js";
 import { isInside, place, type Placed } from "./safeFile.js";
@@ -86,8 +86,9 @@ function notRead(p: Exclude<Placed, { ok: true }>, outside: string, missing: str
  * Re-derives a finished report folder from its study record (issue 5, issue 12):
  *
  *   record.json (shape checked) ─▶ every input: inside the inputs' folder, a regular file, its
- *   digest ─▶ compute the study again in memory ─▶ results.json, every table and report.html
- *   (made again from the recorded date) compared byte for byte ─▶ report.pdf's digest ─▶ verdict
+ *   digest ─▶ compute the study again in memory ─▶ results.json, every table, report.html (made
+ *   again from the recorded date, in the recorded edition) and every chart file compared byte for
+ *   byte ─▶ report.pdf's digest ─▶ verdict
  *
  * Inputs are found relative to the recorded manifest location, or under `inputs` when they moved.
  * Nothing is read outside the report folder and the inputs' folder (`root`), whatever the record
@@ -188,8 +189,24 @@ async function madeAgain(study: Study, outcome: StudyOutcome, record: StudyRecor
   again.set("results.json", sha256(resultsJson(outcome)));
   for (const t of outcome.tables) again.set(t.file, t.sha256);
   const generatedAt = record.report?.generated_at;
-  again.set("report.html", generatedAt === undefined ? null : sha256(await reportHtml(study, outcome, { toolVersion: record.tool.version, generatedAt })));
+  if (generatedAt === undefined) {
+    again.set("report.html", null);
+    return again;
+  }
+  // A record without an edition was written before editions: the audit edition, without chart files.
+  const edition = record.report?.edition;
+  const made = await reportFiles(study, outcome, { toolVersion: record.tool.version, generatedAt }, edition ?? "audit");
+  again.set("report.html", sha256(made.html));
+  if (edition !== undefined) for (const c of made.charts) again.set(c.file, sha256(c.svg));
   return again;
+}
+
+const isChart = (file: string) => file.startsWith("charts/");
+
+/** The verdict of a page made again: which edition, when the record says. */
+function pageMadeAgain(record: StudyRecord): string {
+  const e = record.report?.edition;
+  return e === undefined ? "made again from the inputs byte for byte" : `made again from the inputs byte for byte (${e} edition)`;
 }
 
 /** The digest of a file of the report folder named by the record, or why it was not read. */
@@ -229,8 +246,8 @@ async function checkOutputs(again: Map<string, string | null> | null, record: St
     const made = again.get(out.file);
     if (made === undefined) add(false, out.file, msg.notProduced());
     else if (made === null) add(false, out.file, msg.pageUndatable());
-    else if (made !== disk.digest) add(false, out.file, out.file === "report.html" ? msg.pageDiffers() : out.file === "results.json" ? msg.resultsDiffer() : msg.tableDiffers());
-    else add(true, out.file, out.file === "report.html" ? "made again from the inputs byte for byte" : out.file === "results.json" ? "computed again byte for byte" : "computed again, digest matches");
+    else if (made !== disk.digest) add(false, out.file, out.file === "report.html" ? msg.pageDiffers() : out.file === "results.json" ? msg.resultsDiffer() : isChart(out.file) ? msg.chartDiffers() : msg.tableDiffers());
+    else add(true, out.file, out.file === "report.html" ? pageMadeAgain(record) : out.file === "results.json" ? "computed again byte for byte" : isChart(out.file) ? "drawn again byte for byte" : "computed again, digest matches");
   }
   for (const f of again?.keys() ?? []) if (!listed.has(f)) add(false, f, msg.notRecorded());
 }

@@ -16,6 +16,8 @@ import type { TopLevelSpec } from "vega-lite";
 import { reportMessages } from "../messages/index.js";
 import type { Chart, ReportModel } from "./model/index.js";
 import { precompiled } from "../precompiled.js";
+import { safeName } from "../study/tables.js";
+import { DEFAULT_EDITION, type Edition, editionView } from "./edition.js";
 
 /** The templates folder: `templates/` at the package root, from `src/report/` and `dist/report/` alike. */
 export const TEMPLATES_DIR = new URL("../../templates/", import.meta.url);
@@ -45,6 +47,19 @@ export function templatesDigest(page: string, partials: readonly (readonly [stri
   return hash.digest("hex");
 }
 
+/**
+ * `{{breakable text}}`: the text escaped, with a line-break opportunity (`<wbr>`) after each `_`,
+ * so that a column named `running_time_average` may wrap in a narrow printed table instead of
+ * widening it past the page.
+ */
+export function breakable(text: unknown): Handlebars.SafeString {
+  return new Handlebars.SafeString(Handlebars.escapeExpression(String(text ?? "")).replace(/_/g, "_<wbr>"));
+}
+
+function registerHelpers(hb: typeof Handlebars): void {
+  hb.registerHelper("breakable", breakable);
+}
+
 interface PrecompiledTemplates {
   sourceSha256: string;
   page: Parameters<typeof Handlebars.template>[0];
@@ -64,6 +79,7 @@ async function loadTemplates(): Promise<Templates> {
     const partials = await Promise.all(names.map(async (n) => [n.slice(0, -4), await readFile(new URL(n, partialsDir), "utf8")] as const));
     const pageText = await readFile(new URL("report.hbs", TEMPLATES_DIR), "utf8");
     const css = await readFile(new URL("report.css", TEMPLATES_DIR), "utf8");
+    registerHelpers(hb);
     const built = precompiled<PrecompiledTemplates>(import.meta.url, "./templates.cjs");
     if (built !== null && built.sourceSha256 === templatesDigest(pageText, partials)) {
       for (const [name] of partials) hb.registerPartial(name, hb.template(built.partials[name]));
@@ -76,16 +92,75 @@ async function loadTemplates(): Promise<Templates> {
   }
 }
 
-/** Renders the report's HTML from its view model. */
-export async function renderHtml(model: ReportModel): Promise<string> {
+/** One chart as a file of the report folder: `charts/...svg` and its text. */
+export interface ChartFile {
+  file: string;
+  svg: string;
+}
+
+/** The report's page in one edition and its charts as files. */
+export interface RenderedReport {
+  html: string;
+  charts: ChartFile[];
+}
+
+/**
+ * The file of a chart under the report folder, one to one with the charts of a report:
+ *
+ *   charts/measures/<measure>/<n>-<what>.svg   the n-th chart of a measure section (interval, runs, trace, ...)
+ *   charts/warm-up/<scenario>.svg              a scenario's warm-up plot
+ *
+ * Names are written with the calculation tables' rule (`safeName`, src/study/tables.ts), which is
+ * injective; `<n>` is the chart's running number within its measure, so two traces of one measure
+ * never share a file.
+ */
+export function chartFile(chart: Chart, owner: { measure: string } | { warmup: string }): string {
+  if ("warmup" in owner) return `charts/warm-up/${safeName(owner.warmup)}.svg`;
+  const m = /-chart-(\d+)-([a-z-]+)$/.exec(chart.id);
+  const tail = m === null ? safeName(chart.id) : `${m[1]}-${m[2]}`;
+  return `charts/measures/${safeName(owner.measure)}/${tail}.svg`;
+}
+
+/**
+ * A chart's SVG as a file of its own: the XML declaration, and the caption as the SVG's title
+ * (escaped), so a slide tool shows what it is. vega's SVG carries its namespace and loads nothing.
+ */
+export function standaloneSvg(svg: string, caption: string): string {
+  const title = `<title>${escapeXml(caption)}</title>`;
+  const body = svg.replace(/^(<svg\b[^>]*>)/, `$1${title}`);
+  return `<?xml version="1.0" encoding="UTF-8"?>\n${body}\n`;
+}
+
+function escapeXml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&apos;" })[c] as string);
+}
+
+/** Renders the report's page in one edition and every chart as a file, from its view model. */
+export async function renderReport(model: ReportModel, edition: Edition = DEFAULT_EDITION): Promise<RenderedReport> {
   const { page, css } = await loadTemplates();
-  const withSvg = async <C extends Chart>(c: C) => ({ ...c, svg: await renderChartSvg(c.spec) });
-  const measures = await Promise.all(
-    model.measures.map(async (m) => ({ ...m, charts: await Promise.all(m.charts.map(withSvg)) })),
-  );
-  const warmup = model.warmup === null ? null : {
-    ...model.warmup,
-    scenarios: await Promise.all(model.warmup.scenarios.map(async (w) => ({ ...w, chart: w.chart === null ? null : await withSvg(w.chart) }))),
+  const charts: ChartFile[] = [];
+  const withSvg = async <C extends Chart>(c: C, owner: { measure: string } | { warmup: string }) => {
+    const svg = await renderChartSvg(c.spec);
+    charts.push({ file: chartFile(c, owner), svg: standaloneSvg(svg, c.caption) });
+    return { ...c, svg };
   };
-  return page({ ...model, warmup, measures, css });
+  const measures = [];
+  for (const m of model.measures) {
+    const drawn = [];
+    for (const c of m.charts) drawn.push(await withSvg(c, { measure: m.name }));
+    measures.push({ ...m, charts: drawn });
+  }
+  let warmup = null;
+  if (model.warmup !== null) {
+    const scenarios = [];
+    for (const w of model.warmup.scenarios) scenarios.push({ ...w, chart: w.chart === null ? null : await withSvg(w.chart, { warmup: w.scenario }) });
+    warmup = { ...model.warmup, scenarios };
+  }
+  const view = editionView({ ...model, warmup, measures } as ReportModel, edition);
+  return { html: page({ ...view, css }), charts };
+}
+
+/** Renders the report's HTML from its view model (the audit edition unless another is named). */
+export async function renderHtml(model: ReportModel, edition: Edition = DEFAULT_EDITION): Promise<string> {
+  return (await renderReport(model, edition)).html;
 }

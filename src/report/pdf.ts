@@ -1,7 +1,15 @@
 /**
  * The PDF: the same HTML printed by a system Chromium through puppeteer-core, with a running
- * header (the study title) and page numbers. puppeteer-core is imported only here, and only
+ * header (the study title), page numbers, bookmarks (the PDF outline, from the headings) and a
+ * contents list with the page of each entry. puppeteer-core is imported only here, and only
  * when a PDF is asked for.
+ *
+ *   report.html ──▶ contents entries get a page-number box ("000") ──▶ print, plain (no tags) ──▶
+ *   pages of the entries' anchors (named destinations, src/report/pdfDestinations.ts) ──▶ numbers
+ *   written in ──▶ print, tagged, with the outline ──▶ the anchors' pages read again: the same? done
+ *   (else numbers again, at most three final prints)
+ *
+ * The numbers replace boxes of the same width, so the second print lays out as the first.
  */
 import { accessSync, constants, mkdirSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
@@ -9,6 +17,7 @@ import { join } from "node:path";
 import { onInterrupt } from "../interrupt.js";
 import { reportMessages } from "../messages/index.js";
 import { errorCode, nodeFs, type OutputFs } from "../fileSystem.js";
+import { destinationPages } from "./pdfDestinations.js";
 
 /** Where to look for a browser when neither `--chrome` nor SOJOURN_CHROME names one. */
 export const CHROME_CANDIDATES = [
@@ -72,6 +81,45 @@ export function countPdfPages(pdf: Uint8Array): number {
   return (text.match(/\/Type\s*\/Page(?![a-zA-Z])/g) ?? []).length;
 }
 
+/**
+ * The time one print may take: 60 s, and 60 s more for each MB of HTML (a 2.7 MB audit edition
+ * printed in 12 s on an idle 2-core machine and took over 30 s with three other jobs running;
+ * docs/performance.md).
+ */
+export function printBudgetMs(htmlLength: number): number {
+  return 60_000 + Math.ceil((htmlLength / 1_000_000) * 60_000);
+}
+
+/** Most final prints made to settle the contents' page numbers. */
+const MAX_FINAL_PRINTS = 3;
+
+/**
+ * In the page (browser JavaScript, so the node code needs no DOM types): each contents entry gets
+ * a leader and a page-number box; the value is the entries' anchors, in order.
+ */
+const ADD_PAGE_BOXES = `(() => {
+  const ids = [];
+  for (const li of document.querySelectorAll("nav.contents li")) {
+    const a = li.querySelector("a[href^='#']");
+    if (a === null) continue;
+    ids.push(decodeURIComponent(a.getAttribute("href").slice(1)));
+    const leader = document.createElement("span");
+    leader.className = "leader";
+    const box = document.createElement("span");
+    box.className = "page-no";
+    box.textContent = "000";
+    li.append(leader, box);
+  }
+  document.documentElement.classList.add("paged");
+  return ids;
+})()`;
+
+/** In the page: the page numbers (a JSON array of strings) into the boxes, in the order of the entries. */
+const fillPageBoxes = (numbers: string[]) => `(() => {
+  const numbers = ${JSON.stringify(numbers)};
+  document.querySelectorAll("nav.contents li .page-no").forEach((b, i) => { b.textContent = numbers[i] ?? ""; });
+})()`;
+
 function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] as string);
 }
@@ -99,6 +147,7 @@ export async function renderPdf(
   mkdirSync(join(profile, "data"));
   mkdirSync(join(profile, "tmp"));
   const partial = `${pdfPath}.partial`;
+  const budget = printBudgetMs(html.length);
   let browser: import("puppeteer-core").Browser | undefined;
   const release = onInterrupt(() => {
     browser?.process()?.kill("SIGKILL");
@@ -114,6 +163,8 @@ export async function renderPdf(
         headless: true,
         args: [...CHROME_FLAGS, `--user-data-dir=${join(profile, "data")}`],
         env: { ...process.env, TMPDIR: join(profile, "tmp") },
+        // one print may take `budget`; the protocol must wait at least as long
+        protocolTimeout: budget + 60_000,
         // Sojourn's own handler (above) stops the browser on a signal and removes its profile.
         handleSIGINT: false,
         handleSIGTERM: false,
@@ -124,18 +175,40 @@ export async function renderPdf(
     }
     const page = await browser.newPage();
     progress("laying out the report");
-    await page.setContent(html, { waitUntil: "load" });
+    page.setDefaultTimeout(budget);
+    await page.setContent(html, { waitUntil: "load", timeout: budget });
     const title = escapeHtml(options.title);
     const small = "font: 8px 'Liberation Sans', Arial, sans-serif; color: #6b6357; width: 100%; padding: 0 14mm;";
-    progress(`printing on ${options.paper} paper`);
-    const pdf = await page.pdf({
-      format: options.paper,
-      printBackground: true,
-      displayHeaderFooter: true,
-      headerTemplate: `<div style="${small} display: flex; justify-content: space-between;"><span>${title}</span><span>Sojourn report</span></div>`,
-      footerTemplate: `<div style="${small} text-align: right;">page <span class="pageNumber"></span> of <span class="totalPages"></span></div>`,
-      margin: { top: "20mm", bottom: "18mm", left: "14mm", right: "14mm" },
-    });
+    const print = (final: boolean) =>
+      page.pdf({
+        format: options.paper,
+        printBackground: true,
+        displayHeaderFooter: true,
+        headerTemplate: `<div style="${small} display: flex; justify-content: space-between;"><span>${title}</span><span>Sojourn report</span></div>`,
+        footerTemplate: `<div style="${small} text-align: right;">page <span class="pageNumber"></span> of <span class="totalPages"></span></div>`,
+        margin: { top: "20mm", bottom: "18mm", left: "14mm", right: "14mm" },
+        // The outline (bookmarks) is made from the tagged structure; the first print only finds pages.
+        tagged: final,
+        outline: final,
+        timeout: budget,
+      });
+    const ids = (await page.evaluate(ADD_PAGE_BOXES)) as string[];
+    progress(`finding the pages of the ${ids.length} contents entries (${options.paper} paper)`);
+    let landed = destinationPages(await print(false));
+    let pdf: Uint8Array;
+    for (let n = 1; ; n++) {
+      const numbers = ids.map((id) => String(landed?.get(id) ?? ""));
+      await page.evaluate(fillPageBoxes(numbers));
+      progress(n === 1 ? "printing with bookmarks and the contents' page numbers" : "printing again: an entry moved to another page");
+      pdf = await print(true);
+      const again = destinationPages(pdf);
+      if (again === null || landed === null) {
+        progress("the contents list is printed without page numbers: the PDF's destinations could not be read");
+        break;
+      }
+      if (ids.every((id) => again.get(id) === landed?.get(id)) || n === MAX_FINAL_PRINTS) break;
+      landed = again;
+    }
     fs.writeFile(partial, pdf);
     fs.rename(partial, pdfPath);
     const pages = countPdfPages(readFileSync(pdfPath));

@@ -75,10 +75,10 @@ describe("sojourn verify: the page is made again from the record", () => {
     const dir = copy();
     const r = sojourn(["verify", join(dir, "report")]);
     expect(r.status, r.stdout).toBe(0);
-    expect(line(r.stdout, "report.html")).toEqual([true, "made again from the inputs byte for byte"]);
+    expect(line(r.stdout, "report.html")).toEqual([true, "made again from the inputs byte for byte (audit edition)"]);
     const record = JSON.parse(readFileSync(join(dir, "report", "record.json"), "utf8"));
     // SOURCE_DATE_EPOCH 1780000000 is 2026-05-28T20:26:40Z (computed with `date -u -d @1780000000`)
-    expect(record.report).toEqual({ generated_at: "2026-05-28T20:26:40.000Z" });
+    expect(record.report).toEqual({ generated_at: "2026-05-28T20:26:40.000Z", edition: "audit" });
   });
 
   it("a forged page fails when its digest in record.json is left as it was", () => {
@@ -106,7 +106,7 @@ describe("sojourn verify: the page is made again from the record", () => {
   it("a page whose recorded date was changed no longer matches the page made again", () => {
     const dir = copy();
     editRecord(dir, (rec) => {
-      rec.report = { generated_at: "2030-01-01T00:00:00.000Z" };
+      rec.report = { ...(rec.report as object), generated_at: "2030-01-01T00:00:00.000Z" };
     });
     const r = sojourn(["verify", join(dir, "report")]);
     expect(r.status).toBe(1);
@@ -282,6 +282,73 @@ describe("sojourn verify reads nothing outside the report folder and the inputs'
   });
 });
 
+describe("sojourn verify: both editions and the chart files are made again", () => {
+  let client: string;
+  beforeAll(() => {
+    client = copy();
+    const r = sojourn(["report", join(client, "study.yaml"), "--out", join(client, "client"), "--edition", "client", "--quiet"]);
+    expect(r.status, r.stderr).toBe(0);
+  }, 120_000);
+  const charts = (dir: string) => (JSON.parse(readFileSync(join(dir, "record.json"), "utf8")).outputs as { file: string }[]).map((o) => o.file).filter((f) => f.startsWith("charts/"));
+
+  it("a client edition verifies: record.json names it, the page is made again in that edition, every chart file matches", () => {
+    const dir = join(client, "client");
+    const record = JSON.parse(readFileSync(join(dir, "record.json"), "utf8"));
+    expect(record.report.edition).toBe("client");
+    const html = readFileSync(join(dir, "report.html"), "utf8");
+    expect(html).toContain('<meta name="sojourn-edition" content="client">');
+    expect(html).toContain('id="audit-files"');
+    expect(html).not.toContain('id="appendix"');
+    const r = sojourn(["verify", dir]);
+    expect(r.status, r.stdout).toBe(0);
+    expect(line(r.stdout, "report.html")).toEqual([true, "made again from the inputs byte for byte (client edition)"]);
+    expect(charts(dir).length).toBeGreaterThan(3);
+    for (const f of charts(dir)) expect(line(r.stdout, f), f).toEqual([true, "drawn again byte for byte"]);
+  });
+
+  it("a client edition whose record was changed to say audit fails: verify makes the edition the record names", () => {
+    const dir = copy();
+    cpSync(join(client, "client"), join(dir, "client"), { recursive: true });
+    const p = join(dir, "client", "record.json");
+    const rec = JSON.parse(readFileSync(p, "utf8"));
+    rec.report.edition = "audit";
+    writeFileSync(p, JSON.stringify(rec, null, 2));
+    const r = sojourn(["verify", join(dir, "client")]);
+    expect(r.status).toBe(1);
+    expect(line(r.stdout, "report.html")).toEqual([false, msg.pageDiffers()]);
+  });
+
+  it("a chart file changed with its digest, one deleted, and one the record does not list all fail", () => {
+    const dir = copy();
+    const [first, second] = charts(join(dir, "report"));
+    const p = join(dir, "report", first);
+    const forged = readFileSync(p, "utf8").replace("<svg", '<svg data-x="1"');
+    writeFileSync(p, forged);
+    editRecord(dir, (rec) => {
+      for (const o of rec.outputs as { file: string; sha256: string }[]) if (o.file === first) o.sha256 = sha(forged);
+    });
+    rmSync(join(dir, "report", second));
+    writeFileSync(join(dir, "report", "charts", "extra.svg"), "<svg/>");
+    const r = sojourn(["verify", join(dir, "report")]);
+    expect(r.status).toBe(1);
+    expect(line(r.stdout, first)).toEqual([false, msg.chartDiffers()]);
+    expect(line(r.stdout, second)).toEqual([false, msg.outputMissing()]);
+    expect(line(r.stdout, "charts/extra.svg")).toEqual([false, msg.strayFile()]);
+  });
+
+  it("a record written before editions (no edition, no chart files) verifies as the audit edition", () => {
+    const dir = copy();
+    editRecord(dir, (rec) => {
+      rec.report = { generated_at: (rec.report as { generated_at: string }).generated_at };
+      rec.outputs = (rec.outputs as { file: string }[]).filter((o) => !o.file.startsWith("charts/"));
+    });
+    rmSync(join(dir, "report", "charts"), { recursive: true });
+    const r = sojourn(["verify", join(dir, "report")]);
+    expect(r.status, r.stdout).toBe(0);
+    expect(line(r.stdout, "report.html")).toEqual([true, "made again from the inputs byte for byte"]);
+  });
+});
+
 describe("sojourn verify: a damaged record.json gets a catalogue message (exit 1, no stack trace)", () => {
   const variants: [string, (r: Record<string, unknown>) => unknown, string][] = [
     ["inputs is not a list", (r) => void (r.inputs = 7), "at inputs: expected a list, found the number 7"],
@@ -291,6 +358,7 @@ describe("sojourn verify: a damaged record.json gets a catalogue message (exit 1
     ["the manifest text is a number", (r) => void ((r.manifest as Record<string, unknown>).text = 5), "at manifest.text: expected a string, found the number 5"],
     ["a file name is missing", (r) => void delete (r.outputs as Record<string, unknown>[])[1].file, "at outputs[1].file: expected a string, found nothing (the key is missing)"],
     ["the report's date is a number", (r) => void (r.report = { generated_at: 1 }), "at report.generated_at: expected a string, found the number 1"],
+    ["the edition is not one Sojourn writes", (r) => void (r.report = { generated_at: "2026-05-28T20:26:40.000Z", edition: "summary" }), 'at report.edition: expected "audit" or "client", found the string "summary"'],
     ["the whole record is a list", () => [1, 2], "the whole file: expected an object, found a list"],
     ["another format", (r) => void (r.format = "sojourn-record/9"), 'at format: expected "sojourn-record/1", found the string "sojourn-record/9"'],
   ];

@@ -119,7 +119,7 @@ describe.skipIf(chrome === null)("report --pdf", () => {
     );
     expect(e).toBeInstanceOf(UserError);
     expect((e as UserError).message).toBe(msg.pdfUnwritable(out, "ENOSPC").message);
-    expect(readdirSync(out).sort()).toEqual(["record.json", "report.html", "results.json", "tables"]);
+    expect(readdirSync(out).sort()).toEqual(["charts", "record.json", "report.html", "results.json", "tables"]);
     expect(readdirSync(dir).filter((n) => n.includes(".sojourn-"))).toEqual([]);
   }, 120_000);
 });
