@@ -259,8 +259,11 @@ measures:
       expect(m.runs.caption).not.toMatch(/hours/);
       expect(model.summary.rows[0].unit ?? "").not.toMatch(/hours/);
       // The rate is per time unit, and says so.
-      expect(m.runs.columns).toContain(unit === "" ? "rate (per hours)" : "rate (customers per hours)");
-      if (unit !== "") expect(m.charts[0].caption).toContain("unit: customers");
+      expect(m.runs.columns).toContain("rate (per hours)");
+      if (unit !== "") {
+        expect(m.charts[0].caption).toContain("unit: customers");
+        expect(m.runs.caption).toContain("counts in customers");
+      }
     }
   });
 });

@@ -9,7 +9,7 @@ import { formatPercent, MISSING } from "../number.js";
 import { key, type ReportContext } from "./anchors.js";
 import { measureCharts } from "./measureCharts.js";
 import { type Cell, type MeasureSection, tableView, type TableView } from "./view.js";
-import { batchMeansOf, capacityText, figureLabel, fmt, intervalText, kindLabel, link, primaryName, q, text, withUnit } from "./words.js";
+import { batchMeansOf, capacityText, figureLabel, fmt, intervalText, kindLabel, link, primaryName, q, text } from "./words.js";
 
 /** The section of the `mi`-th measure of the study. */
 export function measureSection(ctx: ReportContext, name: string, mi: number): MeasureSection {
@@ -101,15 +101,18 @@ function runTable(
   tbId: (s: string, r: string | null, m: string) => string | null,
 ): TableView {
   const { name, kind } = m;
-  // Each column in its own unit: the measure's for its values, the study's time unit for times.
+  // The measure's unit is said once, in the caption (the columns stay narrow); times are in the study's time unit.
   const u = m.unit;
   const cols: Record<Measure["kind"], string[]> = {
-    level: [withUnit("time average", u), withUnit("time-weighted sd", u), withUnit("lowest", u), withUnit("highest", u), withUnit("final", u),
-      u === null ? `area (value × ${unit})` : `area (${u} × ${unit})`, `duration (${unit})`],
-    utilization: [withUnit("utilization", u)],
-    observation: [withUnit("mean", u), withUnit("sd", u), "n", withUnit("lowest", u), withUnit("highest", u)],
-    count: [withUnit("count", u), u === null ? `rate (per ${unit})` : `rate (${u} per ${unit})`],
+    level: ["time average", "time-weighted sd", "min", "max", "final", "area", `duration (${unit})`],
+    utilization: ["utilization"],
+    observation: ["mean", "sd", "n", "min", "max"],
+    count: ["count", `rate (per ${unit})`],
   };
+  const units = u === null ? ""
+    : kind === "level" ? `values in ${u}, area in ${u} × ${unit}; `
+      : kind === "count" ? `counts in ${u}; `
+        : kind === "utilization" && u === "fraction" ? "shares of capacity, from 0 to 1; " : `values in ${u}; `;
   const present = ENTITY_FIGURES.filter((e) => scenarios.some((sr) => sr.runs.some((r) => {
     const st = r.measures[name];
     return st !== undefined && e.pick(st) !== undefined;
@@ -136,7 +139,7 @@ function runTable(
     rows.push([text(sr.name), text(r.id), ...cells, ...extras]);
   }
   return tableView(
-    `${m.label}: each run's figures (the first number links to the run's calculation table)`,
+    `${m.label}: each run's figures (${units}the first number links to the run's calculation table)`,
     ["Scenario", "Run", ...columns, ...extraKeys.map((e) => figureLabel(kind, `${e.group}.${e.key}`))],
     rows,
   );
@@ -191,8 +194,8 @@ function batchMeansTable(m: Measure, scenarios: StudyOutcome["results"]["scenari
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${m.label}: batch means within each run (interval for the run's long-run mean; each run links to its batch values in the appendix)`,
-    ["Scenario", "Run", "Batches", withUnit("Mean", m.unit), withUnit("Half-width", m.unit), "Interval", "Lag-1 correlation", "Check"],
+    `${m.label}: batch means within each run (${m.unit === null ? "" : `values in ${m.unit}; `}interval for the run's long-run mean; each run links to its batch values in the appendix)`,
+    ["Scenario", "Run", "Batches", "Mean", "Half-width", "Interval", "Lag-1 correlation", "Check"],
     rows,
   );
 }
@@ -215,8 +218,8 @@ function runsNeededTable(m: Measure, scenarios: StudyOutcome["results"]["scenari
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${m.label}: runs needed for the target precision (smallest k with t · s / √k ≤ the half-width aimed at; a relative error γ aims at γ/(1 + γ) · |mean|)`,
-    ["Scenario", "Target", withUnit("Half-width aimed at", m.unit), "Runs now", withUnit("Half-width now", m.unit), "Runs needed"],
+    `${m.label}: runs needed for the target precision (${m.unit === null ? "" : `half-widths in ${m.unit}; `}smallest k with t · s / √k ≤ the half-width aimed at; a relative error γ aims at γ/(1 + γ) · |mean|)`,
+    ["Scenario", "Target", "Half-width aimed at", "Runs now", "Half-width now", "Runs needed"],
     rows,
   );
 }

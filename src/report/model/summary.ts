@@ -53,8 +53,8 @@ export function summaryView(ctx: ReportContext): ReportModel["summary"] {
     brief: briefSentences(ctx),
     intro: `Mean of each measure by scenario, with its ${formatPercent(study.confidence)} confidence interval (Student t, one value per run` +
       (anyBatches ? "; for a scenario that is one long run, one value per batch mean of that run, as the row's note says" : "") + "). " +
-      "Relative precision is half-width / |mean|. Every number links to its step-by-step derivation in the appendix; " +
-      "the flags under a scenario name link to what they are about.",
+      "Relative precision is half-width / |mean|. Every number links to its step-by-step derivation in the appendix. " +
+      "The flags under a scenario's name link to what they are about.",
     rows,
   };
 }
