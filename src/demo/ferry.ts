@@ -54,12 +54,12 @@ scenarios:
     measures:
       booth_use: {capacity: 3}
 measures:
-  - {name: lane_queue, kind: level, series: queue, at_least: [1, 5]}
-  - {name: booth_use, kind: utilization, series: busy, capacity: 2}
-  - {name: check_wait, kind: observation, series: wait, within: [5, 15], target: {half_width: 1}}
-  - {name: vehicles_done, kind: count, series: depart}
-  - {name: in_terminal, kind: level, from: {enter: arrive, leave: depart}}
-  - {name: time_in_terminal, kind: observation, from: {start: arrive, end: depart}}
+  - {name: lane_queue, kind: level, series: queue, at_least: [1, 5], label: Vehicles waiting in the lane, unit: vehicles}
+  - {name: booth_use, kind: utilization, series: busy, capacity: 2, label: Booths busy}
+  - {name: check_wait, kind: observation, series: wait, within: [5, 15], target: {half_width: 1}, label: Wait at the booth, unit: min}
+  - {name: vehicles_done, kind: count, series: depart, label: Vehicles checked in, unit: vehicles}
+  - {name: in_terminal, kind: level, from: {enter: arrive, leave: depart}, label: Vehicles in the terminal, unit: vehicles}
+  - {name: time_in_terminal, kind: observation, from: {start: arrive, end: depart}, label: Time in the terminal}
 compare:
   - {measure: check_wait, scenarios: [two-booths, three-booths], method: paired}
   - {measure: lane_queue, scenarios: [two-booths, three-booths], method: welch}

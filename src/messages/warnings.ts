@@ -48,13 +48,24 @@ export const runEndsEarly = (file: string, lastRow: number, end: number, start: 
   `(more than ${fraction * 100}% of the window [${start}, ${end}]): levels hold their last value to the end and counts see no events there. ` +
   "What to check: that the run did not stop early or its file was not cut short, and that `end` is right for this run.";
 
-/** The same run ends early, as shown on the scenario's summary rows. */
-export const runsEndEarlyOnRow = (runs: readonly string[], fraction: number) =>
-  `${runs.length === 1 ? "Run" : "Runs"} ${runList(runs)} ${runs.length === 1 ? "has" : "have"} no row in the last ${fraction * 100}% of the window: ${runs.length === 1 ? "it" : "they"} may have stopped early (see the warnings).`;
-
-/** How many warnings the runs behind a summary row have, as shown on the row. */
-export const runWarningsOnRow = (count: number) =>
-  `The runs behind this row have ${count} warning(s) about this measure or the whole run: see the Warnings section.`;
+/**
+ * The flags of a summary row (src/report/model/summary.ts), each a link to its detail: short, so
+ * that several fit under a scenario's name. Numbers come in already rounded by the report.
+ */
+export const rowFlag = {
+  /** Across runs: more runs needed for the precision target than were made. */
+  targetMissed: (needed: string, made: string) => `Target missed: ${needed} runs needed, ${made} made`,
+  /** Batch means of one long run: the half-width is above the one the target aims at. */
+  targetMissedHalfWidth: (halfWidth: string, aim: string) => `Target missed: half-width ${halfWidth}, aimed at ${aim}`,
+  /** A target with no number of runs or half-width to judge it by (the runs-needed table says why). */
+  targetNotJudged: "Target not judged (see why)",
+  /** Runs that gave no value, left out of the interval. */
+  leftOut: (runs: readonly string[]) => `${runList(runs, 3)} left out (no value)`,
+  /** Runs whose rows stop well before the window's end. */
+  endsEarly: (runs: readonly string[]) => `${runList(runs, 3)} ${runs.length === 1 ? "ends" : "end"} early`,
+  /** The warnings about the row's scenario in its measure or in the whole run or scenario. */
+  warnings: (count: number) => `${count} warning${count === 1 ? "" : "s"}`,
+};
 
 /** A measure's summary leaves out runs that gave no value (no observation inside the window). */
 export const runsWithoutValue = (runs: readonly string[], used: number, total: number) =>

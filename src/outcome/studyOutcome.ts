@@ -1,6 +1,6 @@
 import type { PairedSteps, WelchSteps } from "../stats/differenceSteps.js";
 import type { IntervalSteps } from "../stats/interval.js";
-import type { LeftOut, Results } from "./results.js";
+import type { IntervalMethod, LeftOut, Results } from "./results.js";
 import type { TraceLine } from "./trace.js";
 
 /**
@@ -157,4 +157,61 @@ export interface Readings {
   comparisons: ComparisonReading[];
   batchMeans: BatchMeansReading[];
   timeAtValue: TimeAtValueMean[];
+  /** One per scenario and measure (the primary figure), scenario by scenario in results order. */
+  summaries: SummaryReading[];
+  /** What the report's opening sentences say. */
+  brief: BriefReading;
+}
+
+/**
+ * How a summary row's precision target stands: no target; met; missed (across runs: more runs
+ * needed than made; batch means: the half-width is above the one aimed at); or not judged (no
+ * number of runs or no half-width to judge by, `runs_needed_reason` says why).
+ */
+export type TargetReading = "none" | "met" | "missed" | "not-judged";
+
+/** The study's reading of one summary row (scenario × measure, primary figure). */
+export interface SummaryReading {
+  scenario: string;
+  measure: string;
+  /** Which interval the row shows (results.json `interval_method`, absent read as "across-runs"). */
+  method: IntervalMethod;
+  /** The values the interval rests on: run values (runs with a value) or the k batch means of one run. */
+  values: number;
+  df: number | null;
+  /** With batch means: the run they come from; null across runs. */
+  run: string | null;
+  mean: number | null;
+  half_width: number | null;
+  ci_low: number | null;
+  ci_high: number | null;
+  target: TargetReading;
+  /** Across runs, when the target is missed: the runs it needs; null otherwise. */
+  runsNeeded: number | null;
+  /** Runs that gave a value, of the scenario's runs. */
+  runs: number;
+  of: number;
+  runsWithoutValue: string[];
+  runsEndingEarly: string[];
+  /** Positions in `StudyOutcome.warnings` of the warnings about this scenario in this measure or in no one measure. */
+  warnings: number[];
+}
+
+/** The facts of the report's opening sentences, as positions into the lists they come from. */
+export interface BriefReading {
+  scenarios: string[];
+  measures: string[];
+  /** Runs per scenario, in scenario order. */
+  runs: number[];
+  /** Positions in `results.comparisons` whose interval excludes 0, contains 0, or is missing. */
+  significant: number[];
+  notSignificant: number[];
+  noInterval: number[];
+  /** Positions in `summaries` whose precision target is missed, cannot be judged, or that have no interval. */
+  targetsMissed: number[];
+  targetsNotJudged: number[];
+  withoutInterval: number[];
+  /** Positions in `summaries` whose interval is from batch means. */
+  fromBatchMeans: number[];
+  warnings: number;
 }

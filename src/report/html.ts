@@ -147,7 +147,7 @@ export async function renderReport(model: ReportModel, edition: Edition = DEFAUL
   const measures = [];
   for (const m of model.measures) {
     const drawn = [];
-    for (const c of m.charts) drawn.push(await withSvg(c, { measure: m.name }));
+    for (const c of m.charts) drawn.push(await withSvg(c, { measure: m.key }));
     measures.push({ ...m, charts: drawn });
   }
   let warmup = null;

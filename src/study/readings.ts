@@ -1,9 +1,15 @@
 import type {
   BatchMeansReading,
+  BriefReading,
   ComparisonReading,
   Readings,
   Results,
+  ScenarioResult,
+  Summary,
+  SummaryReading,
+  TargetReading,
   TimeAtValueMean,
+  Warning,
 } from "../outcome/index.js";
 import { fsum } from "../stats/fsum.js";
 
@@ -28,12 +34,70 @@ export function differenceReading(low: number | null, high: number | null): Comp
 }
 
 /**
- * The decisions about the numbers of `results` that the report puts into words: the reading of
- * each comparison, the lag-1 check of each run's batch means, and the share of time at each value
- * averaged over the runs of a scenario (a run that never took a value counts 0 for it; only runs
- * with a time-at-value table are averaged). Made once here, so the report derives nothing.
+ * The reading of one summary row: the interval it shows (the scenario's batch means when
+ * `interval_method` is "batch-means", else the contract's fields across runs), how its precision
+ * target stands, the runs it leaves out or that end early, and the warnings about it.
+ *
+ * A target is missed across runs when the runs needed are more than the runs that gave a value
+ * (`runs_needed` is the smallest k ≥ n that reaches it, so k = n means met); with batch means,
+ * when the batch-means half-width is above the half-width aimed at (`target_half_width`), since
+ * more runs are not what a single long run needs.
  */
-export function readResults(results: Results): Readings {
+export function readSummary(sr: ScenarioResult, measure: string, s: Summary, warnings: readonly Warning[]): SummaryReading {
+  const bm = s.interval_method === "batch-means" ? s.batch_means : undefined;
+  const iv = bm === undefined
+    ? { method: "across-runs" as const, values: s.n, df: s.n >= 2 ? s.n - 1 : null, run: null, mean: s.mean, half_width: s.half_width, ci_low: s.ci_low, ci_high: s.ci_high }
+    : { method: "batch-means" as const, values: bm.batches, df: bm.df, run: bm.run, mean: bm.mean, half_width: bm.half_width, ci_low: bm.ci_low, ci_high: bm.ci_high };
+  let target: TargetReading = "none";
+  let runsNeeded: number | null = null;
+  if (s.target !== undefined) {
+    if (bm !== undefined) {
+      const aim = s.target_half_width ?? null;
+      target = aim === null || bm.half_width === null ? "not-judged" : bm.half_width > aim ? "missed" : "met";
+    } else {
+      const need = s.runs_needed ?? null;
+      target = need === null ? "not-judged" : need > s.n ? "missed" : "met";
+      if (target === "missed") runsNeeded = need;
+    }
+  }
+  const about: number[] = [];
+  warnings.forEach((w, i) => {
+    if (w.scenario === sr.name && (w.measure === measure || w.measure === null)) about.push(i);
+  });
+  return {
+    scenario: sr.name, measure, ...iv, target, runsNeeded, runs: s.n, of: sr.runs.length,
+    runsWithoutValue: s.runs_without_value ?? [], runsEndingEarly: s.runs_ending_early ?? [], warnings: about,
+  };
+}
+
+/** The facts of the opening sentences, from the summary and comparison readings. */
+function brief(results: Results, summaries: SummaryReading[], comparisons: ComparisonReading[], warnings: number): BriefReading {
+  const at = <T>(xs: T[], keep: (x: T) => boolean) => xs.flatMap((x, i) => (keep(x) ? [i] : []));
+  const measures: string[] = [];
+  for (const s of summaries) if (!measures.includes(s.measure)) measures.push(s.measure);
+  return {
+    scenarios: results.scenarios.map((sr) => sr.name),
+    measures,
+    runs: results.scenarios.map((sr) => sr.runs.length),
+    significant: at(comparisons, (c) => c === "higher" || c === "lower"),
+    notSignificant: at(comparisons, (c) => c === "no-difference"),
+    noInterval: at(comparisons, (c) => c === "no-interval"),
+    targetsMissed: at(summaries, (s) => s.target === "missed"),
+    targetsNotJudged: at(summaries, (s) => s.target === "not-judged"),
+    withoutInterval: at(summaries, (s) => s.half_width === null),
+    fromBatchMeans: at(summaries, (s) => s.method === "batch-means"),
+    warnings,
+  };
+}
+
+/**
+ * The decisions about the numbers of `results` that the report puts into words: the reading of
+ * each comparison, the lag-1 check of each run's batch means, the share of time at each value
+ * averaged over the runs of a scenario (a run that never took a value counts 0 for it; only runs
+ * with a time-at-value table are averaged), the reading of each summary row (`readSummary`) and
+ * the facts of the opening sentences. Made once here, so the report derives nothing.
+ */
+export function readResults(results: Results, warnings: readonly Warning[] = []): Readings {
   const comparisons = (results.comparisons ?? []).map((c) => differenceReading(c.ci_low, c.ci_high));
   const batchMeans: BatchMeansReading[] = [];
   const timeAtValue: TimeAtValueMean[] = [];
@@ -58,5 +122,7 @@ export function readResults(results: Results): Readings {
       timeAtValue.push({ scenario: sr.name, measure: name, runs: lists.length, of: sr.runs.length, shares });
     }
   }
-  return { lag1Limit: LAG1_LIMIT, comparisons, batchMeans, timeAtValue };
+  const summaries: SummaryReading[] = [];
+  for (const sr of results.scenarios) for (const [name, s] of Object.entries(sr.summary)) summaries.push(readSummary(sr, name, s, warnings));
+  return { lag1Limit: LAG1_LIMIT, comparisons, batchMeans, timeAtValue, summaries, brief: brief(results, summaries, comparisons, warnings.length) };
 }

@@ -101,7 +101,8 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     comparisons: [],
     traces: [],
     samples: [],
-    readings: { lag1Limit: LAG1_LIMIT, comparisons: [], batchMeans: [], timeAtValue: [] },
+    // Read again once the results are complete (below).
+    readings: readResults({ format: "sojourn-results/1", title: study.title, time_unit: study.timeUnit, confidence: study.confidence, warmup: null, scenarios: [] }),
     warnings: [],
   };
   const writeTable = options.writeTable ?? (() => {});
@@ -219,7 +220,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
     writeTable(f.record.file, f.csv);
     outcome.tables.push(f.record);
   }
-  outcome.readings = readResults(outcome.results);
+  outcome.readings = readResults(outcome.results, outcome.warnings);
   assertDistinctFiles(outcome.tables);
   return { outcome };
 }

@@ -80,7 +80,7 @@ describe("buildReportModel", () => {
     const model = buildReportModel(study, outcome, META);
     expect(model.summary.rows).toHaveLength(study.measureNames.length * outcome.results.scenarios.length);
     for (const r of model.summary.rows) {
-      const s = outcome.results.scenarios.find((x) => x.name === r.scenario)!.summary[r.measure];
+      const s = outcome.results.scenarios.find((x) => x.name === r.scenario)!.summary[r.key];
       expect(r.mean.text).toBe(formatNumber(s.mean));
       expect(r.halfWidth.text).toBe(formatNumber(s.half_width));
       expect(r.interval.text).toBe(`[${formatNumber(s.ci_low)}, ${formatNumber(s.ci_high)}]`);
@@ -97,7 +97,8 @@ describe("buildReportModel", () => {
     for (const r of rows) {
       expect(r.halfWidth.text).toBe(MISSING);
       expect(r.interval.text).toBe(MISSING);
-      expect(r.note).toBe(outcome.intervals.find((a) => a.scenario === single && a.measure === r.measure && a.figure === "value")!.note);
+      expect(r.note?.text).toBe(outcome.intervals.find((a) => a.scenario === single && a.measure === r.key && a.figure === "value")!.note);
+      expect(r.noteKind).toBe("missing");
     }
   });
 
@@ -105,7 +106,7 @@ describe("buildReportModel", () => {
     // the fixture's one-run scenario has a relative target and runs_needed_reason "one-run"
     const { study, outcome } = bakery({ singleRunScenario: true });
     const model = buildReportModel(study, outcome, META);
-    const table = model.measures.find((m) => m.name === "shelf_stock")!.runsNeeded!;
+    const table = model.measures.find((m) => m.key === "shelf_stock")!.runsNeeded!;
     const single = outcome.results.scenarios[1].name;
     const row = table.rows.find((r) => r[0].text === single)!;
     expect(row[row.length - 1]).toMatchObject({ text: `${MISSING} ${runsNeededWhy("one-run", 1)}`, flag: true });
@@ -118,8 +119,8 @@ describe("buildReportModel", () => {
     const m1 = buildReportModel(full.study, full.outcome, META);
     const m0 = buildReportModel(plain.study, plain.outcome, META);
     // Fixture: shelf_stock has time_at_least, batch means (second scenario) and runs_needed; queue_wait has quantiles and within.
-    const stock = m1.measures.find((m) => m.name === "shelf_stock")!;
-    const wait = m1.measures.find((m) => m.name === "queue_wait")!;
+    const stock = m1.measures.find((m) => m.key === "shelf_stock")!;
+    const wait = m1.measures.find((m) => m.key === "queue_wait")!;
     expect(stock.extras?.rows).toHaveLength(2);
     expect(stock.batchMeans?.rows).toHaveLength(full.outcome.results.scenarios[1].runs.length);
     expect(stock.runsNeeded?.rows).toHaveLength(2);

@@ -35,10 +35,15 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     const message = warn.runsWithoutValue(["r2"], 2, 3);
     expect(outcome.warnings).toContainEqual({ scenario: "a", run: null, measure: "w", message });
     const model = buildReportModel(study, outcome, META);
-    const row = model.summary.rows.find((r) => r.measure === "w")!;
+    const row = model.summary.rows.find((r) => r.key === "w")!;
     expect(row.runs).toBe("2");
-    expect(row.warnings).toEqual([message]);
-    expect(model.summary.rows.find((r) => r.measure === "t")!.warnings).toEqual([]);
+    // the row's flags: the run left out (to the measure's run table) and the warning that says so
+    const wi = outcome.warnings.findIndex((w) => w.message === message);
+    expect(row.flags).toEqual([
+      { kind: "left-out", text: warn.rowFlag.leftOut(["r2"]), href: `#${model.measures[0].runs.id}` },
+      { kind: "warnings", text: warn.rowFlag.warnings(1), href: `#${model.warnings[wi].id}` },
+    ]);
+    expect(model.summary.rows.find((r) => r.key === "t")!.flags).toEqual([]);
   });
 
   it("a run that stops long before the end is named on every summary row of its scenario", async () => {
@@ -50,11 +55,18 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     const { study, outcome } = await studyOf(manifest("  - {name: q, kind: level, series: queue}\n  - {name: n, kind: count, series: queue}"), files);
     for (const name of ["q", "n"]) expect(outcome.results.scenarios[0].summary[name].runs_ending_early).toEqual(["r2"]);
     const model = buildReportModel(study, outcome, META);
-    const rowMessage = warn.runsEndEarlyOnRow(["r2"], LATE_FRACTION);
-    // and the run's own warning is counted on the row (one: r2 ends early)
-    for (const row of model.summary.rows) expect(row.warnings).toEqual([rowMessage, warn.runWarningsOnRow(1)]);
-    // shown in the HTML, with the run's name escaped like any user text
-    expect(await renderHtml(model)).toContain("no row in the last 10% of the window");
+    // the flag links to the run's own warning, which is also counted on the row (one: r2 ends early)
+    const wi = outcome.warnings.findIndex((w) => w.run === "r2" && w.message.includes(`more than ${LATE_FRACTION * 100}% of the window`));
+    expect(wi).toBeGreaterThanOrEqual(0);
+    for (const row of model.summary.rows) {
+      expect(row.flags).toEqual([
+        { kind: "ends-early", text: warn.rowFlag.endsEarly(["r2"]), href: `#${model.warnings[wi].id}` },
+        { kind: "warnings", text: warn.rowFlag.warnings(1), href: `#${model.warnings[wi].id}` },
+      ]);
+    }
+    const html = await renderHtml(model);
+    expect(html).toContain(`<li id="${model.warnings[wi].id}">`);
+    expect(html).toContain(Handlebars.escapeExpression(warn.rowFlag.endsEarly(["r2"])));
   });
 
   it("a summary row counts the warnings of its runs about its own measure, not those about another", async () => {
@@ -66,8 +78,8 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     };
     const { study, outcome } = await studyOf(manifest("  - {name: u, kind: utilization, series: busy, capacity: 2}\n  - {name: n, kind: count, series: busy}"), files);
     const model = buildReportModel(study, outcome, META);
-    expect(model.summary.rows.find((r) => r.measure === "u")!.warnings).toEqual([warn.runWarningsOnRow(1)]);
-    expect(model.summary.rows.find((r) => r.measure === "n")!.warnings).toEqual([]);
+    expect(model.summary.rows.find((r) => r.key === "u")!.flags.map((f) => f.text)).toEqual([warn.rowFlag.warnings(1)]);
+    expect(model.summary.rows.find((r) => r.key === "n")!.flags).toEqual([]);
   });
 
   it("a run name with markup is escaped on the summary row", async () => {
@@ -79,12 +91,12 @@ describe("summarizeMeasure says which runs an interval rests on", () => {
     const { study, outcome } = await studyOf(manifest("  - {name: q, kind: level, series: queue}"), files);
     const model = buildReportModel(study, outcome, META);
     // runs ending early: "<i>late" (last row 1) and "ok" (last row 2); runs in file-name order
-    const message = warn.runsEndEarlyOnRow(["<i>late", "ok"], LATE_FRACTION);
-    expect(model.summary.rows[0].warnings).toEqual([message, warn.runWarningsOnRow(2)]);
+    const message = warn.rowFlag.endsEarly(["<i>late", "ok"]);
+    expect(model.summary.rows[0].flags.map((f) => f.text)).toEqual([message, warn.rowFlag.warnings(2)]);
     const html = await renderHtml(model);
     expect(html).not.toContain("<i>late");
     // HTML escaping as Handlebars does it (common practice: escape & < > " ' ` =)
-    expect(html).toContain(`<span class="cell-warning">${Handlebars.escapeExpression(message)}</span>`);
+    expect(html).toContain(`<a class="flag flag-ends-early" href="${model.summary.rows[0].flags[0].href}">${Handlebars.escapeExpression(message)}</a>`);
   });
 });
 

@@ -2,7 +2,7 @@
  * Anchors of the report page: readable, unique and HTML-safe ids, assigned once per build.
  */
 import type { Measure, Study } from "../../manifest/types.js";
-import type { StudyOutcome } from "../../outcome/index.js";
+import type { StudyOutcome, SummaryReading } from "../../outcome/index.js";
 import { batchMeansOf } from "./words.js";
 
 
@@ -47,6 +47,15 @@ export interface ReportContext {
   comparisonIds: (string | null)[];
   ivId: (scenario: string, measure: string, figure: string) => string | null;
   tbId: (scenario: string, run: string | null, measure: string) => string | null;
+  /** What the client reads for a measure: its `label`, and its `unit` (null when it has none). */
+  labelOf: (name: string) => string;
+  unitOf: (name: string) => string | null;
+  /** The study's reading of a summary row (src/study/readings.ts). */
+  readingOf: (scenario: string, measure: string) => SummaryReading | undefined;
+  /** The anchors of a measure's run table and runs-needed table, and of each warning. */
+  runsTableId: (measure: string) => string;
+  runsNeededId: (measure: string) => string;
+  warningIds: string[];
 }
 
 /** The context of one build: the anchors of calculation tables, interval derivations, measures and batch values. */
@@ -86,5 +95,15 @@ const comparisonIds = (results.comparisons ?? []).map((c, i) =>
   (outcome.comparisons.some((x) => x.index === i) ? anchor("comparison-steps", i + 1, c.measure, c.a, c.b) : null));
 const ivId = (scenario: string, measure: string, figure: string) => intervalIds.get(key(scenario, measure, figure)) ?? null;
 const tbId = (scenario: string, run: string | null, measure: string) => tableIds.get(key(scenario, run, measure)) ?? null;
-  return { study, outcome, results, unit, scenarioNames, measureOf, tableAnchors, intervalIds, measureIds, batchIds, comparisonRowIds, comparisonIds, ivId, tbId };
+const labelOf = (name: string) => measureOf(scenarioNames[0] ?? "", name).label;
+const unitOf = (name: string) => measureOf(scenarioNames[0] ?? "", name).unit;
+const readingOf = (scenario: string, measure: string) => outcome.readings.summaries.find((r) => r.scenario === scenario && r.measure === measure);
+const measureId = (name: string) => measureIds[study.measureNames.indexOf(name)] ?? anchor("measure", 0, name);
+const runsTableId = (name: string) => `${measureId(name)}-runs`;
+const runsNeededId = (name: string) => `${measureId(name)}-runs-needed`;
+const warningIds = outcome.warnings.map((_, i) => `warning-${i + 1}`);
+  return {
+    study, outcome, results, unit, scenarioNames, measureOf, tableAnchors, intervalIds, measureIds, batchIds, comparisonRowIds, comparisonIds, ivId, tbId,
+    labelOf, unitOf, readingOf, runsTableId, runsNeededId, warningIds,
+  };
 }

@@ -26,7 +26,7 @@ export function comparisonsView(ctx: ReportContext): { intro: string; table: Tab
       const href = comparisonIds[i];
       const num = (t: string) => link(t, href);
       return [
-        text(c.measure), text(c.a), text(c.b),
+        text(ctx.labelOf(c.measure)), text(c.a), text(c.b),
         text(methodWords(c.method)),
         num(fmt(c.diff_mean)), num(fmt(c.standard_error)), num(fmt(c.t)), num(fmt(c.df)),
         num(fmt(c.half_width)), num(intervalText(c.ci_low, c.ci_high)),

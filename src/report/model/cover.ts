@@ -9,11 +9,12 @@ import { dateText, fmt, warmupText } from "./words.js";
 /** The cover's facts and scenario lines. */
 export function coverView(ctx: ReportContext, meta: { toolVersion: string; generatedAt: string }): { facts: Fact[]; scenarios: ScenarioLine[] } {
   const { study, results, unit } = ctx;
+  const labelOf = (name: string) => (study.measureNames.includes(name) ? ctx.labelOf(name) : name);
   const totalRuns = results.scenarios.reduce((a, s) => a + s.runs.length, 0);
   const facts: Fact[] = [
     { label: "Time unit", value: unit },
     { label: "Confidence", value: formatPercent(study.confidence) },
-    { label: "Warm-up", value: warmupText(study.warmup, unit) },
+    { label: "Warm-up", value: warmupText(study.warmup, unit, labelOf) },
     { label: "Scenarios", value: String(results.scenarios.length) },
     { label: "Runs", value: `${totalRuns} (${results.scenarios.map((s) => `${s.runs.length}`).join(" + ")})` },
     { label: "Measures", value: String(study.measureNames.length) },
@@ -23,10 +24,10 @@ export function coverView(ctx: ReportContext, meta: { toolVersion: string; gener
   const coverScenarios: ScenarioLine[] = results.scenarios.map((sr) => {
     const sc = study.scenarios.find((s) => s.name === sr.name);
     const windows = [...new Set(sr.runs.map((r) => `${fmt(r.start)} to ${r.end === null ? "last row" : fmt(r.end)} ${unit}`))];
-    let warm = sc ? warmupText(sc.warmup, unit) : MISSING;
+    let warm = sc ? warmupText(sc.warmup, unit, labelOf) : MISSING;
     const est = sr.warmup_estimate;
     if (est !== undefined) {
-      warm = `${fmt(est.time)} ${unit}, by ${est.method.toUpperCase()} on ${est.measure}: ` +
+      warm = `${fmt(est.time)} ${unit}, by ${est.method.toUpperCase()} on ${labelOf(est.measure)}: ` +
         `first ${fmt(est.d)} of ${fmt(est.batches)} batches dropped`;
     }
     const analysis = sc?.analysis.type === "batch-means"

@@ -7,8 +7,8 @@
  * into text by the one rounding rule of `../number.ts`; every sentence is worded in this folder;
  * the templates only place these strings. Chart specs (vega-lite, data inline) are built here too.
  *
- * One file per part of the page: `cover.ts`, `summary.ts`, `warmup.ts`, `measure.ts` (with
- * `measureCharts.ts`), `comparisons.ts`, `warnings.ts`, `appendix.ts`; the fixed method notes and
+ * One file per part of the page: `cover.ts`, `summary.ts` (with its opening sentences in
+ * `brief.ts`), `warmup.ts`, `measure.ts` (with `measureCharts.ts`), `comparisons.ts`, `warnings.ts`, `appendix.ts`; the fixed method notes and
  * limitations are in `methods.ts`, the wording helpers in `words.ts`, the anchors in `anchors.ts`
  * and the view types in `view.ts`.
  */
@@ -46,7 +46,7 @@ export function buildReportModel(
   const warmup = warmupSection(ctx);
   const measures = study.measureNames.map((name, mi) => measureSection(ctx, name, mi));
   const comparisons = comparisonsView(ctx);
-  const warnings = warningLines(outcome);
+  const warnings = warningLines(outcome, ctx.warningIds);
 
   const contents = [
     { href: "#summary", label: "Summary" },

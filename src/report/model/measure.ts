@@ -17,16 +17,19 @@ export function measureSection(ctx: ReportContext, name: string, mi: number): Me
   const id = measureIds[mi];
   const m = measureOf(scenarioNames[0], name);
   const charts = measureCharts(ctx, name, m, id);
+  const needed = runsNeededTable(m, results.scenarios);
   return {
     id,
-    name,
+    name: m.label,
+    key: name,
+    unit: m.unit,
     kind: kindLabel(m.kind),
     statement: statement(m, study.scenarios, unit),
     charts,
-    runs: runTable(name, m.kind, results.scenarios, unit, tbId),
-    extras: extrasTable(name, m.kind, results.scenarios, ivId),
-    batchMeans: batchMeansTable(name, results.scenarios, ctx.outcome.readings, batchIds),
-    runsNeeded: runsNeededTable(name, results.scenarios),
+    runs: { ...runTable(m, results.scenarios, unit, tbId), id: ctx.runsTableId(name) },
+    extras: extrasTable(m, results.scenarios, ivId),
+    batchMeans: batchMeansTable(m, results.scenarios, ctx.outcome.readings, batchIds),
+    runsNeeded: needed === null ? null : { ...needed, id: ctx.runsNeededId(name) },
   };
 }
 
@@ -92,18 +95,24 @@ function groupFigures(st: RunStats, group: FigureGroup): Record<string, number |
 }
 
 function runTable(
-  name: string,
-  kind: Measure["kind"],
+  m: Measure,
   scenarios: StudyOutcome["results"]["scenarios"],
   unit: string,
   tbId: (s: string, r: string | null, m: string) => string | null,
 ): TableView {
+  const { name, kind } = m;
+  // The measure's unit is said once, in the caption (the columns stay narrow); times are in the study's time unit.
+  const u = m.unit;
   const cols: Record<Measure["kind"], string[]> = {
     level: ["time average", "time-weighted sd", "min", "max", "final", "area", `duration (${unit})`],
     utilization: ["utilization"],
     observation: ["mean", "sd", "n", "min", "max"],
     count: ["count", `rate (per ${unit})`],
   };
+  const units = u === null ? ""
+    : kind === "level" ? `values in ${u}, area in ${u} × ${unit}; `
+      : kind === "count" ? `counts in ${u}; `
+        : kind === "utilization" && u === "fraction" ? "shares of capacity, from 0 to 1; " : `values in ${u}; `;
   const present = ENTITY_FIGURES.filter((e) => scenarios.some((sr) => sr.runs.some((r) => {
     const st = r.measures[name];
     return st !== undefined && e.pick(st) !== undefined;
@@ -130,18 +139,18 @@ function runTable(
     rows.push([text(sr.name), text(r.id), ...cells, ...extras]);
   }
   return tableView(
-    `${name}: each run's figures (the first number links to the run's calculation table)`,
+    `${m.label}: each run's figures (${units}the first number links to the run's calculation table)`,
     ["Scenario", "Run", ...columns, ...extraKeys.map((e) => figureLabel(kind, `${e.group}.${e.key}`))],
     rows,
   );
 }
 
 function extrasTable(
-  name: string,
-  kind: Measure["kind"],
+  m: Measure,
   scenarios: StudyOutcome["results"]["scenarios"],
   ivId: (s: string, m: string, f: string) => string | null,
 ): TableView | null {
+  const { name, kind } = m;
   const rows: Cell[][] = [];
   for (const group of FIGURE_GROUPS) {
     for (const sr of scenarios) {
@@ -158,7 +167,7 @@ function extrasTable(
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${name}: further figures across runs (each run's figure is one value of the interval; shares run from 0 to 1)`,
+    `${m.label}: further figures across runs (each run's figure is one value of the interval; shares run from 0 to 1)`,
     ["Figure", "Scenario", "Mean", "Half-width", "Interval", "Runs"],
     rows,
   );
@@ -169,7 +178,8 @@ function lag1Words(reading: BatchMeansReading["lag1"], limit: number): string {
   return { none: "no lag-1 (too few batches)", "too-large": `|lag-1| > ${limit}: batches too short`, ok: "ok" }[reading];
 }
 
-function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scenarios"], readings: Readings, batchIds: Map<string, string>): TableView | null {
+function batchMeansTable(m: Measure, scenarios: StudyOutcome["results"]["scenarios"], readings: Readings, batchIds: Map<string, string>): TableView | null {
+  const name = m.name;
   const rows: Cell[][] = [];
   for (const sr of scenarios) for (const r of sr.runs) {
     const b = batchMeansOf(r.measures[name]);
@@ -184,13 +194,14 @@ function batchMeansTable(name: string, scenarios: StudyOutcome["results"]["scena
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${name}: batch means within each run (interval for the run's long-run mean; each run links to its batch values in the appendix)`,
+    `${m.label}: batch means within each run (${m.unit === null ? "" : `values in ${m.unit}; `}interval for the run's long-run mean; each run links to its batch values in the appendix)`,
     ["Scenario", "Run", "Batches", "Mean", "Half-width", "Interval", "Lag-1 correlation", "Check"],
     rows,
   );
 }
 
-function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scenarios"]): TableView | null {
+function runsNeededTable(m: Measure, scenarios: StudyOutcome["results"]["scenarios"]): TableView | null {
+  const name = m.name;
   const rows: Cell[][] = [];
   for (const sr of scenarios) {
     const s = sr.summary[name];
@@ -207,7 +218,7 @@ function runsNeededTable(name: string, scenarios: StudyOutcome["results"]["scena
   }
   if (rows.length === 0) return null;
   return tableView(
-    `${name}: runs needed for the target precision (smallest k with t · s / √k ≤ the half-width aimed at; a relative error γ aims at γ/(1 + γ) · |mean|)`,
+    `${m.label}: runs needed for the target precision (${m.unit === null ? "" : `half-widths in ${m.unit}; `}smallest k with t · s / √k ≤ the half-width aimed at; a relative error γ aims at γ/(1 + γ) · |mean|)`,
     ["Scenario", "Target", "Half-width aimed at", "Runs now", "Half-width now", "Runs needed"],
     rows,
   );

@@ -21,27 +21,40 @@ import {
 import { formatPercent } from "../number.js";
 import type { ReportContext } from "./anchors.js";
 import type { Chart } from "./view.js";
-import { fmt, primaryName, valueTitle } from "./words.js";
+import { fmt, primaryName, q, valueTitle, withUnit } from "./words.js";
 
 /** The charts of one measure's section, with ids under the section's id. */
 export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: string): Chart[] {
-  const { study, outcome, results, unit, scenarioNames } = ctx;
-  const vTitle = valueTitle(m, unit);
+  const { study, outcome, results, unit, scenarioNames, readingOf } = ctx;
+  const label = m.label;
+  const vTitle = valueTitle(m);
   const charts: Chart[] = [];
   let chartNo = 0;
   const chartId = (what: string) => `${id}-chart-${++chartNo}-${what}`;
+  const severalRuns = results.scenarios.some((sr) => sr.runs.length >= 2);
+  // The interval each scenario's summary row shows (the study's choice: across runs or batch means).
+  const readings = results.scenarios.map((sr) => readingOf(sr.name, name));
+  const fromBatches = results.scenarios.filter((_, i) => readings[i]?.method === "batch-means").map((sr) => q(sr.name));
 
-  // Charts across runs say nothing when no scenario has two runs (one dot, no interval).
-  if (results.scenarios.some((sr) => sr.runs.length >= 2)) charts.push({
+  // Charts across runs say nothing when no scenario has two runs (one dot, no interval), unless
+  // a scenario's interval is from the batch means of its one long run.
+  if (severalRuns || fromBatches.length > 0) charts.push({
     id: chartId("interval"),
-    caption: `${name}: mean of the run values and its ${formatPercent(study.confidence)} confidence interval, by scenario (time unit ${unit}).`,
-    spec: intervalChart(results.scenarios.map((sr) => {
-      const s = sr.summary[name];
-      return { scenario: sr.name, mean: s?.mean ?? null, low: s?.ci_low ?? null, high: s?.ci_high ?? null, label: fmt(s?.mean ?? null) };
+    caption: `${label}: the mean and its ${formatPercent(study.confidence)} confidence interval, by scenario` +
+      (m.unit === null ? "" : `; unit: ${m.unit}`) + ". " +
+      (fromBatches.length === 0
+        ? "Each interval is across the runs (one value per run)."
+        : fromBatches.length === results.scenarios.length
+          ? "Each interval is from the batch means of the scenario's single long run (Student t, k − 1 degrees of freedom)."
+          : `The intervals of ${fromBatches.join(", ")} are from the batch means of a single long run (Student t, k − 1 degrees of freedom); the others are across the runs.`),
+    spec: intervalChart(results.scenarios.map((sr, i) => {
+      const r = readings[i];
+      return { scenario: sr.name, mean: r?.mean ?? null, low: r?.ci_low ?? null, high: r?.ci_high ?? null, label: fmt(r?.mean ?? null) };
     }), vTitle),
-  }, {
+  });
+  if (severalRuns) charts.push({
     id: chartId("runs"),
-    caption: `${name}: each run's ${primaryName(m.kind)} (dots) and the scenario mean (bar) (time unit ${unit}).`,
+    caption: `${label}: each run's ${primaryName(m.kind)} (dots) and the scenario mean (bar)` + (m.unit === null ? "." : `; unit: ${m.unit}.`),
     spec: runsChart(results.scenarios.flatMap((sr) => sr.runs.flatMap((r) => {
       const v = r.measures[name]?.value;
       return v === undefined || v === null ? [] : [{ scenario: sr.name, run: r.id, value: v }];
@@ -50,7 +63,7 @@ export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: 
   for (const sr of results.scenarios) {
     const tr = outcome.traces.find((t) => t.scenario === sr.name && t.measure === name);
     if (!tr) continue;
-    charts.push({ id: chartId("trace"), ...traceView(name, m.kind, sr.name, tr, unit) });
+    charts.push({ id: chartId("trace"), ...traceView(m, sr.name, tr, unit) });
   }
   if (m.kind === "observation") {
     const rows = outcome.samples.filter((s) => s.measure === name)
@@ -59,17 +72,17 @@ export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: 
       const sampled = outcome.samples.filter((s) => s.measure === name).some((s) => s.values.length < s.total);
       charts.push({
         id: chartId("histogram"),
-        caption: `${name}: histogram of the observations inside the window, all runs of each scenario together` +
-          (m.kind === "observation" && m.source.type === "entities" ? ` (values in ${unit})` : "") + "." +
+        caption: `${label}: histogram of the observations inside the window, all runs of each scenario together` +
+          (m.unit === null ? "" : ` (values in ${m.unit})`) + "." +
           (sampled ? " Drawn from an even sample of the observations; the statistics use all of them." : ""),
-        spec: histogramChart(rows, scenarioNames, m.source.type === "entities" ? `${name} (${unit})` : `${name} (observed value)`, "observations"),
+        spec: histogramChart(rows, scenarioNames, withUnit(label, m.unit ?? "observed value"), "observations"),
       });
     }
-    const ecdf = ecdfView(name, m, outcome.samples.filter((s) => s.measure === name), scenarioNames, study, unit);
+    const ecdf = ecdfView(name, m, outcome.samples.filter((s) => s.measure === name), scenarioNames, study);
     if (ecdf !== null) charts.push({ id: chartId("distribution"), ...ecdf });
   }
   if (m.kind === "level" || m.kind === "utilization") {
-    const tav = timeAtValueView(name, m.kind, outcome.readings.timeAtValue, unit);
+    const tav = timeAtValueView(m, outcome.readings.timeAtValue, unit);
     if (tav !== null) charts.push({ id: chartId("time-at-value"), ...tav });
   }
   return charts;
@@ -82,19 +95,17 @@ function ecdfView(
   samples: StudyOutcome["samples"],
   scenarios: string[],
   study: Study,
-  unit: string,
 ): Omit<Chart, "id"> | null {
   const rows = samples.flatMap((s) => ecdfSteps(s.values).map((p) => ({ scenario: s.scenario, value: p.value, share: p.share })));
   if (rows.length === 0) return null;
   const within = [...new Set(study.scenarios.flatMap((sc) => sc.measures)
     .filter((x): x is Extract<Measure, { kind: "observation" }> => x.name === name && x.kind === "observation")
     .flatMap((x) => x.within))].sort((a, b) => a - b);
-  const entities = m.kind === "observation" && m.source.type === "entities";
   const sampled = samples.filter((s) => s.values.length < s.total);
   const thinned = samples.some((s) => s.values.length > MAX_ECDF_POINTS);
   const caption = [
-    `${name}: share of the observations at or below each value (empirical distribution), all runs of each scenario pooled` +
-      (entities ? `, values in ${unit}` : "") + ".",
+    `${m.label}: share of the observations at or below each value (empirical distribution), all runs of each scenario pooled` +
+      (m.unit === null ? "" : `, values in ${m.unit}`) + ".",
     within.length > 0
       ? `Dashed rules mark the ${within.length === 1 ? "threshold" : "thresholds"} ${within.map((x) => fmt(x)).join(", ")}; the table of further figures gives the mean of the per-run shares within ${within.length === 1 ? "it" : "them"}, which can differ from the pooled share read here.`
       : "",
@@ -108,7 +119,7 @@ function ecdfView(
       rows,
       scenarios: scenarios.filter((sc) => samples.some((s) => s.scenario === sc && s.values.length > 0)),
       thresholds: within.map((x) => ({ value: x, label: `≤ ${fmt(x)}` })),
-      valueTitle: entities ? `${name} (${unit})` : `${name} (observed value)`,
+      valueTitle: withUnit(m.label, m.unit ?? "observed value"),
       shareTitle: "share of observations ≤ value",
     }),
   };
@@ -116,11 +127,11 @@ function ecdfView(
 
 /** The time-at-value bar chart of a level or utilization, or null when no run has the figures. */
 function timeAtValueView(
-  name: string,
-  kind: "level" | "utilization",
+  m: Extract<Measure, { kind: "level" | "utilization" }>,
   means: TimeAtValueMean[],
   unit: string,
 ): Omit<Chart, "id"> | null {
+  const { name, kind, label } = m;
   const rows: { scenario: string; value: number; share: number }[] = [];
   const partial: string[] = [];
   const used: string[] = [];
@@ -133,16 +144,17 @@ function timeAtValueView(
   }
   if (rows.length === 0) return null;
   return {
-    caption: `${name}: share of the window's time spent at each ${kind === "utilization" ? "number of busy units" : "value"} (time at the value ÷ window length, both in ${unit}), ` +
+    caption: `${label}: share of the window's time spent at each ${kind === "utilization" ? "number of busy units" : withUnit("value", m.unit)} (time at the value ÷ window length, both in ${unit}), ` +
       "averaged over the runs of each scenario; a run that never took a value counts as 0 for it." +
       (partial.length > 0 ? ` Only the runs with a time-at-value table are averaged (${partial.join("; ")}).` : "") +
       " Each run's own shares are in its time-at-value table in the appendix.",
-    spec: timeAtValueChart(rows, used, kind === "utilization" ? `${name}: busy units` : `${name}: level`, "share of time"),
+    spec: timeAtValueChart(rows, used, kind === "utilization" ? `${label}: busy units` : withUnit(`${label}: level`, m.unit), "share of time"),
   };
 }
 
 /** A run's level over time: caption and chart (the level, or busy against capacity for a utilization). */
-function traceView(name: string, kind: Measure["kind"], scenario: string, tr: LevelTrace, unit: string): { caption: string; spec: TopLevelSpec } {
+function traceView(m: Measure, scenario: string, tr: LevelTrace, unit: string): { caption: string; spec: TopLevelSpec } {
+  const { kind, label } = m;
   const band = tracedAsBand(tr);
   const util = kind === "utilization";
   const shape = band
@@ -151,16 +163,16 @@ function traceView(name: string, kind: Measure["kind"], scenario: string, tr: Le
   const average = util
     ? `the running utilization from ${fmt(tr.from)} ${unit} (busy area over capacity area so far, right axis)`
     : `the running time average from ${fmt(tr.from)} ${unit} (area so far over elapsed time)`;
-  const caption = `${name} over time in run ${tr.run} of ${scenario}: ${shape}, and ${average}` +
+  const caption = `${label} over time in run ${tr.run} of ${scenario}: ${shape}, and ${average}` +
     (tr.from > tr.start ? `; the warm-up up to ${fmt(tr.from)} ${unit} is the grey band` : "") + ".";
   const spec = traceChart({
     start: tr.start, from: tr.from, to: tr.to, warmup: tr.warmup, level: tr.level, capacity: tr.capacity,
     timeTitle: `time (${unit})`,
-    valueTitle: util ? `${name}: units busy and available` : `${name}: level`,
+    valueTitle: util ? `${label}: units busy and available` : withUnit(`${label}: level`, m.unit),
     levelLabel: util ? "busy" : "level",
     capacityLabel: "capacity",
     averageLabel: util ? "running utilization" : "running time average",
-    averageTitle: util ? `${name}: running utilization` : null,
+    averageTitle: util ? `${label}: running utilization` : null,
     warmupLabel: "warm-up",
   });
   return { caption, spec };

@@ -28,8 +28,29 @@ export interface ScenarioLine {
   analysis: string;
 }
 
+/**
+ * A short flag on a summary row, linking to its detail: the precision target missed or not
+ * judged, runs left out, runs ending early, warnings. `kind` is the class the page styles it by.
+ */
+export interface Flag {
+  kind: "target-missed" | "target-unknown" | "left-out" | "ends-early" | "warnings";
+  text: string;
+  href: string;
+}
+
+/** One sentence of the opening "In brief" block, with an optional link after it to where it is shown. */
+export interface BriefSentence {
+  text: string;
+  href: string | null;
+  linkText: string | null;
+}
+
 export interface SummaryRow {
+  /** The measure's label (what the client reads), and its unit in words or null. */
   measure: string;
+  unit: string | null;
+  /** The measure's name in the manifest and results.json. */
+  key: string;
   measureHref: string;
   /** Rows of the measure's block; set on its first row only (0 elsewhere). */
   measureRows: number;
@@ -39,9 +60,12 @@ export interface SummaryRow {
   interval: Cell;
   runs: string;
   relative: Cell;
-  note: string | null;
-  /** What the row's interval rests on that a reader should know: runs left out, runs that stopped early. */
-  warnings: string[];
+  /** What the interval is made from (batch means) or why there is none; links to its values when it has them. */
+  note: Cell | null;
+  /** "method": the note says what the interval is made from; "missing": why there is no interval. */
+  noteKind: "method" | "missing" | null;
+  /** What the row rests on that a reader should know, each linking to its detail. */
+  flags: Flag[];
 }
 
 export interface Chart {
@@ -52,6 +76,8 @@ export interface Chart {
 
 /** A plain table of text cells; a cell with `href` links to where it comes from. */
 export interface TableView {
+  /** The anchor of the table, when something links to it. */
+  id?: string;
   caption: string;
   columns: string[];
   /** Per column: true when every cell is a number as shown (or missing). */
@@ -78,7 +104,10 @@ export const SHORT_LABEL = 16;
 
 export interface MeasureSection {
   id: string;
+  /** The measure's label; `key` is its name in the manifest and in results.json (for the reviewer). */
   name: string;
+  key: string;
+  unit: string | null;
   kind: string;
   statement: string;
   charts: Chart[];
@@ -97,6 +126,7 @@ export interface MethodNote {
 }
 
 export interface WarningLine {
+  id: string;
   where: string;
   message: string;
 }
@@ -198,7 +228,7 @@ export interface ReportModel {
   rule: string;
   cover: { facts: Fact[]; scenarios: ScenarioLine[] };
   contents: { href: string; label: string }[];
-  summary: { intro: string; rows: SummaryRow[] };
+  summary: { brief: BriefSentence[]; intro: string; rows: SummaryRow[] };
   /** The warm-up estimates (MSER-5) with the warm-up plot; null when no scenario estimated one. */
   warmup: { intro: string; scenarios: WarmupView[] } | null;
   measures: MeasureSection[];

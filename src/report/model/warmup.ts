@@ -35,6 +35,9 @@ function warmupView(
   const est = sr.warmup_estimate;
   if (est === undefined) return null;
   const measure = est.measure;
+  // What the client reads: the measure's label (its name if the study lacks it).
+  let label = measure;
+  try { label = measureOf(sr.name, measure).label; } catch { /* keep the name */ }
   const time = est.time;
   const d = est.d;
   const batches = est.batches;
@@ -42,7 +45,7 @@ function warmupView(
   const id = anchor("warmup", index, sr.name);
   const facts: Fact[] = [
     { label: "Method", value: method },
-    { label: "Measure", value: measure },
+    { label: "Measure", value: label },
   ];
 
   if ("slice_means" in est) {
@@ -68,7 +71,7 @@ function warmupView(
       try { kind = measureOf(sr.name, measure).kind; } catch { /* the estimate names a measure the study lacks: keep the level wording */ }
       chart = {
         id: `${id}-chart`,
-        caption: `Warm-up plot of ${measure} in ${sr.name}: the average over the ${sr.runs.length} runs of each ${fmt(slice)}-${unit} slice, drawn at the slice's midpoint (thin line)` +
+        caption: `Warm-up plot of ${label} in ${sr.name}: the average over the ${sr.runs.length} runs of each ${fmt(slice)}-${unit} slice, drawn at the slice's midpoint (thin line)` +
           (w > 0 ? `, its moving average over ${2 * w + 1} slices (w = ${w}, thick line)` : "") +
           `, and the warm-up MSER-5 chose, ${fmt(time)} ${unit} (dashed rule).` +
           (m > MAX_WELCH_POINTS ? ` The lines are drawn from an even sample of ${MAX_WELCH_POINTS} of the ${fmt(m)} slices.` : ""),
@@ -77,7 +80,7 @@ function warmupView(
           smoothed,
           warmup: time,
           timeTitle: `time (${unit})`,
-          valueTitle: kind === "utilization" ? `${measure}: slice utilization` : `${measure}: slice average`,
+          valueTitle: kind === "utilization" ? `${label}: slice utilization` : `${label}: slice average`,
           sliceLabel: "average of the runs per slice",
           smoothLabel: w > 0 ? `moving average (w = ${w})` : "moving average",
           warmupLabel: `warm-up ${fmt(time)} ${unit}`,
@@ -87,7 +90,7 @@ function warmupView(
     return {
       id,
       scenario: sr.name,
-      lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on ${q(measure)}: the first ${fmt(d)} of ${fmt(batches)} batches of five ${fmt(slice)}-${unit} slices are dropped.`,
+      lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on ${q(label)}: the first ${fmt(d)} of ${fmt(batches)} batches of five ${fmt(slice)}-${unit} slices are dropped.`,
       facts,
       chart,
       runs: null,
@@ -99,7 +102,7 @@ function warmupView(
   const runs = est.runs;
   facts.push({ label: "Warm-up", value: `${fmt(time)} ${unit}` });
   const table = tableView(
-    `${measure} in ${sr.name}: MSER-5 on each run's observations in time order (the scenario's warm-up is the latest first kept observation)`,
+    `${label} in ${sr.name}: MSER-5 on each run's observations in time order (the scenario's warm-up is the latest first kept observation)`,
     ["Run", "Batches of 5", "Batches dropped d", `First kept observation (${unit})`, "At the limit"],
     runs.map((r) => [
       text(r.run), text(fmt(r.batches)), text(fmt(r.d)), text(fmt(r.time)),
@@ -109,7 +112,7 @@ function warmupView(
   return {
     id,
     scenario: sr.name,
-    lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on the observations of ${q(measure)}, run by run: the latest time at which a run's kept observations begin.`,
+    lead: `Warm-up ${fmt(time)} ${unit}, chosen by ${method} on the observations of ${q(label)}, run by run: the latest time at which a run's kept observations begin.`,
     facts,
     chart: null,
     runs: table,

@@ -6,9 +6,10 @@ import type { StudyOutcome } from "../../outcome/index.js";
 import type { WarningLine } from "./view.js";
 import { roundNumbersIn } from "./words.js";
 
-/** The warning lines: where (scenario › run › measure, or "study") and the message as shown. */
-export function warningLines(outcome: StudyOutcome): WarningLine[] {
-  return outcome.warnings.map((w) => ({
+/** The warning lines, each with its anchor (`ids`, parallel to the warnings): where (scenario › run › measure, or "study") and the message as shown. */
+export function warningLines(outcome: StudyOutcome, ids: string[]): WarningLine[] {
+  return outcome.warnings.map((w, i) => ({
+    id: ids[i],
     where: [w.scenario, w.run, w.measure].filter((x): x is string => x !== null).join(" › ") || "study",
     message: roundNumbersIn(w.message),
   }));

@@ -18,16 +18,22 @@ export function primaryName(kind: Measure["kind"]): string {
   return { level: "time average", utilization: "utilization", observation: "mean", count: "count" }[kind];
 }
 
-export function valueTitle(m: Measure, unit: string): string {
+/** A heading or axis title with the measure's unit after it, when it has one: "mean (h)". */
+export function withUnit(title: string, unit: string | null): string {
+  return unit === null ? title : `${title} (${unit})`;
+}
+
+/** The axis title of a measure's per-run values: its label, what the value is, and its unit. */
+export function valueTitle(m: Measure): string {
   switch (m.kind) {
     case "level":
-      return `time average of ${m.name} per run`;
+      return withUnit(`time average of ${m.label} per run`, m.unit);
     case "utilization":
-      return `utilization of ${m.name} per run (share of capacity)`;
+      return withUnit(`utilization of ${m.label} per run`, m.unit === "fraction" ? "share of capacity" : m.unit);
     case "observation":
-      return m.source.type === "entities" ? `mean of ${m.name} per run (${unit})` : `mean of ${m.name} per run`;
+      return withUnit(`mean of ${m.label} per run`, m.unit);
     case "count":
-      return `${m.name}: count per run`;
+      return withUnit(`${m.label}: count per run`, m.unit);
   }
 }
 
@@ -37,14 +43,15 @@ export function capacityText(m: Measure): string {
 }
 
 
-export function warmupText(w: Warmup, unit: string): string {
+/** The warm-up in words; `labelOf` gives the label of the measure an estimate runs on. */
+export function warmupText(w: Warmup, unit: string, labelOf: (name: string) => string = (n) => n): string {
   switch (w.type) {
     case "none":
       return "none";
     case "fixed":
       return `${fmt(w.time)} ${unit}`;
     case "mser-5":
-      return `estimated by MSER-5 from ${w.measure} (slice of ${fmt(w.slice)} ${unit})`;
+      return `estimated by MSER-5 from ${labelOf(w.measure)} (slice of ${fmt(w.slice)} ${unit})`;
   }
 }
 
