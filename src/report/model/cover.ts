@@ -30,8 +30,12 @@ export function coverView(ctx: ReportContext, meta: { toolVersion: string; gener
       warm = `${fmt(est.time)} ${unit}, by ${est.method.toUpperCase()} on ${labelOf(est.measure)}: ` +
         `first ${fmt(est.d)} of ${fmt(est.batches)} batches dropped`;
     }
+    // Which interval the summary shows follows the study's choice (interval_method), not the run count alone.
+    const fromBatches = Object.values(sr.summary).some((s) => s.interval_method === "batch-means");
     const analysis = sc?.analysis.type === "batch-means"
-      ? `independent runs; batch means within each run (${sc.analysis.batches} batches)`
+      ? fromBatches
+        ? `one long run; intervals from its ${sc.analysis.batches} batch means`
+        : `independent runs; batch means within each run (${sc.analysis.batches} batches) as a check`
       : "independent runs";
     return { name: sr.name, runs: String(sr.runs.length), window: windows.join("; "), warmup: warm, analysis };
   });
