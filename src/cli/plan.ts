@@ -8,7 +8,7 @@ function reads(m: Measure): string {
     case "observation":
       return m.source.type === "series" ? `series "${m.source.series}"` : `entity time from "${m.source.start}" to "${m.source.end}"`;
     case "utilization":
-      return `series "${m.series}" over capacity ${m.capacity.type === "constant" ? m.capacity.value : `series "${m.capacity.series}"`}`;
+      return `${m.source.type === "series" ? `series "${m.source.series}"` : `entities entering at "${m.source.enter}", leaving at "${m.source.leave}"`} over capacity ${m.capacity.type === "constant" ? m.capacity.value : `series "${m.capacity.series}"`}`;
     case "count":
       return `series "${m.series}"`;
   }

@@ -17,7 +17,7 @@ const CR = 13;
 const BLANK = /^[ \t\r]*$/;
 
 /** A JSON value described for a message: "a string", "null", "an array"... */
-function describe(x: unknown): string {
+export function describe(x: unknown): string {
   if (x === null) return "null";
   if (Array.isArray(x)) return "an array";
   switch (typeof x) {
@@ -43,7 +43,7 @@ const COLON = 58;
  * written twice counts twice, where `JSON.parse` keeps one): the strings at depth 1 followed by a
  * colon.
  */
-function topLevelKeys(text: string): number {
+export function topLevelKeys(text: string): number {
   // The usual row is flat, without escapes: every double quote then opens or closes a string, at
   // depth 1, and a string followed by a colon is a key. Anything else takes the general walk.
   if (text.indexOf("\\") < 0 && text.indexOf("{", 1) < 0 && text.indexOf("[") < 0) {
@@ -66,7 +66,7 @@ function topLevelKeys(text: string): number {
 }
 
 /** The key of a valid JSON object text that is written twice (keys compared as JSON decodes them). */
-function duplicateOf(text: string): string {
+export function duplicateOf(text: string): string {
   const seen = new Set<string>();
   let twice = "";
   eachTopLevelKey(text, (open, close) => {

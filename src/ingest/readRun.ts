@@ -19,9 +19,12 @@ import { createGunzip } from "node:zlib";
 import { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { CsvParser } from "./csvParser.js";
-import { ChunkFeeder, DEFAULT_ROW_LIMIT } from "./feeder.js";
+import { type ChunkParser, ChunkFeeder, DEFAULT_ROW_LIMIT } from "./feeder.js";
+import { layoutSink } from "./layouts.js";
+import { CsvRecords, JsonLinesRecords } from "./records.js";
+import { RowRouter } from "./rowRouter.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
-import { RUN_EXTENSIONS, notFileKind, runFormat } from "./runFile.js";
+import { RUN_EXTENSIONS, type RunFormat, notFileKind, runFormat } from "./runFile.js";
 import { SeriesTable } from "./seriesTable.js";
 import { mark } from "../timing.js";
 import type { ReadOptions, ReadReport } from "./readTypes.js";
@@ -53,8 +56,42 @@ class SourceError extends Error {
  * // -> { bytes: 48, rows: 3, seriesRows: { queue: 2, sold: 1 }, sha256: "..." }
  */
 export async function readRun(opts: ReadOptions): Promise<ReadReport> {
-  if (opts.chunkSize === undefined && opts.readerThread !== false && pipelineWanted(opts.path)) return readRunPipelined(opts);
+  if (opts.chunkSize === undefined && opts.readerThread !== false && !readsRecords(opts) && pipelineWanted(opts.path)) return readRunPipelined(opts);
   return readRunHere(opts);
+}
+
+/**
+ * Whether the file is read as records and turned into event rows by its layout (`layouts.ts`):
+ * any layout but `events`, or `events` with a measure that filters rows by `where`. Else the
+ * event table's own reader (`csvParser.ts`, `jsonLinesParser.ts`) does it all.
+ */
+export function readsRecords(opts: Pick<ReadOptions, "layout" | "series">): boolean {
+  return (opts.layout !== undefined && opts.layout.layout !== "events") || opts.series.some((s) => s.where !== undefined && s.where !== null);
+}
+
+/** The parser of one read and what it found: the event table's reader, or records and a layout. */
+interface RowStage {
+  parser: ChunkParser;
+  rows(): number;
+  counts(): Record<string, number>;
+  close(): void;
+}
+
+/**
+ * Where a reader plugs in: a reader of another format gives records to `layoutSink(...)` (a
+ * `RecordSink`, see `records.ts`) as `CsvRecords` and `JsonLinesRecords` do here.
+ */
+function rowStage(opts: ReadOptions, format: "csv" | "jsonl", limit: number): RowStage {
+  const { display } = opts;
+  if (!readsRecords(opts)) {
+    const table = new SeriesTable(opts.series, opts.onRow, display);
+    const parser = format === "csv" ? new CsvParser(table, display, opts.columns, limit) : new JsonLinesParser(table, display, opts.columns, limit);
+    return { parser, rows: () => table.rows, counts: () => table.counts(), close: () => {} };
+  }
+  const router = new RowRouter(opts.series, opts.onRow, display);
+  const sink = layoutSink(opts.layout ?? { layout: "events", pairs: [] }, router, opts.columns, display);
+  const parser = format === "csv" ? new CsvRecords(sink, display, limit) : new JsonLinesRecords(sink, display, limit);
+  return { parser, rows: () => router.rows, counts: () => router.counts(), close: () => sink.close() };
 }
 
 /** `readRun` in this thread: read, parse and hand every row to `onRow`. */
@@ -66,11 +103,17 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
 
   const limit = opts.maxRowBytes ?? DEFAULT_ROW_LIMIT;
-  const table = new SeriesTable(opts.series, opts.onRow, display);
-  const parser =
-    format.format === "csv"
-      ? new CsvParser(table, display, opts.columns, limit)
-      : new JsonLinesParser(table, display, opts.columns, limit);
+  const stage = rowStage(opts, format.format, limit);
+  try {
+    return await readThrough(opts, format, chunkSize, limit, stage);
+  } finally {
+    stage.close();
+  }
+}
+
+async function readThrough(opts: ReadOptions, format: RunFormat, chunkSize: number, limit: number, stage: RowStage): Promise<ReadReport> {
+  const { display } = opts;
+  const parser = stage.parser;
   const feeder = new ChunkFeeder(parser, chunkSize, limit);
   const hash = opts.storedBytes === undefined ? createHash("sha256") : null;
   const stored = opts.storedBytes ?? ((chunk: Buffer) => hash!.update(chunk));
@@ -134,7 +177,7 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
   feeder.finish();
   mark(`read ${display}`);
-  return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
+  return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: stage.rows(), seriesRows: stage.counts() };
 }
 
 /**

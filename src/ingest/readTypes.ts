@@ -3,13 +3,29 @@
  * (`readRun.ts`) and its second-thread pipeline (`pipeline.ts`, `readWorker.ts`), kept apart so
  * that neither imports the other for its types.
  */
-import type { ColumnMap } from "../manifest/types.js";
+import type { ColumnMap, Layout, WhereFilter } from "../manifest/types.js";
 import type { RowSink } from "./seriesTable.js";
 
-/** A series the caller wants rows of. `entity`: decode the entity cell for this series. */
+/**
+ * A series the caller wants rows of. `entity`: decode the entity cell for this series. `where`:
+ * only rows whose attribute columns match (`where.ts`); absent or null: every row.
+ */
 export interface SeriesRequest {
   name: string;
   entity: boolean;
+  where?: WhereFilter | null;
+}
+
+/** How the file's rows become event rows (contract section 9); absent: `events`. */
+export interface LayoutOptions {
+  layout: Layout;
+  /**
+   * Event column pairs (first, second) whose times on one row must not go backwards (`entities`):
+   * the `from` of the measures, {start, end} and {enter, leave}.
+   */
+  pairs: readonly (readonly [string, string])[];
+  /** Events the `entities` sort holds in memory at once (default `SORT_EVENTS`, or `SOJOURN_SORT_EVENTS`). */
+  sortEvents?: number;
 }
 
 export interface ReadReport {
@@ -49,6 +65,8 @@ export interface ReadOptions {
    * is then empty. Default: hashed here.
    */
   storedBytes?: (chunk: Buffer) => void;
+  /** The file's layout; absent: `events`. */
+  layout?: LayoutOptions;
   /** Whether a large file may be parsed on a second thread (default true; see `pipeline.ts`). */
   readerThread?: boolean;
 }

@@ -21,7 +21,7 @@ import {
   type TargetSpec,
   type WarmupSpec,
 } from "./spec.js";
-import type { Analysis, ColumnMap, Comparison, Measure, MeasureSource, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
+import type { Analysis, ColumnMap, Layout, WhereFilter, Comparison, Measure, MeasureSource, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
 
 export const DEFAULT_COLUMNS: ColumnMap = { time: "time", series: "series", value: "value", entity: "entity" };
 export const DEFAULT_QUANTILES: readonly number[] = [0.5, 0.9, 0.95];
@@ -66,8 +66,8 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
   // Measures and their per-scenario overrides.
   spec.measures.forEach((measure, i) => {
     const path: KeyPath = ["measures", i];
-    if (measure.kind === "level" || measure.kind === "observation") {
-      const fromForm = measure.kind === "level" ? "{enter: SERIES, leave: SERIES}" : "{start: SERIES, end: SERIES}";
+    if (measure.kind === "level" || measure.kind === "observation" || measure.kind === "utilization") {
+      const fromForm = measure.kind !== "observation" ? "{enter: SERIES, leave: SERIES}" : "{start: SERIES, end: SERIES}";
       if (measure.series !== undefined && measure.from !== undefined) throw manifestMessages.seriesAndFrom(place(path), measure.name);
       if (measure.series === undefined && measure.from === undefined) throw manifestMessages.noSource(place(path), measure.name, measure.kind, fromForm);
     }
@@ -218,8 +218,9 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
 
     const analysis: Analysis = toAnalysis(scenario.analysis ?? spec.analysis);
     const columns: ColumnMap = { ...DEFAULT_COLUMNS, ...spec.columns, ...scenario.columns };
+    const layout: Layout = scenario.layout ?? spec.layout ?? "events";
     const maxRowBytes = scenario.max_row_bytes ?? spec.max_row_bytes ?? DEFAULT_ROW_LIMIT;
-    return { name, runs, measures, warmup, analysis, columns, maxRowBytes };
+    return { name, runs, measures, warmup, analysis, columns, layout, maxRowBytes };
   }
 
   /**
@@ -288,6 +289,7 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
   // The schema and the checks above guarantee the source keys each kind needs.
   const series = spec.series as string;
   const from = spec.from as Required<NonNullable<MeasureSpec["from"]>>;
+  const where = toWhere(spec.where);
   switch (spec.kind) {
     case "level":
       return {
@@ -296,6 +298,7 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
         target,
         label,
         unit,
+        where,
         source: spec.series !== undefined ? { type: "series", series } : { type: "entities", enter: from.enter, leave: from.leave },
         initial: options.initial ?? 0,
         atLeast: options.at_least ?? [],
@@ -307,7 +310,8 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
         target,
         label,
         unit,
-        series,
+        where,
+        source: spec.series !== undefined ? { type: "series", series } : { type: "entities", enter: from.enter, leave: from.leave },
         initial: options.initial ?? 0,
         capacity: typeof options.capacity === "string" ? { type: "series", series: options.capacity, initial: options.capacity_initial ?? 0 } : { type: "constant", value: options.capacity as number },
         atLeast: options.at_least ?? [],
@@ -319,13 +323,23 @@ function toMeasure(spec: MeasureSpec, fromMeasure: OverrideSpec | undefined, fro
         target,
         label,
         unit,
+        where,
         source: spec.series !== undefined ? { type: "series", series } : { type: "entities", start: from.start, end: from.end },
         quantiles: options.quantiles ?? [...DEFAULT_QUANTILES],
         within: options.within ?? [],
       };
     case "count":
-      return { kind: "count", name, target, label, unit, series };
+      return { kind: "count", name, target, label, unit, where, series };
   }
+}
+
+/**
+ * A measure's `where` as the rest of Sojourn reads it: one entry per column, in the order
+ * written, each with its list of values (a single value becomes a list of one).
+ */
+function toWhere(written: MeasureSpec["where"]): WhereFilter | null {
+  if (written === undefined) return null;
+  return Object.entries(written).map(([column, v]) => ({ column, values: Array.isArray(v) ? [...v] : [v] }));
 }
 
 /** The unit of a measure that gives none (docs/manifest.md, "label and unit"). */

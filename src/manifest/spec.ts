@@ -13,6 +13,7 @@ export interface StudySpec {
   confidence?: number;
   warmup?: WarmupSpec;
   columns?: ColumnsSpec;
+  layout?: "events" | "entities" | "levels";
   analysis?: AnalysisSpec;
   tables?: { max_rows?: number; edge_rows?: number };
   max_row_bytes?: number;
@@ -44,6 +45,7 @@ export interface ScenarioSpec {
   end?: number;
   warmup?: WarmupSpec;
   columns?: ColumnsSpec;
+  layout?: "events" | "entities" | "levels";
   analysis?: AnalysisSpec;
   max_row_bytes?: number;
   runs: string | (string | RunSpec)[];
@@ -95,6 +97,8 @@ export interface MeasureSpec extends OverrideSpec {
   label?: string;
   /** The unit of the measure's values (free text); the same in every scenario. */
   unit?: string;
+  /** Only rows whose attribute column holds one of these values count. */
+  where?: Record<string, number | string | (number | string)[]>;
 }
 
 export interface ComparisonSpec {

@@ -14,6 +14,19 @@ export interface ColumnMap {
   entity: string;
 }
 
+/**
+ * How a run file's rows are laid out (contract section 9): one event per row, one entity (or one
+ * visit) per row with a time column per event, or one instant per row with a column per level.
+ */
+export type Layout = "events" | "entities" | "levels";
+
+/**
+ * A measure's `where`: only rows whose attribute column holds one of the values count. Each value
+ * is kept as written: a number (matches a cell that reads as the same number) or a text (matches
+ * a cell with the same text, surrounding spaces ignored). Several columns: all must match.
+ */
+export type WhereFilter = { column: string; values: (number | string)[] }[];
+
 /** One run file of one scenario. */
 export interface RunRef {
   /** File name without its extensions (`rep-07.csv.gz` -> `rep-07`). */
@@ -67,6 +80,8 @@ interface MeasureBase {
    * any other measure has none, null). A count's rate is this unit per time unit.
    */
   unit: string | null;
+  /** The measure's `where`, or null: it filters the rows of the measure's own series (not a capacity series). */
+  where: WhereFilter | null;
 }
 
 export interface LevelMeasure extends MeasureBase, LevelExtras {
@@ -78,8 +93,8 @@ export interface LevelMeasure extends MeasureBase, LevelExtras {
 
 export interface UtilizationMeasure extends MeasureBase, LevelExtras {
   kind: "utilization";
-  /** The busy level. */
-  series: string;
+  /** The busy level: a series' values, or the number of entities between two events. */
+  source: LevelSource;
   initial: number;
   capacity: Capacity;
 }
@@ -114,6 +129,8 @@ export interface Scenario {
   warmup: Warmup;
   analysis: Analysis;
   columns: ColumnMap;
+  /** How the run files are laid out (the scenario's `layout`, else the study's, else `events`). */
+  layout: Layout;
   /** The longest row of a run file, in bytes (`max_row_bytes`; the scenario's, else the study's, else 1 MiB). */
   maxRowBytes: number;
 }

@@ -2,10 +2,15 @@ import type { BuiltTable } from "./table.js";
 import type { RunStats } from "../outcome/index.js";
 import type { TraceLine } from "./trace.js";
 
-/** One series a measure reads; `entity` asks the reader to decode the entity cell. */
+/**
+ * One series a measure reads; `entity` asks the reader to decode the entity cell. The measure's
+ * `where` filters the rows of every series it reads except those marked `unfiltered` (a capacity
+ * series: the capacity is not a property of the entities the filter picks).
+ */
 export interface SeriesRead {
   series: string;
   entity: boolean;
+  unfiltered?: boolean;
 }
 
 /** Where rows come from, for messages. */

@@ -5,6 +5,7 @@ import type { UtilizationMeasure } from "../manifest/types.js";
 import type { UtilizationRunStats } from "../outcome/index.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
 import { EventBuffer } from "./events.js";
+import { EntityVisits } from "./visits.js";
 import { LevelStats } from "./levelStats.js";
 import { levelShareTables } from "./levelTables.js";
 import type { MeasureSetup } from "./setup.js";
@@ -24,6 +25,9 @@ export const UTILIZATION_SERIES_COLUMNS = [...UTILIZATION_COLUMNS, "changed"];
 
 const BUSY = 0;
 const CAPACITY = 1;
+/** Busy changes from entity events (`from: {enter, leave}`), by the event that made them. */
+const ENTERED = 2;
+const LEFT = 3;
 
 /**
  * Utilization = area(busy) / area(capacity) over the window (contract sections 2 and 4).
@@ -32,10 +36,18 @@ const CAPACITY = 1;
  * together: every change of either closes an interval on which both are constant, so the table
  * shows both areas side by side. Example: busy 1 on [0, 4] and 2 on [4, 10] with capacity 2 gives
  * busy area 16, capacity area 20, utilization 0.8.
+ *
+ * With `from: {enter, leave}` (contract section 9) the busy level is the number of entities that
+ * have had the first event and not yet the second, paired per entity as for a level measure
+ * (`EntityVisits`): each start adds 1, each end takes 1 away.
  */
 export class Utilization implements MeasureAccumulator {
   readonly reads: SeriesRead[];
   private readonly events = new EventBuffer();
+  /** The entity visits behind the busy level, with `from: {enter, leave}`; else null. */
+  private readonly visits: EntityVisits | null;
+  /** The reads slot of the capacity series (-1: a constant capacity). */
+  private readonly capacitySlot: number;
   private busy: number;
   private capacity: number;
   private from: number;
@@ -69,8 +81,16 @@ export class Utilization implements MeasureAccumulator {
     private readonly setup: MeasureSetup,
   ) {
     const cap = measure.capacity;
-    this.reads = [{ series: measure.series, entity: false }];
-    if (cap.type === "series") this.reads.push({ series: cap.series, entity: false });
+    const source = measure.source;
+    if (source.type === "series") {
+      this.visits = null;
+      this.reads = [{ series: source.series, entity: false }];
+    } else {
+      this.visits = new EntityVisits(measure.name, source.enter, source.leave, setup.file);
+      this.reads = [...this.visits.reads];
+    }
+    this.capacitySlot = cap.type === "series" ? this.reads.length : -1;
+    if (cap.type === "series") this.reads.push({ series: cap.series, entity: false, unfiltered: true });
     this.busy = measure.initial;
     this.capacity = cap.type === "constant" ? cap.value : cap.initial;
     this.c = setup.window.collectFrom;
@@ -94,10 +114,21 @@ export class Utilization implements MeasureAccumulator {
     }
   }
 
-  row(slot: number, time: number, value: number, _entity: string | undefined, line: number): void {
+  row(slot: number, time: number, value: number, entity: string | undefined, line: number): void {
+    if (this.visits !== null && slot !== this.capacitySlot) {
+      this.visits.row(slot, time, entity, line);
+      return;
+    }
     if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.reads[slot].series, this.measure.name);
     if (this.reads.length === 1) this.change(time, BUSY, value, line);
     else this.events.add(time, slot === 0 ? BUSY : CAPACITY, value, 0, line);
+  }
+
+  /** The series of the row behind a change of `kind`. */
+  private seriesOfKind(kind: number): string {
+    if (kind === CAPACITY) return this.reads[this.capacitySlot].series;
+    if (kind === ENTERED || kind === LEFT) return this.reads[kind - ENTERED].series;
+    return this.reads[0].series;
   }
 
   private change(time: number, kind: number, value: number, line: number): void {
@@ -107,7 +138,7 @@ export class Utilization implements MeasureAccumulator {
     }
     this.line = line;
     this.changedKind = kind;
-    if (kind === BUSY) {
+    if (kind !== CAPACITY) {
       this.busy = value;
       if (this.busyTrace !== null) this.busyTrace.change(time, value);
     } else {
@@ -148,7 +179,7 @@ export class Utilization implements MeasureAccumulator {
     if (s === null) this.table.addNumbers(r);
     else {
       for (let j = 0; j < r.length; j++) s[j] = r[j] === r[j] ? r[j] : null;
-      s[r.length] = this.changedKind === -1 ? null : this.reads[this.changedKind === BUSY ? 0 : 1].series;
+      s[r.length] = this.changedKind === -1 ? null : this.seriesOfKind(this.changedKind);
       this.table.add(s);
     }
     if (this.batchBusy !== null) {
@@ -170,7 +201,7 @@ export class Utilization implements MeasureAccumulator {
   private noteOverCapacity(from: number, to: number, d: number, busy: number, cap: number): void {
     if (this.over === null) {
       const line = this.line === this.line ? this.line : null;
-      const series = this.changedKind === -1 || this.reads.length === 1 ? null : this.reads[this.changedKind === BUSY ? 0 : 1].series;
+      const series = this.changedKind === -1 || this.reads.length === 1 ? null : this.seriesOfKind(this.changedKind);
       this.over = { intervals: 0, time: 0, from, to, busy, capacity: cap, line, series };
     }
     this.over.intervals++;
@@ -178,6 +209,14 @@ export class Utilization implements MeasureAccumulator {
   }
 
   finish(): MeasureOutput {
+    if (this.visits !== null) {
+      // The busy level follows the entities: +1 at each start, -1 at each end, in time order.
+      let inside = this.measure.initial;
+      this.visits.replay(
+        (time, line) => this.events.add(time, ENTERED, ++inside, 0, line),
+        (time, _id, _began, line) => this.events.add(time, LEFT, --inside, 0, line),
+      );
+    }
     if (this.reads.length > 1) this.events.replay((time, kind, value, _id, line) => this.change(time, kind, value, line));
     this.close(this.end);
     const T = this.end - this.c;

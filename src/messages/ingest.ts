@@ -296,3 +296,57 @@ export function corruptGzip(file: string, detail: string): UserError {
     "compress or copy the run file again; `gzip -t FILE` tests a gzip file",
   );
 }
+
+/** A column a measure's `where` names is not in the file's header. */
+export function whereColumnMissing(file: string, column: string, found: readonly string[]): UserError {
+  return located(
+    { file, line: 1 },
+    `the header has no column \`${column}\`, which a measure's \`where\` filters on; columns found: ${quoted(found)}`,
+    "add the column to the file, or correct the column name in the measure's `where`",
+  );
+}
+
+/** `layout: entities`: a row whose id cell is empty. */
+export function entityIdEmpty(file: string, line: number, column: string): UserError {
+  return located(
+    { file, line },
+    `the entity id cell (column \`${column}\`) is empty`,
+    `give every row the id of its entity, or name the id column with \`${columnsKey("entity")}\``,
+  );
+}
+
+/** `layout: entities`: an event cell that is not a time. */
+export function eventTimeNotANumber(file: string, line: number, column: string, text: string): UserError {
+  return located(
+    { file, line },
+    `the cell \`${text}\` of event column \`${column}\` is not a finite decimal number: with \`layout: entities\` each cell of an event column is the time of that event`,
+    "write the time as a decimal number such as 12.5, or leave the cell empty when the entity never had that event",
+  );
+}
+
+/** `layout: entities`: on one row, the second event of a pair is earlier than the first. */
+export function eventsBackwards(file: string, line: number, first: string, firstTime: number, second: string, secondTime: number): UserError {
+  return located(
+    { file, line },
+    `this entity's \`${second}\` (${shown(secondTime)}) is earlier than its \`${first}\` (${shown(firstTime)}), which a measure pairs with it as the earlier event`,
+    `check the model's output for this entity: \`${second}\` must not come before \`${first}\`; if the columns are swapped, swap them in the measure's \`from\``,
+  );
+}
+
+/** `layout: levels`: the time column went down. */
+export function levelTimeDecreased(file: string, line: number, column: string, previous: number, time: number, previousLine: number): UserError {
+  return located(
+    { file, line },
+    `time goes backwards in column \`${column}\`: ${shown(time)} here, after ${shown(previous)} on line ${previousLine}; with \`layout: levels\` the rows are instants in time order`,
+    "write the rows in time order (sort the file by its time column, keeping rows with equal times in their order)",
+  );
+}
+
+/** `layout: levels`: a level cell that is not a number. */
+export function levelNotANumber(file: string, line: number, column: string, text: string): UserError {
+  return located(
+    { file, line },
+    `the cell \`${text}\` of level column \`${column}\` is not a finite decimal number: with \`layout: levels\` each cell is the level's new value from this row's time on`,
+    "write the value as a decimal number such as 3 or 0.5, or leave the cell empty when the level does not change",
+  );
+}

@@ -16,8 +16,10 @@ export function seriesOf(m: Measure): string[] {
       return m.source.type === "series" ? [m.source.series] : [m.source.enter, m.source.leave];
     case "observation":
       return m.source.type === "series" ? [m.source.series] : [m.source.start, m.source.end];
-    case "utilization":
-      return m.capacity.type === "series" ? [m.series, m.capacity.series] : [m.series];
+    case "utilization": {
+      const busy = m.source.type === "series" ? [m.source.series] : [m.source.enter, m.source.leave];
+      return m.capacity.type === "series" ? [...busy, m.capacity.series] : busy;
+    }
     case "count":
       return [m.series];
   }

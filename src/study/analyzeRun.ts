@@ -43,6 +43,20 @@ export interface RunAnalysis {
   tableFiles?: TableFile[];
 }
 
+/**
+ * The event pairs whose times on one row of an `entities` file must not go backwards: each
+ * measure's `from` (first event, second event).
+ */
+export function pairsOf(measures: readonly Measure[]): [string, string][] {
+  const pairs: [string, string][] = [];
+  for (const m of measures) {
+    if (m.kind === "count" || m.source.type !== "entities") continue;
+    const s = m.source;
+    pairs.push("start" in s ? [s.start, s.end] : [s.enter, s.leave]);
+  }
+  return pairs;
+}
+
 /** The calculation tables of one analysed run as files, in measure order. */
 export function runTableFiles(scenario: string, a: Pick<RunAnalysis, "result" | "outputs">, measures: Measure[]): TableFile[] {
   const files: TableFile[] = [];
@@ -77,17 +91,19 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
   };
   const accumulators: [Measure, MeasureAccumulator][] = plan.measures.map((m) => [m, createAccumulator(m, setup)]);
 
-  // One entry per distinct series name: the accumulators (and their slots) that read it.
+  // One entry per distinct series name and `where`: the accumulators (and their slots) that read it.
   const requests: SeriesRequest[] = [];
   const targets: { acc: MeasureAccumulator; slot: number }[][] = [];
   const bySeries = new Map<string, number>();
-  for (const [, acc] of accumulators) {
+  for (const [m, acc] of accumulators) {
     acc.reads.forEach((read, slot) => {
-      let i = bySeries.get(read.series);
+      const where = read.unfiltered === true ? null : m.where;
+      const key = where === null ? read.series : `${read.series}\u0000${JSON.stringify(where)}`;
+      let i = bySeries.get(key);
       if (i === undefined) {
         i = requests.length;
-        bySeries.set(read.series, i);
-        requests.push({ name: read.series, entity: false });
+        bySeries.set(key, i);
+        requests.push(where === null ? { name: read.series, entity: false } : { name: read.series, entity: false, where });
         targets.push([]);
       }
       if (read.entity) requests[i].entity = true;
@@ -107,6 +123,7 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
     display: run.file,
     columns: scenario.columns,
     maxRowBytes: scenario.maxRowBytes,
+    layout: { layout: scenario.layout, pairs: pairsOf(plan.measures) },
     series: requests,
     onRow(seriesIndex, time, value, entity, line) {
       if (time > lastRow) lastRow = time;
@@ -147,8 +164,9 @@ export async function analyzeRun(plan: RunPlan, options: { readerThread?: boolea
   }
 
   let requested = 0;
-  // Own keys only: a series may be called "toString" or "constructor".
-  for (const r of requests) if (Object.hasOwn(report.seriesRows, r.name)) requested += report.seriesRows[r.name];
+  // Own keys only: a series may be called "toString" or "constructor". Each name once (a series
+  // may be requested with several `where`s).
+  for (const name of new Set(requests.map((r) => r.name))) if (Object.hasOwn(report.seriesRows, name)) requested += report.seriesRows[name];
   const input: InputRecord = {
     scenario: scenario.name,
     run: run.id,

@@ -132,7 +132,14 @@ export function scenarioPlans(study: Study, scenario: Study["scenarios"][number]
 export function planDigest(plan: RunPlan): string {
   const { scenario, run } = plan;
   const what = {
-    scenario: { name: scenario.name, measures: computed(scenario.measures), warmup: scenario.warmup, analysis: scenario.analysis, columns: scenario.columns },
+    scenario: {
+      name: scenario.name,
+      measures: computed(scenario.measures),
+      warmup: scenario.warmup,
+      analysis: scenario.analysis,
+      columns: scenario.columns,
+      ...(scenario.layout !== "events" ? { layout: scenario.layout } : {}),
+    },
     run: { id: run.id, file: run.file, start: run.start, end: run.end },
     warmup: plan.warmup,
     measures: computed(plan.measures),
@@ -146,7 +153,18 @@ export function planDigest(plan: RunPlan): string {
 
 /** A measure without what only the report shows (`label`, `unit`): changing a caption keeps the summaries. */
 function computed(measures: readonly Measure[]): Record<string, unknown>[] {
-  return measures.map(({ label: _label, unit: _unit, ...rest }) => rest);
+  // Written as before layouts and `where` existed when a measure uses neither, so that the
+  // digests of such plans stay as they were.
+  return measures.map(({ label: _label, unit: _unit, where, ...rest }) => {
+    const out: Record<string, unknown> = {};
+    const busySeries = rest.kind === "utilization" && rest.source.type === "series" ? rest.source.series : null;
+    for (const [k, v] of Object.entries(rest)) {
+      if (k === "source" && busySeries !== null) out.series = busySeries;
+      else out[k] = v;
+    }
+    if (where !== null) out.where = where;
+    return out;
+  });
 }
 
 function replacer(_key: string, value: unknown): unknown {

@@ -35,7 +35,7 @@ function identity(m: Measure): string {
     case "count":
       return `count ${m.series}`;
     case "utilization":
-      return `utilization ${m.series} / ${m.capacity.type === "constant" ? m.capacity.value : `series ${m.capacity.series}`}`;
+      return `utilization ${JSON.stringify(m.source)} / ${m.capacity.type === "constant" ? m.capacity.value : `series ${m.capacity.series}`}`;
     default:
       return m.source.type === "series" ? `${m.kind} ${m.source.series}` : `${m.kind} ${JSON.stringify(m.source)}`;
   }

@@ -47,7 +47,8 @@ function statement(measure: Measure, scenarios: Scenario[], unit: string): strin
         const own = sc.measures.find((x) => x.name === m.name);
         return `${sc.name}: ${own ? capacityText(own) : capacityText(m)}`;
       });
-      s = `Busy units (series ${q(m.series)}) over available units, as area(busy) / area(capacity). Capacity by scenario: ${caps.join("; ")}.`;
+      const busy = m.source.type === "series" ? `series ${q(m.source.series)}` : `entities that have had event ${q(m.source.enter)} and not yet event ${q(m.source.leave)}`;
+      s = `Busy units (${busy}) over available units, as area(busy) / area(capacity). Capacity by scenario: ${caps.join("; ")}.`;
       break;
     }
     case "observation":

@@ -1,0 +1,252 @@
+/**
+ * Run files read as plain records: the cells of the columns a layout asks for, by name, with
+ * the line each record starts on. This is where a file reader meets the layouts
+ * (`layouts.ts`):
+ *
+ *   bytes ─► ChunkFeeder ─► CsvRecords | JsonLinesRecords ─┐
+ *   (any other reader, e.g. a columnar one)  ───────────────┴─► RecordSink: header(found) once,
+ *                                                               record(cells, line) per row, finish()
+ *
+ * A reader hands over, for each row, one cell per name of `sink.wanted` (in that order): the
+ * cell's text (CSV, trimmed of surrounding spaces), a JSON string, number or boolean as it is,
+ * or null when the cell is empty or the column absent. It calls `header` first with the names
+ * the file has (when the format has a header), then `record` in file order, then `finish`.
+ * The event layout of contract section 1 keeps its own faster reader (`csvParser.ts`) when no
+ * measure filters rows with `where`; everything else goes through here.
+ */
+import * as ingestMessages from "../messages/ingest.js";
+import type { UserError } from "../messages/error.js";
+import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
+import { describe, duplicateOf, topLevelKeys } from "./jsonLinesParser.js";
+
+/** One cell as a reader gives it: null when empty or absent. */
+export type Cell = string | number | boolean | null;
+
+/** What a layout takes from a reader (see the module comment). */
+export interface RecordSink {
+  /** The column names the layout reads, in the order `record`'s cells come in. */
+  readonly wanted: readonly string[];
+  /** The names of the file's columns, before any record; null for a format without a header (JSON Lines). */
+  header(found: readonly string[] | null): void;
+  /** One row: `cells[k]` is the cell of column `wanted[k]`; `line` is the row's 1-based line (or position). */
+  record(cells: readonly Cell[], line: number): void;
+  /** The end of the file. */
+  finish(): void;
+}
+
+const COMMA = 44;
+const LF = 10;
+const CR = 13;
+const QUOTE = 34;
+const SPACE = /^[ \t]+|[ \t]+$/g;
+
+/** CSV (RFC 4180) as records of the wanted columns. */
+export class CsvRecords implements ChunkParser {
+  private line = 1;
+  private haveHeader = false;
+  private width = 0;
+  /** For each field of the header, the index in `wanted` it fills, or -1. */
+  private slotOf: Int32Array = new Int32Array(0);
+  private readonly cells: Cell[];
+  private readonly all: string[] = [];
+
+  constructor(
+    private readonly sink: RecordSink,
+    private readonly display: string,
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
+  ) {
+    this.cells = new Array<Cell>(sink.wanted.length).fill(null);
+  }
+
+  parse(buf: Buffer, pos: number, final: boolean): number {
+    const end = buf.length;
+    while (pos < end) {
+      const c = buf[pos];
+      if (c === LF) {
+        this.line++;
+        pos++;
+        continue;
+      }
+      if (c === CR) {
+        if (pos + 1 === end && !final) return pos;
+        if (pos + 1 === end || buf[pos + 1] === LF) {
+          pos = pos + 1 === end ? end : pos + 2;
+          this.line++;
+          continue;
+        }
+      }
+      const next = this.recordAt(buf, pos, end, final);
+      if (next < 0) return pos;
+      pos = next;
+    }
+    return pos;
+  }
+
+  /** Reads the record at `p`; returns where the next one starts, or -1 when it needs more bytes. */
+  private recordAt(buf: Buffer, p: number, end: number, final: boolean): number {
+    const start = p;
+    const line = this.line;
+    let breaks = 0;
+    let field = 0;
+    const header = !this.haveHeader;
+    const cells = this.cells;
+    cells.fill(null);
+    if (header) this.all.length = 0;
+    for (;;) {
+      let text: string | null = null;
+      const slot = header ? -2 : field < this.width ? this.slotOf[field] : -1;
+      let q: number;
+      if (p < end && buf[p] === QUOTE) {
+        // A quoted field: up to the quote not doubled; "" inside is one quote.
+        let out = "";
+        const from = p + 1;
+        q = from;
+        for (;;) {
+          const close = buf.indexOf(QUOTE, q);
+          if (close === -1 || close >= end) {
+            if (!final) return -1;
+            throw ingestMessages.unterminatedQuote(this.display, line + breaks);
+          }
+          if (close + 1 < end && buf[close + 1] === QUOTE) {
+            q = close + 2;
+            continue;
+          }
+          if (close + 1 === end && !final) return -1;
+          for (let i = from; i < close; i++) if (buf[i] === LF) breaks++;
+          if (slot !== -1) out = buf.toString("utf8", from, close).replace(/""/g, '"');
+          q = close + 1;
+          break;
+        }
+        if (q < end && buf[q] !== COMMA && buf[q] !== LF && !(buf[q] === CR && (q + 1 === end || buf[q + 1] === LF))) {
+          throw ingestMessages.textAfterQuote(this.display, line + breaks);
+        }
+        if (slot !== -1) text = out;
+      } else {
+        q = p;
+        while (q < end && buf[q] !== COMMA && buf[q] !== LF) q++;
+        if (q === end && !final) return -1;
+        if (slot !== -1) {
+          let b = q;
+          if (b > p && buf[b - 1] === CR) b--;
+          const t = buf.toString("utf8", p, b).replace(SPACE, "");
+          text = t;
+        }
+      }
+      if (header) this.all.push(text ?? "");
+      else if (slot >= 0 && text !== "" && text !== null) cells[slot] = text;
+      field++;
+      if (q < end && buf[q] === CR) q++;
+      if (q < end && buf[q] === COMMA) {
+        p = q + 1;
+        if (p === end && !final) return -1;
+        continue;
+      }
+      // The end of the record: a line feed, or the end of the data.
+      const next = q < end ? q + 1 : end;
+      if (next - start > this.limit + 1) throw ingestMessages.rowTooLong(this.display, line, this.limit, ROW_LIMIT_MAX);
+      this.line += breaks + (q < end ? 1 : 0);
+      if (header) this.useHeader(line);
+      else {
+        if (field > this.width) throw ingestMessages.tooManyFields(this.display, line, field, this.width, false);
+        this.sink.record(cells, line);
+      }
+      return next;
+    }
+  }
+
+  private useHeader(line: number): void {
+    this.haveHeader = true;
+    const names = this.all.slice();
+    this.width = names.length;
+    this.slotOf = new Int32Array(names.length).fill(-1);
+    const seen = new Map<string, number>();
+    names.forEach((name, i) => {
+      const first = seen.get(name);
+      if (first !== undefined && name !== "" && this.sink.wanted.includes(name)) {
+        throw ingestMessages.duplicateColumn(this.display, line, name, first + 1, i + 1);
+      }
+      seen.set(name, i);
+      this.slotOf[i] = this.sink.wanted.indexOf(name);
+    });
+    this.sink.header(names);
+  }
+
+  finish(): void {
+    if (!this.haveHeader) throw ingestMessages.emptyFile(this.display, "csv");
+    this.sink.finish();
+  }
+
+  tooLong(_buf: Buffer, _start: number, limit: number): UserError {
+    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
+  }
+}
+
+const BLANK = /^[ \t\r]*$/;
+
+/** JSON Lines as records of the wanted keys. */
+export class JsonLinesRecords implements ChunkParser {
+  private line = 1;
+  private sawObject = false;
+  private readonly cells: Cell[];
+
+  constructor(
+    private readonly sink: RecordSink,
+    private readonly display: string,
+    private readonly limit: number = DEFAULT_ROW_LIMIT,
+  ) {
+    this.cells = new Array<Cell>(sink.wanted.length).fill(null);
+  }
+
+  parse(buf: Buffer, pos: number, final: boolean): number {
+    const end = buf.length;
+    while (pos < end) {
+      let lf = buf.indexOf(LF, pos);
+      if (lf === -1) {
+        if (!final) return pos;
+        lf = end;
+      }
+      if (lf - pos > this.limit && lf - pos - (buf[lf - 1] === CR ? 1 : 0) > this.limit) {
+        throw ingestMessages.rowTooLong(this.display, this.line, this.limit, ROW_LIMIT_MAX);
+      }
+      const text = buf.toString("utf8", pos, lf);
+      if (!BLANK.test(text)) this.row(text, this.line);
+      this.line++;
+      pos = lf < end ? lf + 1 : end;
+    }
+    return pos;
+  }
+
+  private row(text: string, line: number): void {
+    const file = this.display;
+    let parsed: unknown;
+    try {
+      parsed = JSON.parse(text);
+    } catch (e) {
+      throw ingestMessages.badJson(file, line, e instanceof Error ? e.message : String(e));
+    }
+    if (parsed === null || typeof parsed !== "object" || Array.isArray(parsed)) throw ingestMessages.notAnObject(file, line, describe(parsed));
+    const row = parsed as Record<string, unknown>;
+    if (topLevelKeys(text) !== Object.keys(row).length) throw ingestMessages.duplicateKey(file, line, duplicateOf(text));
+    if (!this.sawObject) {
+      this.sawObject = true;
+      this.sink.header(null);
+    }
+    const wanted = this.sink.wanted;
+    for (let k = 0; k < wanted.length; k++) {
+      const v = Object.hasOwn(row, wanted[k]) ? row[wanted[k]] : null;
+      if (v === null || v === undefined || v === "") this.cells[k] = null;
+      else if (typeof v === "string" || typeof v === "number" || typeof v === "boolean") this.cells[k] = v;
+      else throw ingestMessages.wrongType(file, line, wanted[k], "cell", "a number, a string, true, false or null", describe(v));
+    }
+    this.sink.record(this.cells, line);
+  }
+
+  finish(): void {
+    if (!this.sawObject) throw ingestMessages.emptyFile(this.display, "jsonl");
+    this.sink.finish();
+  }
+
+  tooLong(_buf: Buffer, _start: number, limit: number): UserError {
+    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
+  }
+}
