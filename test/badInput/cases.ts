@@ -173,6 +173,13 @@ function deepFolder(dir: string, length: number): string {
 // --- report folders and run summaries (verify, report --from-summaries) ----------------------------
 const sha = (text: string) => createHash("sha256").update(text).digest("hex");
 const M_PLAIN = manifest(QUEUE);
+const M_ENTITIES = manifest(
+  "  - {name: wait, kind: observation, from: {start: arrived, end: started}}\n  - {name: in_shop, kind: level, from: {enter: arrived, leave: left}}\n",
+  undefined,
+  "layout: entities\ncolumns: {entity: id}\n",
+);
+const M_LEVELS = manifest(QUEUE + "  - {name: counter, kind: utilization, series: busy, capacity: 1}\n", undefined, "layout: levels\n");
+const M_WHERE = manifest("  - {name: queue, kind: level, series: queue, where: {sever: 0}}\n");
 /** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
 const RECORD_NO_OUTPUTS = JSON.stringify(
   {
@@ -1398,6 +1405,84 @@ export const CASES: BadInputCase[] = [
     status: 1,
     message: () => summaryMessages.summaryMalformed("sums/morning/day-1.json", "at analysis: expected an object, found nothing (the key is missing)"),
     afterwards: { "report/results.json": null },
+  },
+  // --- layouts (contract section 9) ----------------------------------------------------------
+  {
+    id: "entities-id-empty",
+    title: "An entity table row without its id",
+    what: "With `layout: entities` every row is one entity (or one visit) and needs its id.",
+    files: { [STUDY]: M_ENTITIES, "runs/day-1.csv": "id,arrived,started,left\n1,0.5,0.5,1.2\n,0.9,1.2,2.0\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.entityIdEmpty("runs/day-1.csv", 3, "id"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "entities-id-column-missing",
+    title: "An entity table without its id column",
+    what: "The header of an entity table has no column of the name `columns: {entity: ...}` gives (default `entity`).",
+    files: { [STUDY]: M_ENTITIES, "runs/day-1.csv": "customer,arrived,started,left\n1,0.5,0.5,1.2\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.missingColumns("runs/day-1.csv", [{ role: "entity", name: "id" }], ["customer", "arrived", "started", "left"]),
+    place: "runs/day-1.csv:1",
+  },
+  {
+    id: "entities-time-not-a-number",
+    title: "An entity table cell that is not a time",
+    what: "Each cell of an event column is the time of that event, or empty.",
+    files: { [STUDY]: M_ENTITIES, "runs/day-1.csv": "id,arrived,started,left\n1,0.5,0.5,1.2\n2,0.9,soon,2.0\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.eventTimeNotANumber("runs/day-1.csv", 3, "started", "soon"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "entities-backwards",
+    title: "An entity that left before it started",
+    what: "On one row of an entity table, the second event of a measure's `from` (here `started`, the end of `wait`) is earlier than the first (`arrived`). Only the column pairs that a measure's `from` names are compared.",
+    files: { [STUDY]: M_ENTITIES, "runs/day-1.csv": "id,arrived,started,left\n1,0.5,0.5,1.2\n2,0.9,0.7,2.0\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.eventsBackwards("runs/day-1.csv", 3, "arrived", 0.9, "started", 0.7),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "levels-time-decreased",
+    title: "A levels table whose time goes backwards",
+    what: "With `layout: levels` each row is an instant, and the rows are in time order.",
+    files: { [STUDY]: M_LEVELS, "runs/day-1.csv": "time,queue,busy\n0,0,0\n2,1,\n1.5,,1\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.levelTimeDecreased("runs/day-1.csv", 4, "time", 2, 1.5, 3),
+    place: "runs/day-1.csv:4",
+  },
+  {
+    id: "levels-not-a-number",
+    title: "A levels table cell that is not a number",
+    what: "Each cell of a level column is the level's new value, or empty (the level stays as it was).",
+    files: { [STUDY]: M_LEVELS, "runs/day-1.csv": "time,queue,busy\n0,0,0\n2,two,\n" },
+    show: ["runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.levelNotANumber("runs/day-1.csv", 3, "queue", "two"),
+    place: "runs/day-1.csv:3",
+  },
+  {
+    id: "where-column-missing",
+    title: "A `where` on a column the run file does not have",
+    what: "A measure's `where` names an attribute column that is not in the file's header (a misspelt name would otherwise filter out every row).",
+    files: { [STUDY]: M_WHERE, "runs/day-1.csv": "time,series,value,entity,server\n0,queue,2,,0\n3,queue,5,,1\n" },
+    show: [STUDY, "runs/day-1.csv"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.whereColumnMissing("runs/day-1.csv", "sever", ["time", "series", "value", "entity", "server"]),
+    place: "runs/day-1.csv:1",
   },
   // --- usage ------------------------------------------------------------------------------
   {
