@@ -55,8 +55,8 @@ const SCENARIOS = `scenarios:
     runs: runs/three/*.csv
 `;
 const SCENARIO_NAMES = ["two-booths", "three-booths"];
-const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "analysis", "tables", "max_row_bytes", "scenarios", "measures", "compare"];
-const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "analysis", "max_row_bytes", "runs", "measures"];
+const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "layout", "analysis", "tables", "max_row_bytes", "scenarios", "measures", "compare"];
+const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "layout", "analysis", "max_row_bytes", "runs", "measures"];
 const OVERRIDABLE = ["capacity", "capacity_initial", "initial", "quantiles", "within", "at_least", "target"];
 
 describe("loadStudy: reading and YAML syntax", () => {
@@ -127,7 +127,7 @@ describe("loadStudy: structure", () => {
   test("loadStudy on a key of another measure kind lists that kind's keys", async () => {
     const text = `${SCENARIOS}measures:\n  - {name: lane_queue, kind: level, series: queue, quantiles: [0.5]}\n`;
     const { error, file } = await failure(text);
-    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent", "label", "unit"];
+    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent", "label", "unit", "where"];
     expect(error.message).toBe(m.unknownKey(at(file, text, "quantiles", "measures[0].quantiles"), "quantiles", "a level measure", levelKeys, null).message); // brief: level accepts at_least, not quantiles
   });
 
@@ -190,7 +190,7 @@ describe("loadStudy: structure", () => {
   test("loadStudy locates problems in a JSON manifest by line and column too", async () => {
     const text = '{\n  "scenarios": [{"name": "s", "end": 10, "runs": "runs/two/*.csv"}],\n  "measures": [{"name": "q", "kind": "level", "seris": "queue"}]\n}\n';
     const { error, file } = await failure(text, "study.json");
-    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent", "label", "unit"];
+    const levelKeys = ["name", "kind", "series", "from", "initial", "at_least", "target", "scenarios", "may_be_absent", "label", "unit", "where"];
     expect(error.message).toBe(m.unknownKey(at(file, text, '"seris"', "measures[0].seris"), "seris", "a level measure", levelKeys, "series").message); // CONTRACT.md section 6: YAML or JSON
   });
 });

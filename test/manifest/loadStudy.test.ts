@@ -67,17 +67,18 @@ describe("loadStudy: normalization", () => {
     expect(two.columns).toEqual({ time: "time", series: "series", value: "value", entity: "entity" }); // CONTRACT.md section 1
     // CONTRACT.md section 2 and the brief's defaults (initial 0, quantiles [0.5, 0.9, 0.95], target null; label the name, unit by kind).
     expect(two.measures).toEqual([
-      { kind: "level", name: "lane_queue", target: null, label: "lane_queue", unit: null, source: { type: "series", series: "queue" }, initial: 0, atLeast: [] },
-      { kind: "utilization", name: "booth_use", target: null, label: "booth_use", unit: "fraction", series: "busy", initial: 0, capacity: { type: "constant", value: 2 }, atLeast: [] },
-      { kind: "observation", name: "check_wait", target: null, label: "check_wait", unit: null, source: { type: "series", series: "wait" }, quantiles: [0.5, 0.9, 0.95], within: [] },
-      { kind: "count", name: "vehicles_done", target: null, label: "vehicles_done", unit: null, series: "depart" },
-      { kind: "level", name: "in_terminal", target: null, label: "in_terminal", unit: null, source: { type: "entities", enter: "arrive", leave: "depart" }, initial: 0, atLeast: [] },
+      { kind: "level", name: "lane_queue", target: null, label: "lane_queue", unit: null, where: null, source: { type: "series", series: "queue" }, initial: 0, atLeast: [] },
+      { kind: "utilization", name: "booth_use", target: null, label: "booth_use", unit: "fraction", where: null, source: { type: "series", series: "busy" }, initial: 0, capacity: { type: "constant", value: 2 }, atLeast: [] },
+      { kind: "observation", name: "check_wait", target: null, label: "check_wait", unit: null, where: null, source: { type: "series", series: "wait" }, quantiles: [0.5, 0.9, 0.95], within: [] },
+      { kind: "count", name: "vehicles_done", target: null, label: "vehicles_done", unit: null, where: null, series: "depart" },
+      { kind: "level", name: "in_terminal", target: null, label: "in_terminal", unit: null, where: null, source: { type: "entities", enter: "arrive", leave: "depart" }, initial: 0, atLeast: [] },
       {
         kind: "observation",
         name: "time_in_terminal",
         target: null,
         label: "time_in_terminal",
         unit: "min", // a duration: the study's time unit (docs/manifest.md, label and unit)
+        where: null,
         source: { type: "entities", start: "arrive", end: "depart" },
         quantiles: [0.5, 0.9, 0.95],
         within: [],
