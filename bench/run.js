@@ -7,12 +7,14 @@
 //   4. 16 runs of about 600 000 rows with 1 and 2 worker threads (results compared byte for byte);
 //   5. the ferry demo (16 runs x 6 measures): HTML, and HTML + PDF when Chromium is there;
 //   6. 1000 small runs x 5 measures: wall time and peak memory (RSS) of `sojourn report` against
-//      100 runs, the page's size, and `sojourn verify` on the result.
+//      100 runs, the page's size, and `sojourn verify` on the result;
+//   7. an entity table of 2 million rows (layout: entities) against the same events as an event
+//      table: time ratio and peak memory (bench/entities.mjs).
 //
 // Data is invented by the demo's seeded queue simulation and written once to $SOJOURN_BENCH_DIR
 // (default /tmp/sojourn-bench), never into the repository. REPEAT=n repeats each timing (default 3;
 // the fastest is reported, the machine may be shared). QUICK=1 uses files a tenth as long.
-// PARTS=long,workers,demo,runs1000 runs only those parts (long is 1 to 3).
+// PARTS=long,workers,demo,runs1000,entities runs only those parts (long is 1 to 3).
 /* global console, URL */
 import { execFileSync, spawnSync } from "node:child_process";
 import { createReadStream, createWriteStream, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
@@ -277,6 +279,12 @@ if (want("runs1000")) {
     out(`| ${count} | ${rows(count).toLocaleString("en")} | ${f2(t.seconds)} | ${f2(t.cpu)} | ${rss.toFixed(0)} | ${f2(mb(join(outDir, "report.html")))} | ${tables.toLocaleString("en")} | ${f2(v.seconds)} |`);
   }
   out();
+}
+
+// --- 7. an entity table --------------------------------------------------------------------
+if (want("entities")) {
+  const { entitiesPart } = await import("./entities.mjs");
+  await entitiesPart({ dir, scale, out, timed, peakRss, report, f2, mb });
 }
 
 writeFileSync(join(dir, "results.md"), lines.join("\n") + "\n");
