@@ -5,7 +5,7 @@
  * the event table carries the rounded difference, and its areas are sums over other intervals
  * (zero-length ones in between), so the last digits may differ (computed, not from a source).
  */
-import { copyFileSync, mkdirSync, writeFileSync } from "node:fs";
+import { copyFileSync, mkdirSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { afterAll, describe, expect, it } from "vitest";
@@ -16,7 +16,6 @@ import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { runStudy } from "../../src/study/runStudy.js";
 import { writeExample } from "../helpers/exampleStudy.js";
 import { tempFolder } from "../helpers/tempStudy.js";
-import { rmSync } from "node:fs";
 
 const EXAMPLE = fileURLToPath(new URL("../../examples/ferry-check-in/", import.meta.url));
 const dir = tempFolder({});
@@ -62,8 +61,8 @@ describe("examples/ferry-check-in in three layouts", () => {
               compared++;
             }
           });
-          const a = (sc.summary as Record<string, Record<string, unknown>>)[measure];
-          const b = (base.summary as Record<string, Record<string, unknown>>)[measure];
+          const a = (sc.summary as unknown as Record<string, Record<string, unknown>>)[measure];
+          const b = (base.summary as unknown as Record<string, Record<string, unknown>>)[measure];
           for (const f of SUMMARY_FIELDS) close(a[f], b[f], `${other} ${sc.name} summary ${measure}.${f}`);
         }
       });
