@@ -47,6 +47,8 @@ export class CsvRecords implements ChunkParser {
   private width = 0;
   /** For each field of the header, the index in `wanted` it fills, or -1. */
   private slotOf: Int32Array = new Int32Array(0);
+  /** For a field that fills more than one wanted name (a `where` on a column a layout reads too): the further indices. */
+  private moreSlots: Map<number, number[]> | null = null;
   private readonly cells: Cell[];
   private readonly all: string[] = [];
 
@@ -133,7 +135,11 @@ export class CsvRecords implements ChunkParser {
         }
       }
       if (header) this.all.push(text ?? "");
-      else if (slot >= 0 && text !== "" && text !== null) cells[slot] = text;
+      else if (slot >= 0 && text !== "" && text !== null) {
+        cells[slot] = text;
+        const more = this.moreSlots?.get(field);
+        if (more !== undefined) for (const k of more) cells[k] = text;
+      }
       field++;
       if (q < end && buf[q] === CR) q++;
       if (q < end && buf[q] === COMMA) {
@@ -166,7 +172,9 @@ export class CsvRecords implements ChunkParser {
         throw ingestMessages.duplicateColumn(this.display, line, name, first + 1, i + 1);
       }
       seen.set(name, i);
-      this.slotOf[i] = this.sink.wanted.indexOf(name);
+      const slots = this.sink.wanted.flatMap((w, k) => (w === name ? [k] : []));
+      this.slotOf[i] = slots.length > 0 ? slots[0] : -1;
+      if (slots.length > 1) (this.moreSlots ??= new Map()).set(i, slots.slice(1));
     });
     this.sink.header(names);
   }

@@ -94,6 +94,14 @@ describe("layout: events with where", () => {
   });
 });
 
+describe("where on a column the layout reads itself", () => {
+  it("a where on the entity column of an event table filters by that cell", async () => {
+    const path = folder.file("ev2.csv", "time,series,value,entity\n0,wait,1,a\n1,wait,2,b\n");
+    const r = await rows(path, [{ name: "wait", entity: false, where: [{ column: "entity", values: ["b"] }] }], { layout: "events", pairs: [] });
+    expect(r.calls.map((c) => c.value)).toEqual([2]);
+  });
+});
+
 describe("where matching (docs/manifest.md, where)", () => {
   it("a number matches cells that read as the same number; a text matches the same text only", () => {
     expect([cellMatches("0", 0), cellMatches("0.0", 0), cellMatches("00", 0), cellMatches(0, 0), cellMatches("1", 0)]).toEqual([true, true, true, true, false]);
