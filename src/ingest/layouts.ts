@@ -19,6 +19,7 @@
  *
  * Every event row carries the line of the file row it came from.
  */
+import { tmpdir } from "node:os";
 import type { ColumnMap } from "../manifest/types.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { parseDecimalText } from "./decimal.js";
@@ -148,13 +149,36 @@ class EntitiesLayout implements LayoutSink {
       const t = times[k];
       if (t !== t) continue;
       const slot = (this.slots[k] ??= this.router.slot(this.events[k]));
-      this.sorter.add(t, line, this.rank[k], this.router.route(slot, cells, 1 + n), id);
+      const route = this.router.route(slot, cells, 1 + n);
+      this.sorted(() => this.sorter.add(t, line, this.rank[k], route, id));
     }
   }
 
   finish(): void {
     const router = this.router;
-    this.sorter.drain((time, line, route, id) => router.deliver(route, time, NaN, id, line));
+    // The rows delivered may fail (an input error of a measure): those errors pass as they are.
+    let delivering = false;
+    this.sorted(
+      () =>
+        this.sorter.drain((time, line, route, id) => {
+          delivering = true;
+          router.deliver(route, time, NaN, id, line);
+          delivering = false;
+        }),
+      () => delivering,
+    );
+  }
+
+  /** Runs a step of the sort; an error of the file system (its chunk files) becomes the user's message. */
+  private sorted(step: () => void, passThrough: () => boolean = () => false): void {
+    try {
+      step();
+    } catch (e) {
+      const code = (e as { code?: unknown } | null)?.code;
+      const syscall = (e as { syscall?: unknown } | null)?.syscall;
+      if (passThrough() || typeof syscall !== "string") throw e;
+      throw ingestMessages.sortFilesFailed(this.display, tmpdir(), typeof code === "string" ? code : undefined, this.sorter.limit);
+    }
   }
 
   close(): void {

@@ -350,3 +350,12 @@ export function levelNotANumber(file: string, line: number, column: string, text
     "write the value as a decimal number such as 3 or 0.5, or leave the cell empty when the level does not change",
   );
 }
+
+/** `layout: entities`: the sort's chunk files could not be written or read in the temporary folder. */
+export function sortFilesFailed(file: string, folder: string, code: string | undefined, limit: number): UserError {
+  return located(
+    { file },
+    `this entity table has more than ${limit} events, so Sojourn sorts them in chunk files under the temporary folder ${folder}, and that failed: ${code === "ENOSPC" ? "the disk is full" : systemReason(code)}`,
+    "point TMPDIR at a folder with free space that you may write to, or raise the number of events sorted in memory with the environment variable SOJOURN_SORT_EVENTS",
+  );
+}

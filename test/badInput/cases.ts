@@ -1452,6 +1452,18 @@ export const CASES: BadInputCase[] = [
     place: "runs/day-1.csv:3",
   },
   {
+    id: "entities-sort-folder",
+    title: "The temporary folder for sorting a large entity table cannot be written",
+    what: "An entity table with more events than the sort holds in memory (`SOJOURN_SORT_EVENTS`, here set to 2) is sorted in chunk files under the temporary folder (`TMPDIR`), which here does not exist.",
+    files: { [STUDY]: M_ENTITIES, "runs/day-1.csv": "id,arrived,started,left\n1,0.5,0.5,1.2\n2,0.9,1.2,2.0\n" },
+    show: [],
+    args: check,
+    env: { SOJOURN_SORT_EVENTS: "2", TMPDIR: "/nonexistent-sojourn-tmp" },
+    status: 1,
+    message: () => ingestMessages.sortFilesFailed("runs/day-1.csv", "/nonexistent-sojourn-tmp", "ENOENT", 2),
+    place: "runs/day-1.csv",
+  },
+  {
     id: "levels-time-decreased",
     title: "A levels table whose time goes backwards",
     what: "With `layout: levels` each row is an instant, and the rows are in time order.",

@@ -70,6 +70,24 @@ describe("layouts give the same numbers (property over seeded models; identity o
   }, 60_000);
 });
 
+describe("SOJOURN_SORT_EVENTS (the sort's limit, docs/manifest.md)", () => {
+  it("a study read with a limit of 50 events gives the same results and tables as one read in memory", async () => {
+    const o: ModelOptions = { arrivalRate: 1, serviceRate: 0.6, servers: 2, horizon: 300, seed: 77, drain: false, decimals: 2 };
+    const files = { "runs/r.csv": entityCsv(shuffled(simulate(o), 5)) };
+    const m = manifest("entities", 300, ["runs/r.csv"], entityMeasures(2), "columns: {entity: id}\n");
+    const inMemory = await studyOf(m, files);
+    process.env.SOJOURN_SORT_EVENTS = "50";
+    try {
+      const chunked = await studyOf(m, files);
+      expect(chunked.outcome.results.scenarios[0].runs[0].rows).toBeGreaterThan(15 * 50); // many chunks of 50 events
+      expect(chunked.outcome.results).toEqual(inMemory.outcome.results);
+      expect(chunked.tableFiles.map((t) => t.csv)).toEqual(inMemory.tableFiles.map((t) => t.csv));
+    } finally {
+      delete process.env.SOJOURN_SORT_EVENTS;
+    }
+  }, 60_000);
+});
+
 describe("Little's law on an entity table that starts and ends empty (L = λW as a sample-path identity, Little 1961; common practice)", () => {
   it("the time average number in system over [0, T] equals the sum of sojourn times over T", async () => {
     const o: ModelOptions = { arrivalRate: 0.9, serviceRate: 0.5, servers: 2, horizon: 500, seed: 31, drain: true, decimals: null };
