@@ -1,7 +1,14 @@
 import type { Measure, Study } from "../manifest/types.js";
 import type { StudyOutcome } from "../outcome/index.js";
 
+/** What a measure reads, and its `where` when it has one. */
 function reads(m: Measure): string {
+  const base = readsSource(m);
+  if (m.where === null) return base;
+  return `${base}, only rows where ${m.where.map((w) => `${w.column} is ${w.values.map((v) => JSON.stringify(v)).join(" or ")}`).join(" and ")}`;
+}
+
+function readsSource(m: Measure): string {
   switch (m.kind) {
     case "level":
       return m.source.type === "series" ? `series "${m.source.series}"` : `entities entering at "${m.source.enter}", leaving at "${m.source.leave}"`;
@@ -24,6 +31,7 @@ export function studyPlan(study: Study, outcome: StudyOutcome) {
       const result = outcome.results.scenarios[i];
       return {
         name: sc.name,
+        ...(sc.layout !== "events" ? { layout: sc.layout } : {}),
         warmup: sc.warmup.type === "none" ? null : sc.warmup.type === "fixed" ? sc.warmup.time : { method: "mser-5", measure: sc.warmup.measure, slice: sc.warmup.slice, estimated: result.warmup ?? null },
         analysis: sc.analysis.type === "batch-means" ? { method: "batch-means", batches: sc.analysis.batches } : { method: "replications" },
         runs: sc.runs.map((r) => {
@@ -43,7 +51,8 @@ export function planText(plan: ReturnType<typeof studyPlan>): string[] {
   out.push(`Study "${plan.title}" (time unit ${plan.time_unit}, confidence ${plan.confidence})`);
   for (const sc of plan.scenarios) {
     const w = sc.warmup === null ? "no warm-up" : typeof sc.warmup === "number" ? `warm-up ${sc.warmup}` : `warm-up by MSER-5 on ${sc.warmup.measure}: ${sc.warmup.estimated ?? "none"}`;
-    out.push(`  scenario ${sc.name}: ${sc.runs.length} run(s), ${w}, ${sc.analysis.method === "batch-means" ? `batch means (${sc.analysis.batches} batches)` : "replications"}`);
+    const layout = "layout" in sc ? `, layout ${sc.layout}` : "";
+    out.push(`  scenario ${sc.name}: ${sc.runs.length} run(s)${layout}, ${w}, ${sc.analysis.method === "batch-means" ? `batch means (${sc.analysis.batches} batches)` : "replications"}`);
     for (const r of sc.runs) {
       const lo = r.left_out;
       out.push(`    run ${r.id}  ${r.file}  window [${r.start}, ${r.end ?? "no end"}]  ${r.rows} rows (${lo.after_end} after end, ${lo.before_window} before collection, ${lo.unused_series} of unread series)`);

@@ -184,11 +184,6 @@ class EntitiesLayout implements LayoutSink {
   close(): void {
     this.sorter.close();
   }
-
-  /** Events held in memory at most, and spill files written (for tests of the bound). */
-  get sortFigures(): { peak: number; spilled: number; limit: number } {
-    return { peak: this.sorter.peak, spilled: this.sorter.spilled, limit: this.sorter.limit };
-  }
 }
 
 /**

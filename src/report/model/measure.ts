@@ -60,6 +60,10 @@ function statement(measure: Measure, scenarios: Scenario[], unit: string): strin
       s = `The number of rows of series ${q(m.series)} inside the window; the rate is that number per ${unit} of window.`;
       break;
   }
+  if (m.where !== null) {
+    const each = m.where.map((w) => `column ${q(w.column)} holds ${w.values.map((v) => q(String(v))).join(" or ")}`);
+    s = `${s} Only rows whose ${each.join(" and whose ")} count.`;
+  }
   // With one run per scenario there is no interval across runs to speak of.
   return scenarios.some((sc) => sc.runs.length >= 2) ? `${s} Across runs, each run's ${primaryName(m.kind)} is one value of the interval.` : s;
 }
