@@ -14,6 +14,7 @@ import { createGunzip } from "node:zlib";
 import { StringDecoder } from "node:string_decoder";
 import type { ColumnMap } from "../manifest/types.js";
 import { DEFAULT_ROW_LIMIT } from "../ingest/feeder.js";
+import { readParquetRows } from "../ingest/parquetReader.js";
 import { readRun, refuseIfNotAFile } from "../ingest/readRun.js";
 import { runFormat } from "../ingest/runFile.js";
 
@@ -160,7 +161,7 @@ export async function readHead(path: string, display: string, columns: ColumnMap
   let last: number | null = Number.isFinite(lastTime) ? lastTime : null;
   if (cut) {
     const format = runFormat(path);
-    last = format !== null && !format.gzip ? await tailTime(path, format.format, columns, found.header) : null;
+    last = format !== null && !format.gzip && format.format !== "parquet" ? await tailTime(path, format.format, columns, found.header) : null;
   }
   return { rows: total, cut, lastTime: last, series: heads.filter((h) => h.rows > 0), pairs };
 }
@@ -170,6 +171,7 @@ async function discover(path: string, columns: ColumnMap, limit: number): Promis
   const format = runFormat(path);
   const names = new Set<string>();
   if (format === null) return { series: [], entity: false, header: null };
+  if (format.format === "parquet") return discoverParquet(path, columns, limit);
   const raw = createReadStream(path, { highWaterMark: 1 << 16 });
   const stream = format.gzip ? raw.pipe(createGunzip()) : raw;
   const decoder = new StringDecoder("utf8");
@@ -224,6 +226,35 @@ async function discover(path: string, columns: ColumnMap, limit: number): Promis
   }
   const h = header as string[] | null;
   return { series: [...names], entity: format.format === "jsonl" || (h !== null && h.includes(columns.entity)), header: h };
+}
+
+/** `discover` for a Parquet file: the series of its first `limit` rows, read by row group. */
+async function discoverParquet(path: string, columns: ColumnMap, limit: number): Promise<{ series: string[]; entity: boolean; header: string[] | null }> {
+  const names = new Set<string>();
+  let header: string[] | null = null;
+  let at = -1;
+  let rows = 0;
+  try {
+    await readParquetRows({
+      path,
+      display: path,
+      onHeader: (h) => {
+        header = [...h];
+        at = h.indexOf(columns.series);
+        return at < 0 ? [] : [columns.series];
+      },
+      onRow: (cells) => {
+        if (at < 0 || rows >= limit) throw new HeadFull();
+        rows++;
+        const s = cells[at];
+        if (s !== null && s !== "") names.add(String(s));
+      },
+    });
+  } catch {
+    // Cut short (HeadFull), or the reader proper says what is wrong with the file.
+  }
+  const h = header as string[] | null;
+  return { series: [...names], entity: h !== null && h.includes(columns.entity), header: h };
 }
 
 /**
