@@ -7,9 +7,11 @@
  *
  * Memory is bounded by one row group: the bytes of its needed column chunks and their decoded
  * arrays, never the whole file (`AsyncBuffer` reads exactly the slices hyparquet asks for).
- * The library (hyparquet) decodes plain, dictionary and delta pages; the decompressors are
- * hyparquet's own snappy, Node's zlib for gzip and brotli, and hyparquet-compressors for zstd and
- * lz4.
+ * The library (hyparquet) decodes plain, dictionary and delta pages; the decompressors are Node's
+ * zlib for gzip and brotli, and hyparquet-compressors for snappy (WebAssembly, faster than the
+ * JavaScript one hyparquet has built in), zstd and lz4. Flat columns (all a run file has) are read
+ * page by page here with the library's page decoders (`readFlat`); any other column goes through
+ * the library's row-group reader.
  */
 import { createHash } from "node:crypto";
 import type { FileHandle } from "node:fs/promises";
@@ -22,11 +24,16 @@ import {
   type DecodedArray,
   type FileMetaData,
   type SchemaElement,
+  type SchemaTree,
   parquetMetadataAsync,
   parquetRead,
   parquetSchema,
 } from "hyparquet";
 import { compressors as extraCompressors } from "hyparquet-compressors";
+import { parquetHeader, readPage } from "hyparquet/src/column.js";
+import { DEFAULT_PARSERS, convert, convertWithDictionary } from "hyparquet/src/convert.js";
+import { decompressPage, readDataPage, readDataPageV2 } from "hyparquet/src/datapage.js";
+import { getMaxDefinitionLevel } from "hyparquet/src/schema.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { UserError } from "../messages/error.js";
 import { openRunFile } from "./openFile.js";
@@ -34,8 +41,9 @@ import { openRunFile } from "./openFile.js";
 /** The four bytes a Parquet file starts and ends with. */
 const MAGIC = "PAR1";
 
-/** Decompressors by codec; UNCOMPRESSED and SNAPPY need none (hyparquet decodes them itself). */
+/** Decompressors by codec; UNCOMPRESSED needs none. */
 const COMPRESSORS: Compressors = {
+  SNAPPY: extraCompressors.SNAPPY,
   GZIP: (input) => gunzipSync(input),
   BROTLI: (input) => brotliDecompressSync(input),
   ZSTD: extraCompressors.ZSTD,
@@ -118,6 +126,8 @@ export class ParquetRunFile {
   readonly groups: RowGroupSpan[];
   readonly rows: number;
   private readonly buffer: AsyncBuffer;
+  /** For each top-level column, its leaf when it is flat (no nesting, not repeated), else null. */
+  private readonly flat: (FlatLeaf | null)[];
 
   private constructor(
     private readonly handle: FileHandle,
@@ -127,6 +137,11 @@ export class ParquetRunFile {
     private readonly probe: ParquetProbe,
   ) {
     const tree = parquetSchema(metadata);
+    this.flat = tree.children.map((c) =>
+      c.children.length === 0 && c.element.repetition_type !== "REPEATED"
+        ? { name: c.element.name, element: c.element, path: [tree, c], maxDefinition: getMaxDefinitionLevel([tree, c]) }
+        : null,
+    );
     this.columns = tree.children.map((c) => {
       const nested = c.children.length > 0;
       return { name: c.element.name, type: typeName(c.element, nested), kind: nested ? "other" : kindOf(c.element) };
@@ -196,26 +211,109 @@ export class ParquetRunFile {
    */
   async readGroup(g: number, names: readonly string[]): Promise<DecodedArray[]> {
     const span = this.groups[g];
-    const parts = new Map<string, ColumnData[]>(names.map((n) => [n, []]));
-    if (names.length > 0 && span.rows > 0) {
-      try {
-        await parquetRead({
-          file: this.buffer,
-          metadata: this.metadata,
-          columns: [...new Set(names)],
-          rowStart: span.start,
-          rowEnd: span.start + span.rows,
-          compressors: COMPRESSORS,
-          onChunk: (chunk) => parts.get(chunk.columnName)?.push(chunk),
-        });
-      } catch (e) {
-        if (e instanceof UserError) throw e;
-        throw ingestMessages.damagedParquet(this.display, g + 1, span.start + 1, span.start + span.rows, detailOf(e));
+    const damaged = (detail: string) => ingestMessages.damagedParquet(this.display, g + 1, span.start + 1, span.start + span.rows, detail);
+    const out = new Map<string, DecodedArray>();
+    const nested: string[] = [];
+    for (const name of new Set(names)) {
+      const i = this.indexOf(name);
+      if (span.rows > 0 && i >= 0 && this.flat[i] !== null) out.set(name, await this.readFlat(g, this.flat[i]!, damaged));
+      else nested.push(name);
+    }
+    if (nested.length > 0) {
+      const parts = new Map<string, ColumnData[]>(nested.map((n) => [n, []]));
+      if (span.rows > 0) {
+        try {
+          await parquetRead({
+            file: this.buffer,
+            metadata: this.metadata,
+            columns: nested,
+            rowStart: span.start,
+            rowEnd: span.start + span.rows,
+            compressors: COMPRESSORS,
+            onChunk: (chunk) => parts.get(chunk.columnName)?.push(chunk),
+          });
+        } catch (e) {
+          if (e instanceof UserError) throw e;
+          throw damaged(detailOf(e));
+        }
       }
+      for (const n of nested) out.set(n, span.rows === 0 ? [] : joined(parts.get(n)!, span, damaged));
     }
     this.probe.groups++;
     this.probe.mostRowsHeld = Math.max(this.probe.mostRowsHeld, span.rows);
-    return names.map((n) => joined(parts.get(n)!, span, (detail) => ingestMessages.damagedParquet(this.display, g + 1, span.start + 1, span.start + span.rows, detail)));
+    return names.map((n) => out.get(n)!);
+  }
+
+  /**
+   * The cells of a flat (top-level, not repeated) column in row group `g`, decoded page by page
+   * with the library's page decoders; a null cell (definition level below the column's) is null.
+   * This does what hyparquet's own column reader does for such a column, without its general
+   * assembly of nested lists, which costs more than the decoding for a column that may hold nulls.
+   */
+  private async readFlat(g: number, leaf: FlatLeaf, damaged: (detail: string) => UserError): Promise<DecodedArray> {
+    const rows = this.groups[g].rows;
+    const chunk = this.metadata.row_groups[g].columns.find((c) => c.meta_data?.path_in_schema.length === 1 && c.meta_data.path_in_schema[0] === leaf.name);
+    const meta = chunk?.meta_data;
+    if (meta === undefined) throw damaged(`column \`${leaf.name}\` has no data in this row group`);
+    const start = Number(meta.dictionary_page_offset || meta.data_page_offset);
+    const length = Number(meta.total_compressed_size);
+    if (!(start >= 0 && length >= 0 && start + length <= this.bytes)) throw damaged(`column \`${leaf.name}\` points past the end of the file`);
+    const bytes = await this.buffer.slice(start, start + length);
+    const decoder = { pathInSchema: meta.path_in_schema, type: meta.type, element: leaf.element, schemaPath: leaf.path, codec: meta.codec, parsers: DEFAULT_PARSERS, compressors: COMPRESSORS, utf8: true };
+    const reader = { view: new DataView(bytes), offset: 0 };
+    // A column that may hold nulls is written straight into one array of the group's cells; a
+    // required one keeps its pages' arrays (typed arrays for numbers), joined at the end.
+    const cells: unknown[] | null = leaf.maxDefinition > 0 ? new Array<unknown>(rows) : null;
+    const pieces: DecodedArray[] = [];
+    let dictionary: DecodedArray | undefined;
+    let held = 0;
+    try {
+      while (held < rows && reader.offset < reader.view.byteLength - 1) {
+        const header = parquetHeader(reader);
+        let levels: ArrayLike<number> | undefined;
+        let values: DecodedArray;
+        let n: number;
+        if (header.type === "DICTIONARY_PAGE") {
+          const { data } = readPage(reader, header, decoder, dictionary, undefined, 0);
+          if (data !== undefined) dictionary = convert(data, decoder);
+          continue;
+        }
+        const compressed = new Uint8Array(bytes, reader.offset, header.compressed_page_size);
+        reader.offset += header.compressed_page_size;
+        if (header.type === "DATA_PAGE" && header.data_page_header !== undefined) {
+          const daph = header.data_page_header;
+          const page = decompressPage(compressed, Number(header.uncompressed_page_size), meta.codec, COMPRESSORS);
+          const read = readDataPage(page, daph, decoder);
+          levels = read.definitionLevels;
+          values = convertWithDictionary(read.dataPage, dictionary, daph.encoding, decoder);
+          n = daph.num_values;
+        } else if (header.type === "DATA_PAGE_V2" && header.data_page_header_v2 !== undefined) {
+          const daph2 = header.data_page_header_v2;
+          const read = readDataPageV2(compressed, header, decoder);
+          levels = read.definitionLevels;
+          values = convertWithDictionary(read.dataPage, dictionary, daph2.encoding, decoder);
+          n = daph2.num_values;
+        } else continue; // an index page: nothing to read
+        if (held + n > rows) throw damaged(`column \`${leaf.name}\` gives more cells than the row group's ${rows} rows`);
+        if (cells === null) pieces.push(values);
+        else if (levels === undefined || levels.length === 0) {
+          if (values.length !== n) throw damaged(`a page of column \`${leaf.name}\` gives ${values.length} cells for ${n} rows`);
+          for (let i = 0; i < n; i++) cells[held + i] = values[i];
+        } else {
+          const max = leaf.maxDefinition;
+          let j = 0;
+          for (let i = 0; i < n; i++) cells[held + i] = levels[i] === max ? values[j++] : null;
+        }
+        held += n;
+      }
+    } catch (e) {
+      if (e instanceof UserError) throw e;
+      throw damaged(detailOf(e));
+    }
+    const total = cells === null ? pieces.reduce((sum, p) => sum + p.length, 0) : held;
+    if (total !== rows) throw damaged(`column \`${leaf.name}\` gives ${total} cells for ${rows} rows`);
+    if (cells !== null) return cells as DecodedArray;
+    return concatenated(pieces, total);
   }
 
   /**
@@ -241,16 +339,42 @@ export class ParquetRunFile {
   }
 }
 
+/** A flat column: its schema element, its schema path (root, leaf) and its highest definition level (0: required). */
+interface FlatLeaf {
+  name: string;
+  element: SchemaElement;
+  path: SchemaTree[];
+  maxDefinition: number;
+}
+
 /** The pieces of one column in one row group, as one array of `span.rows` cells. */
 function joined(parts: ColumnData[], span: RowGroupSpan, damaged: (detail: string) => UserError): DecodedArray {
   parts.sort((a, b) => a.rowStart - b.rowStart);
-  const total = parts.reduce((n, p) => n + p.columnData.length, 0);
+  let total = 0;
+  for (const p of parts) total += p.columnData.length;
   if (parts.length === 0 || parts[0].rowStart !== span.start || total !== span.rows) {
     throw damaged(`a column gives ${total} cells for ${span.rows} rows`);
   }
-  if (parts.length === 1) return parts[0].columnData;
-  const out: unknown[] = [];
-  for (const p of parts) for (let i = 0; i < p.columnData.length; i++) out.push(p.columnData[i]);
+  return concatenated(parts.map((p) => p.columnData), total);
+}
+
+/** Arrays of cells one after the other, as one array of `total` cells. */
+function concatenated(pieces: DecodedArray[], total: number): DecodedArray {
+  if (pieces.length === 1) return pieces[0];
+  const first = pieces[0];
+  // Typed arrays of one kind (a required number column, one piece per page) are copied as memory.
+  if (first !== undefined && !Array.isArray(first) && pieces.every((p) => p.constructor === first.constructor)) {
+    const out = new (first.constructor as new (n: number) => Float64Array)(total);
+    let at = 0;
+    for (const p of pieces) {
+      out.set(p as Float64Array, at);
+      at += p.length;
+    }
+    return out;
+  }
+  const out = new Array<unknown>(total);
+  let at = 0;
+  for (const data of pieces) for (let i = 0; i < data.length; i++) out[at++] = data[i];
   return out as DecodedArray;
 }
 

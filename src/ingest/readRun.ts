@@ -57,7 +57,6 @@ class SourceError extends Error {
  * // -> { bytes: 48, rows: 3, seriesRows: { queue: 2, sold: 1 }, sha256: "..." }
  */
 export async function readRun(opts: ReadOptions): Promise<ReadReport> {
-  if (runFormat(opts.path)?.format === "parquet") return readParquet(opts);
   if (opts.chunkSize === undefined && opts.readerThread !== false && pipelineWanted(opts.path)) return readRunPipelined(opts);
   return readRunHere(opts);
 }

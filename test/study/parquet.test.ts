@@ -6,7 +6,9 @@
  * runs passes `sojourn verify` (through the built command line: `npm run build` first).
  */
 import { readFileSync, rmSync, writeFileSync } from "node:fs";
+import { spawnSync } from "node:child_process";
 import { join } from "node:path";
+import { fileURLToPath } from "node:url";
 import { afterAll, describe, expect, it } from "vitest";
 import type { CompressionCodec } from "hyparquet";
 import { simulateQueue } from "../../src/demo/queue.js";
@@ -14,6 +16,8 @@ import { studyOf } from "../helpers/runStudyFrom.js";
 import { csv, gz, tempFolder } from "../helpers/tempStudy.js";
 import { type EventRow, eventsParquet } from "../helpers/parquet.js";
 import { sojourn } from "../helpers/cli.js";
+
+const MAIN = fileURLToPath(new URL("../../dist/cli/main.js", import.meta.url));
 
 const rows: EventRow[] = [...simulateQueue({ arrivalRate: 1, serviceRate: 0.6, servers: 2, horizon: 200, seed: 5, decimals: 5 })].map(
   (r) => [r.time, r.series, r.value, r.entity === null || r.entity === undefined ? null : String(r.entity)],
@@ -88,13 +92,22 @@ describe("sojourn verify on a report made from Parquet runs", () => {
 
   it("reports, then verifies every digest and number; a changed Parquet file fails verify", () => {
     const made = sojourn(["report", "study.yaml", "--out", "report"], dir);
-    expect(made.stderr).toContain("read run 1/2: s / rep-01 (1055 rows)");
+    expect(made.stderr).toContain("s / rep-01 (1055 rows)");
+    expect(made.stderr).toContain("s / rep-02 (400 rows)");
     expect(made.status).toBe(0);
     const results = JSON.parse(readFileSync(join(dir, "report", "results.json"), "utf8")) as { scenarios: { runs: { id: string }[] }[] };
     expect(results.scenarios[0].runs.map((r) => r.id)).toEqual(["rep-01", "rep-02"]);
     const ok = sojourn(["verify", "report"], dir);
     expect(ok.status).toBe(0);
     expect(ok.stdout).not.toMatch(/FAILED/);
+    // read on the reader thread (every file counts as large): the same results.json, byte for byte
+    const threaded = spawnSync(process.execPath, [MAIN, "report", "study.yaml", "--out", "threaded", "--workers", "1", "--quiet"], {
+      cwd: dir,
+      encoding: "utf8",
+      env: { ...process.env, SOURCE_DATE_EPOCH: "1780000000", SOJOURN_PARALLEL_BYTES: "1" },
+    });
+    expect(threaded.status).toBe(0);
+    expect(readFileSync(join(dir, "threaded", "results.json"), "utf8")).toBe(readFileSync(join(dir, "report", "results.json"), "utf8"));
     // the same rows written again with another codec: other bytes, so the digest no longer matches
     writeFileSync(join(dir, "runs", "rep-02.parquet"), eventsParquet(rows.slice(0, 400), { codec: "UNCOMPRESSED" }));
     const changed = sojourn(["verify", "report"], dir);
