@@ -4,6 +4,8 @@
  *   file ──read 1 MiB──┬─► SHA-256 and byte count (bytes as stored)
  *                      └─► [gunzip] ─► ChunkFeeder ─► CsvParser | JsonLinesParser ─► SeriesTable ─► onRow
  *
+ * A Parquet file (`.parquet`) is read by row group instead, by `readParquet` (`parquetReader.ts`).
+ *
  * A plain file is read into two alternating buffers, the next read running ahead while a chunk is
  * parsed; the feeder copies each chunk into its working buffer.
  *
@@ -13,20 +15,22 @@
  */
 import { createHash } from "node:crypto";
 import { pipelineWanted, readRunPipelined } from "./pipeline.js";
-import { constants } from "node:fs";
-import { type FileHandle, lstat, open, stat } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { CsvParser } from "./csvParser.js";
 import { ChunkFeeder, DEFAULT_ROW_LIMIT } from "./feeder.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
-import { RUN_EXTENSIONS, notFileKind, runFormat } from "./runFile.js";
+import { openRunFile } from "./openFile.js";
+import { readParquet } from "./parquetReader.js";
+import { RUN_EXTENSIONS, runFormat } from "./runFile.js";
 import { SeriesTable } from "./seriesTable.js";
 import { mark } from "../timing.js";
 import type { ReadOptions, ReadReport } from "./readTypes.js";
 
 export type { RowSink } from "./seriesTable.js";
+
+export { refuseIfNotAFile } from "./openFile.js";
 
 export type { ReadOptions, ReadReport, SeriesRequest } from "./readTypes.js";
 
@@ -63,6 +67,7 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   mark(`reading ${display}`);
   const format = runFormat(opts.path);
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
+  if (format.format === "parquet") return readParquet(opts);
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
 
   const limit = opts.maxRowBytes ?? DEFAULT_ROW_LIMIT;
@@ -135,41 +140,6 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   feeder.finish();
   mark(`read ${display}`);
   return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: table.rows, seriesRows: table.counts() };
-}
-
-/**
- * Opens a run file for reading, and refuses what is not a regular file (a pipe, a socket, a device,
- * itself or through a link) by what it is. The path is looked at before it is opened, since opening
- * a socket fails and opening a pipe waits for a writer; the open file is looked at again, so a path
- * replaced in between is caught too. Opened without blocking: reading a regular file never blocks.
- */
-async function openRunFile(path: string, display: string): Promise<FileHandle> {
-  await refuseIfNotAFile(path, display);
-  const file = await open(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
-  const kind = notFileKind(await file.stat());
-  if (kind !== null) {
-    await file.close();
-    throw await refusal(path, display, kind);
-  }
-  return file;
-}
-
-/**
- * Throws the reader's message when `path` leads to something other than a regular file (a pipe, a
- * socket, a device, a folder), itself or through a link; a path that does not exist passes (the
- * open that follows says so). For readers that open the file by other means first (`init`).
- */
-export async function refuseIfNotAFile(path: string, display: string): Promise<void> {
-  const kind = await stat(path).then(notFileKind, () => null);
-  if (kind !== null) throw await refusal(path, display, kind);
-}
-
-async function refusal(path: string, display: string, kind: string): Promise<UserError> {
-  const link = await lstat(path).then(
-    (s) => s.isSymbolicLink(),
-    () => false,
-  );
-  return kind === "a folder" ? ingestMessages.unreadableFile(display, "EISDIR") : ingestMessages.notARegularFile(display, kind, link);
 }
 
 /** The user's message for an error of the file system or of gunzip. */
