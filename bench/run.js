@@ -14,7 +14,7 @@
 // Data is invented by the demo's seeded queue simulation and written once to $SOJOURN_BENCH_DIR
 // (default /tmp/sojourn-bench), never into the repository. REPEAT=n repeats each timing (default 3;
 // the fastest is reported, the machine may be shared). QUICK=1 uses files a tenth as long.
-// PARTS=long,workers,demo,runs1000,entities runs only those parts (long is 1 to 3).
+// PARTS=long,parquet,workers,demo,runs1000,entities runs only those parts (long is 1 to 3).
 /* global console, URL */
 import { execFileSync, spawnSync } from "node:child_process";
 import { createReadStream, createWriteStream, existsSync, mkdirSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
@@ -52,6 +52,54 @@ async function runFile(path, horizon, seed, decimals = 4) {
   if (existsSync(path)) return;
   const tmp = `${path}.tmp`;
   await writeRunCsv(tmp, simulateQueue(model(horizon, seed, decimals)));
+  execFileSync("mv", [tmp, path]);
+}
+
+/**
+ * Writes a run CSV (time,series,value,entity, as `writeRunCsv` writes it) as Parquet: time and
+ * value DOUBLE, series and entity STRING, snappy pages, `group` rows per row group.
+ */
+async function csvToParquet(csvPath, path, group) {
+  const { ParquetWriter, fileWriter, schemaFromColumnData } = await import("hyparquet-writer");
+  const tmp = `${path}.tmp`;
+  const writer = fileWriter(tmp);
+  let pq = null;
+  let time = new Float64Array(group);
+  let series = [];
+  let value = [];
+  let entity = [];
+  const flush = () => {
+    const n = series.length;
+    if (n === 0) return;
+    const columnData = [
+      { name: "time", data: time.subarray(0, n), type: "DOUBLE", nullable: false },
+      { name: "series", data: series, type: "STRING" },
+      { name: "value", data: value, type: "DOUBLE" },
+      { name: "entity", data: entity, type: "STRING" },
+    ];
+    pq ??= new ParquetWriter({ writer, schema: schemaFromColumnData({ columnData }), codec: "SNAPPY" });
+    pq.write({ columnData, rowGroupSize: group });
+    time = new Float64Array(group);
+    series = [];
+    value = [];
+    entity = [];
+  };
+  const { createInterface } = await import("node:readline");
+  let header = true;
+  for await (const line of createInterface({ input: createReadStream(csvPath), crlfDelay: Infinity })) {
+    if (header || line === "") {
+      header = false;
+      continue;
+    }
+    const [t, s, v, e] = line.split(",");
+    time[series.length] = Number(t);
+    series.push(s);
+    value.push(v === "" || v === undefined ? null : Number(v));
+    entity.push(e === "" || e === undefined ? null : e);
+    if (series.length === group) flush();
+  }
+  flush();
+  pq.finish();
   execFileSync("mv", [tmp, path]);
 }
 
@@ -186,6 +234,35 @@ if (want("long")) {
   out("## gzip input");
   out();
   out(`${f2(mb(`${big10}.gz`))} MB gzip: ${f2(gz.seconds)} s against ${f2(sj.seconds)} s for the plain CSV: ratio ${f2(gz.seconds / sj.seconds)} (target at most 1.5).`);
+  out();
+}
+
+if (want("parquet")) {
+  // --- 3b. the long run as Parquet ------------------------------------------------------------
+  const H10 = Math.round(2_220_000 * scale);
+  const big10 = join(dir, `long-${H10}.csv`);
+  const pq10 = join(dir, `long-${H10}.parquet`);
+  console.error("generating data (once) ...");
+  await runFile(big10, H10, 7);
+  const GROUP = 1 << 20;
+  if (!existsSync(pq10)) await csvToParquet(big10, pq10, GROUP);
+  const mcsv = manifest("long10.yaml", [big10], H10);
+  const mpq = manifest("long10pq.yaml", [pq10], H10);
+  const c = timed(process.execPath, report(mcsv, join(dir, "out10")));
+  const p = timed(process.execPath, report(mpq, join(dir, "outpq")));
+  const figures = (d) => JSON.stringify(JSON.parse(readFileSync(join(dir, d, "results.json"), "utf8")).scenarios[0].runs[0].measures);
+  const same = figures("out10") === figures("outpq");
+  const rssPq = peakRss(report(mpq, join(dir, "outpq")));
+  out(`## Parquet input: the same long run`);
+  out();
+  out(`${f2(mb(pq10))} MB of Parquet (snappy pages, row groups of ${GROUP.toLocaleString("en")} rows, written by hyparquet-writer from the CSV) against ${f2(mb(big10))} MB of CSV.`);
+  out();
+  out("| input | wall time (s) | CPU time (s) |");
+  out("|---|---|---|");
+  out(`| CSV | ${f2(c.seconds)} | ${f2(c.cpu)} |`);
+  out(`| Parquet | ${f2(p.seconds)} | ${f2(p.cpu)} |`);
+  out();
+  out(`Ratio Parquet / CSV: ${f2(p.seconds / c.seconds)} (target at most 1.5); same run figures: ${same ? "yes" : "NO"}; peak RSS with Parquet ${rssPq.toFixed(0)} MB.`);
   out();
 }
 

@@ -4,6 +4,8 @@
  *   file ──read 1 MiB──┬─► SHA-256 and byte count (bytes as stored)
  *                      └─► [gunzip] ─► ChunkFeeder ─► CsvParser | JsonLinesParser ─► SeriesTable ─► onRow
  *
+ * A Parquet file (`.parquet`) is read by row group instead, by `readParquet` (`parquetReader.ts`).
+ *
  * A plain file is read into two alternating buffers, the next read running ahead while a chunk is
  * parsed; the feeder copies each chunk into its working buffer.
  *
@@ -13,8 +15,6 @@
  */
 import { createHash } from "node:crypto";
 import { pipelineWanted, readRunPipelined } from "./pipeline.js";
-import { constants } from "node:fs";
-import { type FileHandle, lstat, open, stat } from "node:fs/promises";
 import { createGunzip } from "node:zlib";
 import { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
@@ -24,12 +24,16 @@ import { layoutSink } from "./layouts.js";
 import { CsvRecords, JsonLinesRecords } from "./records.js";
 import { RowRouter } from "./rowRouter.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
-import { RUN_EXTENSIONS, type RunFormat, notFileKind, runFormat } from "./runFile.js";
+import { openRunFile } from "./openFile.js";
+import { readParquet, readParquetRows } from "./parquetReader.js";
+import { RUN_EXTENSIONS, type RunFormat, runFormat } from "./runFile.js";
 import { SeriesTable } from "./seriesTable.js";
 import { mark } from "../timing.js";
 import type { ReadOptions, ReadReport } from "./readTypes.js";
 
 export type { RowSink } from "./seriesTable.js";
+
+export { refuseIfNotAFile } from "./openFile.js";
 
 export type { ReadOptions, ReadReport, SeriesRequest } from "./readTypes.js";
 
@@ -94,12 +98,49 @@ function rowStage(opts: ReadOptions, format: "csv" | "jsonl", limit: number): Ro
   return { parser, rows: () => router.rows, counts: () => router.counts(), close: () => sink.close() };
 }
 
+/**
+ * A Parquet file in a layout (or with `where`): the plain row source of `parquetReader.ts` gives
+ * each row's cells to the layout, the same `RecordSink` the CSV and JSON Lines record readers feed.
+ */
+async function readParquetLayout(opts: ReadOptions): Promise<ReadReport> {
+  const { display } = opts;
+  const router = new RowRouter(opts.series, opts.onRow, display);
+  const sink = layoutSink(opts.layout ?? { layout: "events", pairs: [] }, router, opts.columns, display);
+  const wanted = sink.wanted;
+  const cells: (string | number | null)[] = new Array<string | number | null>(wanted.length).fill(null);
+  let at: number[] = [];
+  try {
+    const report = await readParquetRows({
+      path: opts.path,
+      display,
+      storedBytes: opts.storedBytes,
+      onHeader(header) {
+        sink.header(header);
+        at = wanted.map((name) => header.indexOf(name));
+        return wanted.filter((name) => header.includes(name));
+      },
+      onRow(row, position) {
+        for (let k = 0; k < at.length; k++) {
+          const c = at[k] < 0 ? null : row[at[k]];
+          cells[k] = c === "" ? null : c;
+        }
+        sink.record(cells, position);
+      },
+    });
+    sink.finish();
+    return { bytes: report.bytes, sha256: report.sha256, rows: router.rows, seriesRows: router.counts() };
+  } finally {
+    sink.close();
+  }
+}
+
 /** `readRun` in this thread: read, parse and hand every row to `onRow`. */
 export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   const { display } = opts;
   mark(`reading ${display}`);
   const format = runFormat(opts.path);
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
+  if (format.format === "parquet") return readsRecords(opts) ? readParquetLayout(opts) : readParquet(opts);
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
 
   const limit = opts.maxRowBytes ?? DEFAULT_ROW_LIMIT;
@@ -172,47 +213,12 @@ async function readThrough(opts: ReadOptions, format: RunFormat, chunkSize: numb
     }
   } catch (e) {
     if (e === failure || e instanceof UserError) throw e;
-    throw sourceProblem(e, display, format.format, format.gzip, bytes);
+    throw sourceProblem(e, display, format.format as "csv" | "jsonl", format.gzip, bytes);
   }
-  if (bytes === 0) throw ingestMessages.emptyFile(display, format.format);
+  if (bytes === 0) throw ingestMessages.emptyFile(display, format.format as "csv" | "jsonl");
   feeder.finish();
   mark(`read ${display}`);
   return { bytes, sha256: hash === null ? "" : hash.digest("hex"), rows: stage.rows(), seriesRows: stage.counts() };
-}
-
-/**
- * Opens a run file for reading, and refuses what is not a regular file (a pipe, a socket, a device,
- * itself or through a link) by what it is. The path is looked at before it is opened, since opening
- * a socket fails and opening a pipe waits for a writer; the open file is looked at again, so a path
- * replaced in between is caught too. Opened without blocking: reading a regular file never blocks.
- */
-async function openRunFile(path: string, display: string): Promise<FileHandle> {
-  await refuseIfNotAFile(path, display);
-  const file = await open(path, constants.O_RDONLY | (constants.O_NONBLOCK ?? 0));
-  const kind = notFileKind(await file.stat());
-  if (kind !== null) {
-    await file.close();
-    throw await refusal(path, display, kind);
-  }
-  return file;
-}
-
-/**
- * Throws the reader's message when `path` leads to something other than a regular file (a pipe, a
- * socket, a device, a folder), itself or through a link; a path that does not exist passes (the
- * open that follows says so). For readers that open the file by other means first (`init`).
- */
-export async function refuseIfNotAFile(path: string, display: string): Promise<void> {
-  const kind = await stat(path).then(notFileKind, () => null);
-  if (kind !== null) throw await refusal(path, display, kind);
-}
-
-async function refusal(path: string, display: string, kind: string): Promise<UserError> {
-  const link = await lstat(path).then(
-    (s) => s.isSymbolicLink(),
-    () => false,
-  );
-  return kind === "a folder" ? ingestMessages.unreadableFile(display, "EISDIR") : ingestMessages.notARegularFile(display, kind, link);
 }
 
 /** The user's message for an error of the file system or of gunzip. */

@@ -4,7 +4,7 @@
  * (`layouts.ts`):
  *
  *   bytes ─► ChunkFeeder ─► CsvRecords | JsonLinesRecords ─┐
- *   (any other reader, e.g. a columnar one)  ───────────────┴─► RecordSink: header(found) once,
+ *   Parquet: readParquetRows (readRun.ts, readParquetLayout) ┴─► RecordSink: header(found) once,
  *                                                               record(cells, line) per row, finish()
  *
  * A reader hands over, for each row, one cell per name of `sink.wanted` (in that order): the

@@ -1,12 +1,13 @@
 /**
  * Run file names: the format a file is read in, and the run id it gives.
  *
- * The format is chosen by extension (contract section 1); the run id is the file name without
+ * The format is chosen by extension (contract sections 1 and 9); the run id is the file name without
  * those extensions (`rep-07.csv.gz` -> `rep-07`).
  */
 
 export interface RunFormat {
-  format: "csv" | "jsonl";
+  format: "csv" | "jsonl" | "parquet";
+  /** gzip around the whole file (a Parquet file compresses its pages itself: always false). */
   gzip: boolean;
 }
 
@@ -14,6 +15,7 @@ const EXTENSIONS: { suffix: string; format: RunFormat }[] = [
   { suffix: ".csv.gz", format: { format: "csv", gzip: true } },
   { suffix: ".jsonl.gz", format: { format: "jsonl", gzip: true } },
   { suffix: ".ndjson.gz", format: { format: "jsonl", gzip: true } },
+  { suffix: ".parquet", format: { format: "parquet", gzip: false } },
   { suffix: ".csv", format: { format: "csv", gzip: false } },
   { suffix: ".jsonl", format: { format: "jsonl", gzip: false } },
   { suffix: ".ndjson", format: { format: "jsonl", gzip: false } },

@@ -12,6 +12,7 @@
  * the cell is hashed and looked up instead, so that each row costs the same however many distinct
  * names the file holds.
  */
+import type { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
 
 /** What the reader asks for: see `SeriesRequest` in `readRun.ts`. */
@@ -27,6 +28,9 @@ export type RowSink = (
   entity: string | undefined,
   line: number,
 ) => void;
+
+/** Builds the error for a time that goes down within a series. */
+export type Decreased = (line: number, series: string, previous: number, time: number, previousLine: number) => UserError;
 
 /** One distinct series of the file. */
 export interface SeriesEntry {
@@ -78,6 +82,9 @@ export class SeriesTable {
     private readonly wanted: readonly SeriesWanted[],
     private readonly onRow: RowSink,
     private readonly display: string,
+    /** The message for a time that decreases (default: the text formats', which count lines). */
+    private readonly decreased: Decreased = (line, series, previous, time, previousLine) =>
+      ingestMessages.timeDecreased(display, line, series, previous, time, previousLine),
   ) {
     wanted.forEach((w, i) => {
       const list = this.requests.get(w.name);
@@ -250,7 +257,7 @@ export class SeriesTable {
     this.rows++;
     entry.rows++;
     if (time < entry.lastTime) {
-      throw ingestMessages.timeDecreased(this.display, line, entry.name, entry.lastTime, time, entry.lastLine);
+      throw this.decreased(line, entry.name, entry.lastTime, time, entry.lastLine);
     }
     entry.lastTime = time;
     entry.lastLine = line;

@@ -14,6 +14,8 @@ import { createGunzip } from "node:zlib";
 import { StringDecoder } from "node:string_decoder";
 import type { ColumnMap } from "../manifest/types.js";
 import { DEFAULT_ROW_LIMIT } from "../ingest/feeder.js";
+import { ParquetRunFile } from "../ingest/parquetFile.js";
+import { readParquetRows } from "../ingest/parquetReader.js";
 import { readRun, refuseIfNotAFile } from "../ingest/readRun.js";
 import { runFormat } from "../ingest/runFile.js";
 
@@ -160,7 +162,8 @@ export async function readHead(path: string, display: string, columns: ColumnMap
   let last: number | null = Number.isFinite(lastTime) ? lastTime : null;
   if (cut) {
     const format = runFormat(path);
-    last = format !== null && !format.gzip ? await tailTime(path, format.format, columns, found.header) : null;
+    if (format?.format === "parquet") last = await parquetTailTime(path, columns);
+    else last = format !== null && !format.gzip ? await tailTime(path, format.format, columns, found.header) : null;
   }
   return { rows: total, cut, lastTime: last, series: heads.filter((h) => h.rows > 0), pairs };
 }
@@ -170,6 +173,7 @@ async function discover(path: string, columns: ColumnMap, limit: number): Promis
   const format = runFormat(path);
   const names = new Set<string>();
   if (format === null) return { series: [], entity: false, header: null };
+  if (format.format === "parquet") return discoverParquet(path, columns, limit);
   const raw = createReadStream(path, { highWaterMark: 1 << 16 });
   const stream = format.gzip ? raw.pipe(createGunzip()) : raw;
   const decoder = new StringDecoder("utf8");
@@ -224,6 +228,56 @@ async function discover(path: string, columns: ColumnMap, limit: number): Promis
   }
   const h = header as string[] | null;
   return { series: [...names], entity: format.format === "jsonl" || (h !== null && h.includes(columns.entity)), header: h };
+}
+
+/** The largest time in the last row group of a Parquet file (the rows a cut-short read did not reach), or null. */
+async function parquetTailTime(path: string, columns: ColumnMap): Promise<number | null> {
+  try {
+    const file = await ParquetRunFile.open(path, path);
+    try {
+      if (file.indexOf(columns.time) < 0 || file.groups.length === 0) return null;
+      const [times] = await file.readGroup(file.groups.length - 1, [columns.time]);
+      let best = -Infinity;
+      for (let i = 0; i < times.length; i++) {
+        const t = Number(times[i]);
+        if (times[i] !== null && Number.isFinite(t) && t > best) best = t;
+      }
+      return Number.isFinite(best) ? best : null;
+    } finally {
+      await file.close();
+    }
+  } catch {
+    return null; // the reader proper says what is wrong with the file
+  }
+}
+
+/** `discover` for a Parquet file: the series of its first `limit` rows, read by row group. */
+async function discoverParquet(path: string, columns: ColumnMap, limit: number): Promise<{ series: string[]; entity: boolean; header: string[] | null }> {
+  const names = new Set<string>();
+  let header: string[] | null = null;
+  let at = -1;
+  let rows = 0;
+  try {
+    await readParquetRows({
+      path,
+      display: path,
+      onHeader: (h) => {
+        header = [...h];
+        at = h.indexOf(columns.series);
+        return at < 0 ? [] : [columns.series];
+      },
+      onRow: (cells) => {
+        if (at < 0 || rows >= limit) throw new HeadFull();
+        rows++;
+        const s = cells[at];
+        if (s !== null && s !== "") names.add(String(s));
+      },
+    });
+  } catch {
+    // Cut short (HeadFull), or the reader proper says what is wrong with the file.
+  }
+  const h = header as string[] | null;
+  return { series: [...names], entity: h !== null && h.includes(columns.entity), header: h };
 }
 
 /**

@@ -359,3 +359,126 @@ export function sortFilesFailed(file: string, folder: string, code: string | und
     "point TMPDIR at a folder with free space that you may write to, or raise the number of events sorted in memory with the environment variable SOJOURN_SORT_EVENTS",
   );
 }
+
+/** The role of a Parquet column in words: "the time", or "an attribute" for a column of no role. */
+function roleOf(role: string): string {
+  return role === "" ? "" : ` (the ${role})`;
+}
+
+/** A `.parquet` file without the `PAR1` marks a Parquet file starts and ends with. */
+export function notParquet(file: string, bytes: number): UserError {
+  const what =
+    bytes === 0
+      ? "the run file is empty (0 bytes): a Parquet file holds at least its schema"
+      : "this file is named .parquet but is not a Parquet file: it does not start with the 4 bytes `PAR1` that every Parquet file starts with";
+  return located(
+    { file },
+    what,
+    "write the run with a Parquet writer, or name the file after its real format (.csv, .jsonl); leave an empty file out of the scenario's `runs:`",
+  );
+}
+
+/** A Parquet file that starts right but whose footer is missing or unreadable. */
+export function truncatedParquet(file: string, bytes: number, detail: string): UserError {
+  return located(
+    { file },
+    `this Parquet file is cut short or damaged: it starts like a Parquet file but its footer (the schema and the list of row groups, at the end) cannot be read (${detail}; the file has ${byteCount(bytes)})`,
+    "write or copy the file again: a model stopped while writing leaves a Parquet file without its footer",
+  );
+}
+
+/** The pages of a row group cannot be decoded. */
+export function damagedParquet(file: string, group: number, firstRow: number, lastRow: number, detail: string): UserError {
+  return located(
+    { file, line: firstRow },
+    `the data of row group ${group} (rows ${firstRow} to ${lastRow}) of this Parquet file cannot be decoded: ${detail}`,
+    "write or copy the file again; if it was written with an unusual encoding, write it again with plain or dictionary pages",
+  );
+}
+
+/** A column chunk compressed with a codec the reader has no decompressor for. */
+export function unsupportedParquetCodec(file: string, column: string, codec: string, supported: readonly string[]): UserError {
+  return located(
+    { file },
+    `column \`${column}\` of this Parquet file is compressed with ${codec}, which Sojourn cannot decompress (it reads ${supported.join(", ")})`,
+    "write the file again with one of those compressions (snappy, gzip and zstd are the usual choices)",
+  );
+}
+
+/** A Parquet file without the time or series column (after column renaming). */
+export function parquetMissingColumns(
+  file: string,
+  missing: readonly { role: string; name: string }[],
+  found: readonly string[],
+): UserError {
+  const which = missing.map((m) => (m.role === m.name ? `\`${m.name}\`` : `\`${m.name}\` (the ${m.role})`));
+  const map = `columns: {${missing.map((m) => `${m.role}: <column name>`).join(", ")}}`;
+  return located(
+    { file },
+    `this Parquet file has no column ${which.join(" and no column ")}; its columns are ${quoted(found)}`,
+    `name the column so when writing the file, or map the file's own column in the manifest with \`${map}\``,
+  );
+}
+
+/** A Parquet file without the entity column an entity-based measure needs. */
+export function parquetMissingEntity(file: string, column: string, found: readonly string[], series: readonly string[]): UserError {
+  return located(
+    { file },
+    `this Parquet file has no column \`${column}\` (the entity), which the entity-based measures on series ${quoted(series)} need; its columns are ${quoted(found)}`,
+    `write the entity column into the file, or map the file's own column with \`${columnsKey("entity")}\``,
+  );
+}
+
+/** A text cell in a Parquet column that is read as numbers (time or value). */
+export function parquetTextNotNumber(file: string, row: number, column: string, role: string, text: string): UserError {
+  return located(
+    { file, line: row },
+    `row ${row}, column \`${column}\`${roleOf(role)}: the cell holds the text \`${text}\`, but the ${role} must be a number`,
+    `write the ${role} column as numbers (a double, float or integer column), not as texts`,
+  );
+}
+
+/** A Parquet cell of a type a role cannot use (a boolean time, a date as value, a list as series...). */
+export function parquetUnusableType(file: string, row: number, column: string, role: string, type: string, expected: string): UserError {
+  return located(
+    { file, line: row },
+    `row ${row}, column \`${column}\`${roleOf(role)}: the column's Parquet type is ${type}, which Sojourn cannot use there; it reads ${expected}`,
+    `write the column as ${expected}, or map another column with \`${columnsKey(role)}\``,
+  );
+}
+
+/** A NaN or infinite double in a Parquet time or value column. */
+export function parquetNotFinite(file: string, row: number, column: string, role: "time" | "value", x: number): UserError {
+  return located(
+    { file, line: row },
+    `row ${row}, column \`${column}\`${roleOf(role)}: the ${role} is ${String(x)}, not a finite number`,
+    role === "time" ? "give every row the finite simulation time it happened at" : "write a finite value, or leave the cell null (an empty value)",
+  );
+}
+
+/** A null time in a Parquet file. */
+export function parquetNullTime(file: string, row: number, column: string): UserError {
+  return located(
+    { file, line: row },
+    `row ${row}, column \`${column}\` (the time): the time is null`,
+    "give every row the simulation time it happened at",
+  );
+}
+
+/** A null or empty series name in a Parquet file. */
+export function parquetEmptySeries(file: string, row: number, column: string): UserError {
+  return located(
+    { file, line: row },
+    `row ${row}, column \`${column}\` (the series): the series is null or empty`,
+    "name the series (data stream) every row belongs to",
+  );
+}
+
+/** Within one series, time went down in row order (a Parquet file: rows, not lines). */
+export function parquetTimeDecreased(file: string, row: number, column: string, series: string, previous: number, time: number, previousRow: number): UserError {
+  return located(
+    { file, line: row },
+    `row ${row}, column \`${column}\` (the time): time goes backwards in series \`${series}\`: ${shown(time)} here, after ${shown(previous)} on row ${previousRow}`,
+    "write the rows of each series in time order (sort the rows by time, keeping rows with equal times in their order)",
+  );
+}

@@ -39,7 +39,7 @@ export function manifestOutIsFolder(file: string): UserError {
 export function noRunFiles(dir: string, skipped: number): UserError {
   const what =
     skipped === 0
-      ? "no run files found (run files end in .csv, .jsonl or .ndjson, optionally .gz)"
+      ? "no run files found (run files end in .csv, .jsonl or .ndjson, optionally .gz, or in .parquet)"
       : `no readable run files: all ${skipped} file(s) were skipped (the reasons are listed above)`;
   return located({ file: dir }, what, "Put the run files in this folder (one subfolder per scenario), or fix the files listed as skipped.");
 }

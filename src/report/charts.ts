@@ -5,7 +5,7 @@
  * Every chart states the time unit on its time axis or in its value axis title.
  */
 import type { TopLevelSpec } from "vega-lite";
-import type { TraceLine } from "../outcome/index.js";
+import type { LevelTrace, TraceLine } from "../outcome/index.js";
 import { fsum } from "../stats/fsum.js";
 
 /** The report's palette; the CSS in templates/report.css uses the same values. */
@@ -235,15 +235,8 @@ function levelAt(line: TraceLine, t: number): number | null {
   return sl !== undefined && sl.low === sl.high ? sl.low : null;
 }
 
-export interface TraceChartArgs {
-  /** Window start, collection start c (after warm-up) and end. */
-  start: number;
-  from: number;
-  to: number;
-  warmup: number | null;
-  /** The level (for a utilization: the busy level) and, for a utilization, the capacity. */
-  level: TraceLine;
-  capacity: TraceLine | null;
+/** A run's trace (window, warm-up, level and capacity: `LevelTrace` of outcome/) and the words drawn with it. */
+export interface TraceChartArgs extends Pick<LevelTrace, "start" | "from" | "to" | "warmup" | "level" | "capacity"> {
   timeTitle: string;
   valueTitle: string;
   levelLabel: string;

@@ -65,6 +65,7 @@ export function auditGuide(model: ReportModel): AuditGuide {
       { path: "results.json", text: "Every number of this report at full precision (JSON numbers, no rounding), scenario by scenario: each run's statistics and each measure's summary across runs." },
       { path: "tables/<scenario>/runs/<run>/<measure>.csv", text: "The calculation table behind each run's statistic: one row per interval, observation or event, with the line of the run file it came from, the running sums and the running average." },
       { path: "tables/<scenario>/intervals/<measure>.csv", text: "The interval arithmetic of each summary: every run's value, the deviations, the sum of squares, the standard deviation, the t quantile and the half-width." },
+      ...(model.comparisons === null ? [] : [{ path: "tables/<a>/comparisons/<n>-<measure>-vs-<b>.csv", text: "The arithmetic of each scenario comparison a − b: the values compared (per pair, or per scenario for Welch), the steps to the degrees of freedom, the t quantile at the Bonferroni level and the interval." }]),
       { path: "charts/", text: "Every chart of the report as an SVG file, for slides and documents (charts/measures/<measure>/, charts/warm-up/<scenario>.svg)." },
       { path: "record.json", text: "The study record: the manifest's text, the digest of every run file read and of every file written, the tool's version, the report's date and this edition's name." },
       { path: "report.pdf", text: "When printed: this page on paper, with page numbers and a contents list; its digest is added to record.json." },

@@ -1,5 +1,5 @@
 import { pairedInterval, welchInterval } from "./compare.js";
-import { spread } from "./spread.js";
+import { spread, spreadSteps as stepsOf, type SpreadSteps } from "./spread.js";
 
 /**
  * Every step of a difference interval (paired-t or Welch), for an audit: the values it used,
@@ -23,16 +23,7 @@ export interface DifferenceEnd {
 }
 
 /** The spread of one list of values: sum, mean and sample variance with every intermediate. */
-export interface SpreadSteps {
-  n: number;
-  sum: number;
-  mean: number | null;
-  sum_squared: number | null;
-  /** (Σ deviations)² / n, taken off sum_squared for the rounding of the mean (see `spread`). */
-  mean_correction: number | null;
-  variance: number | null;
-  sd: number | null;
-}
+export type { SpreadSteps };
 
 export interface PairedSteps extends DifferenceEnd, SpreadSteps {
   method: "paired";
@@ -68,17 +59,7 @@ export interface WelchSteps extends DifferenceEnd {
 
 function spreadSteps(values: number[]): SpreadSteps & { deviations: number[]; squared: number[] } {
   const s = spread(values);
-  return {
-    n: s.n,
-    sum: s.sum,
-    mean: s.mean,
-    sum_squared: s.sum_squared,
-    mean_correction: s.mean_correction,
-    variance: s.variance,
-    sd: s.sd,
-    deviations: s.deviations,
-    squared: s.squared,
-  };
+  return { ...stepsOf(s), deviations: s.deviations, squared: s.squared };
 }
 
 function endOf(iv: ReturnType<typeof pairedInterval>): DifferenceEnd {

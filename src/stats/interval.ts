@@ -1,21 +1,13 @@
 import { twoSidedP } from "./confidence.js";
-import { spread } from "./spread.js";
+import { spread, spreadSteps, type SpreadSteps } from "./spread.js";
 import { tQuantile } from "./tQuantile.js";
 
 /**
  * The arithmetic of one across-run interval, before it is labelled with scenario and measure
  * (`IntervalArithmetic` in src/outcome/studyOutcome.ts extends it with those labels).
  */
-export interface IntervalSteps {
+export interface IntervalSteps extends SpreadSteps {
   rows: { run: string; value: number; deviation: number; squared: number }[];
-  n: number;
-  sum: number;
-  mean: number | null;
-  sum_squared: number | null;
-  /** (Σ deviations)² / n, taken off sum_squared for the rounding of the mean (see `spread`). */
-  mean_correction: number | null;
-  variance: number | null;
-  sd: number | null;
   df: number | null;
   /** The probability of the t quantile, 1 − α/2. */
   p: number | null;
@@ -71,11 +63,7 @@ export function intervalArithmetic(values: { run: string; value: number }[], con
   const rows = values.map((v, i) => ({ run: v.run, value: v.value, deviation: s.deviations[i], squared: s.squared[i] }));
   const empty = {
     rows,
-    n: s.n,
-    sum: s.sum,
-    mean: s.mean,
-    sum_squared: s.sum_squared,
-    mean_correction: s.mean_correction,
+    ...spreadSteps(s),
     variance: null,
     sd: null,
     df: null,
@@ -94,13 +82,7 @@ export function intervalArithmetic(values: { run: string; value: number }[], con
   const halfWidth = t * standardError;
   return {
     rows,
-    n: s.n,
-    sum: s.sum,
-    mean: s.mean,
-    sum_squared: s.sum_squared,
-    mean_correction: s.mean_correction,
-    variance: s.variance,
-    sd: s.sd,
+    ...spreadSteps(s),
     df,
     p,
     t,

@@ -24,6 +24,14 @@ export interface Spread {
   sd: number | null;
 }
 
+/** The figures of a `Spread` without its per-value lists: what an audit lists after the rows. */
+export type SpreadSteps = Omit<Spread, "deviations" | "squared">;
+
+/** `s` without its per-value lists, keys in the same order. */
+export function spreadSteps(s: Spread): SpreadSteps {
+  return { n: s.n, sum: s.sum, mean: s.mean, sum_squared: s.sum_squared, mean_correction: s.mean_correction, variance: s.variance, sd: s.sd };
+}
+
 /**
  * Corrected two-pass sample mean and variance with exactly rounded sums, for summaries across runs.
  *

@@ -1,6 +1,7 @@
 import { bonferroniLevel, type DifferenceInterval, pairedInterval, welchInterval } from "../stats/compare.js";
 import type { Study } from "../manifest/types.js";
 import type { Comparison, Results, RunResult } from "../outcome/index.js";
+import { differenceReading } from "./readings.js";
 import { runBatchMeans } from "./summaries.js";
 import * as batchMessages from "../messages/batchMeans.js";
 
@@ -42,11 +43,13 @@ export function compareScenarios(study: Study, results: Results): Comparison[] {
     } else {
       iv = welchInterval([...a.values()], [...b.values()], each);
     }
-    let verdict: string;
-    if (iv.ci_low === null || iv.ci_high === null) verdict = `no interval: ${iv.note ?? "too few runs"}`;
-    else if (iv.ci_low > 0) verdict = `"${c.a}" is higher than "${c.b}" (the interval for the difference lies above zero)`;
-    else if (iv.ci_high < 0) verdict = `"${c.a}" is lower than "${c.b}" (the interval for the difference lies below zero)`;
-    else verdict = `no difference shown at this confidence (the interval for the difference contains zero)`;
+    // The verdict in results.json is the same reading the report words (study/readings.ts).
+    const verdict = ({
+      "no-interval": `no interval: ${iv.note ?? "too few runs"}`,
+      higher: `"${c.a}" is higher than "${c.b}" (the interval for the difference lies above zero)`,
+      lower: `"${c.a}" is lower than "${c.b}" (the interval for the difference lies below zero)`,
+      "no-difference": "no difference shown at this confidence (the interval for the difference contains zero)",
+    } as const)[differenceReading(iv.ci_low, iv.ci_high)];
     return {
       measure: c.measure,
       a: c.a,

@@ -18,6 +18,8 @@ import { fileURLToPath } from "node:url";
 import { gzipSync } from "node:zlib";
 import { ROW_LIMIT_MAX } from "../../src/ingest/feeder.js";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
+import { PARQUET_CODECS } from "../../src/ingest/parquetFile.js";
+import { type EventRow, eventsParquet, parquetFile } from "../helpers/parquet.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
@@ -151,6 +153,14 @@ function gzipFlipped(text: string): Buffer {
   for (let i = 12; i < z.length - 8; i++) z[i] ^= 0x5a; // damage the deflate data, keep the header
   return z;
 }
+const M_PARQUET = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.parquet}");
+const PQ_GOOD = eventsParquet([[0, "queue", 2], [3, "queue", 5]]);
+/** 400 rows in two row groups of 200, gzip pages, with 40 bytes of the second group's data overwritten. */
+const PQ_DAMAGED = (() => {
+  const bytes = Buffer.from(eventsParquet(Array.from({ length: 400 }, (_, i) => [i / 40, "queue", i % 5] as EventRow), { codec: "GZIP", rowGroupSize: 200 }));
+  const at = Math.floor(bytes.length * 0.6);
+  return bytes.fill(0xff, at, at + 40);
+})();
 /** A name of 300 bytes: more than the 255 most file systems take for one name. */
 const LONG_NAME = "r".repeat(300);
 
@@ -560,6 +570,157 @@ export const CASES: BadInputCase[] = [
     status: 1,
     startsWith: () => ingestMessages.corruptGzip("runs/day-1.csv.gz", "").message.split(" (")[0],
     place: "runs/day-1.csv.gz",
+  },
+  // --- Parquet --------------------------------------------------------------------------------
+  {
+    id: "parquet-not-parquet",
+    debug: true,
+    title: "A .parquet file that is not Parquet",
+    what: "A CSV export saved under the name `day-1.parquet`.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": GOOD_CSV },
+    show: ["runs/day-1.parquet"],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.notParquet("runs/day-1.parquet", GOOD_CSV.length),
+    place: "runs/day-1.parquet",
+  },
+  {
+    id: "parquet-truncated",
+    title: "A Parquet file cut short",
+    what: "A Parquet file whose last 30 bytes (part of its footer) were lost in a copy.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": PQ_GOOD.subarray(0, PQ_GOOD.length - 30) },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.truncatedParquet("runs/day-1.parquet", PQ_GOOD.length - 30, "it does not end with the 4 bytes `PAR1`"),
+    place: "runs/day-1.parquet",
+  },
+  {
+    id: "parquet-missing-column",
+    title: "A Parquet file without the time or series column",
+    what: "The series column is called `kind` in the file, and the manifest does not map it.",
+    files: {
+      [STUDY]: M_PARQUET,
+      "runs/day-1.parquet": parquetFile([
+        { name: "time", data: [0, 3], type: "DOUBLE" },
+        { name: "kind", data: ["queue", "queue"], type: "STRING" },
+        { name: "value", data: [2, 5], type: "DOUBLE" },
+      ]),
+    },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetMissingColumns("runs/day-1.parquet", [{ role: "series", name: "series" }], ["time", "kind", "value"]),
+    place: "runs/day-1.parquet",
+  },
+  {
+    id: "parquet-text-in-number-column",
+    title: "Texts in a Parquet time or value column",
+    what: "The time column was written as strings (`\"0\"`, `\"3\"`) instead of numbers.",
+    files: {
+      [STUDY]: M_PARQUET,
+      "runs/day-1.parquet": parquetFile([
+        { name: "time", data: ["0", "3"], type: "STRING" },
+        { name: "series", data: ["queue", "queue"], type: "STRING" },
+        { name: "value", data: [2, 5], type: "DOUBLE" },
+      ]),
+    },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetTextNotNumber("runs/day-1.parquet", 1, "time", "time", "0"),
+    place: "runs/day-1.parquet:1",
+  },
+  {
+    id: "parquet-unusable-type",
+    title: "A Parquet column of a type Sojourn cannot use",
+    what: "The value column holds booleans; the row and the column's Parquet type are named.",
+    files: {
+      [STUDY]: M_PARQUET,
+      "runs/day-1.parquet": parquetFile([
+        { name: "time", data: [0, 3], type: "DOUBLE" },
+        { name: "series", data: ["queue", "queue"], type: "STRING" },
+        { name: "value", data: [true, false], type: "BOOLEAN" },
+      ]),
+    },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetUnusableType("runs/day-1.parquet", 1, "value", "value", "BOOLEAN", "numbers (a double, float, integer or decimal column)"),
+    place: "runs/day-1.parquet:1",
+  },
+  {
+    id: "parquet-null-time",
+    title: "A null time in a Parquet file",
+    what: "Row 2 of the file has no time.",
+    files: {
+      [STUDY]: M_PARQUET,
+      "runs/day-1.parquet": parquetFile([
+        { name: "time", data: [0, null], type: "DOUBLE" },
+        { name: "series", data: ["queue", "queue"], type: "STRING" },
+        { name: "value", data: [2, 5], type: "DOUBLE" },
+      ]),
+    },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetNullTime("runs/day-1.parquet", 2, "time"),
+    place: "runs/day-1.parquet:2",
+  },
+  {
+    id: "parquet-not-finite",
+    title: "A NaN or infinite number in a Parquet file",
+    what: "A double column may hold NaN and infinities, which are no time and no value; a null cell is the empty value.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": eventsParquet([[0, "queue", 2], [3, "queue", NaN]]) },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetNotFinite("runs/day-1.parquet", 2, "value", "value", NaN),
+    place: "runs/day-1.parquet:2",
+  },
+  {
+    id: "parquet-empty-series",
+    title: "A null or empty series in a Parquet file",
+    what: "Row 2 belongs to no series.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": eventsParquet([[0, "queue", 2], [3, "", 5]]) },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetEmptySeries("runs/day-1.parquet", 2, "series"),
+    place: "runs/day-1.parquet:2",
+  },
+  {
+    id: "parquet-time-decreases",
+    title: "Time goes backwards in a Parquet file",
+    what: "Within one series the rows must be in time order, as in a CSV file; the rows are named by their position.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": eventsParquet([[0, "queue", 2], [5, "queue", 3], [4, "queue", 1]]) },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetTimeDecreased("runs/day-1.parquet", 3, "time", "queue", 5, 4, 2),
+    place: "runs/day-1.parquet:3",
+  },
+  {
+    id: "parquet-unsupported-compression",
+    title: "A Parquet file compressed with a codec Sojourn cannot read",
+    what: "The pages are compressed with LZO, for which there is no decompressor.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": eventsParquet([[0, "queue", 2]], { codec: "LZO" }) },
+    show: [],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.unsupportedParquetCodec("runs/day-1.parquet", "time", "LZO", PARQUET_CODECS),
+    place: "runs/day-1.parquet",
+  },
+  {
+    id: "parquet-damaged",
+    title: "Damaged data in a Parquet file",
+    what: "Bytes in the middle of the second row group were overwritten; the footer is intact, so the row group and its rows are named.",
+    files: { [STUDY]: M_PARQUET, "runs/day-1.parquet": PQ_DAMAGED },
+    show: [],
+    args: check,
+    status: 1,
+    startsWith: () => ingestMessages.damagedParquet("runs/day-1.parquet", 2, 201, 400, "").message.split(": ").slice(0, 2).join(": ") + ": ",
+    place: "runs/day-1.parquet:201",
   },
   // --- rows that break a measure's rules ------------------------------------------------------
   {

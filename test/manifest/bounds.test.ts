@@ -3,13 +3,12 @@
  * catalogue's message at the key path that asks for too much. Limits from the schema
  * (docs/manifest.schema.json) and from buildStudy (MAX_SLICES); positions found by string search.
  */
-import { readFileSync, writeFileSync } from "node:fs";
-import { join } from "node:path";
-import { afterEach, describe, expect, it } from "vitest";
+import { readFileSync } from "node:fs";
+import { describe, expect, it } from "vitest";
 import { MAX_SLICES } from "../../src/manifest/buildStudy.js";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { manifestMessages as m } from "../../src/messages/index.js";
-import { RUN_FILES, pos, removeFolder, studyFolder, userError } from "./helpers.js";
+import { manifestWriter, pos, userError } from "./helpers.js";
 
 interface SchemaNode {
   description?: string;
@@ -19,18 +18,7 @@ interface SchemaNode {
 const schema = JSON.parse(readFileSync(new URL("../../docs/manifest.schema.json", import.meta.url), "utf8")) as SchemaNode;
 const defs = schema.definitions!;
 
-const folders: string[] = [];
-afterEach(() => {
-  while (folders.length > 0) removeFolder(folders.pop() as string);
-});
-
-function write(text: string): string {
-  const dir = studyFolder(RUN_FILES);
-  folders.push(dir);
-  const file = join(dir, "study.yaml");
-  writeFileSync(file, text);
-  return file;
-}
+const write = manifestWriter();
 
 const failure = (text: string) => {
   const file = write(text);

@@ -2,7 +2,7 @@
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { dirname, join } from "node:path";
-import { expect } from "vitest";
+import { afterEach, expect } from "vitest";
 import { UserError } from "../../src/messages/index.js";
 
 /** A fresh folder holding `files` (relative path -> content). */
@@ -56,3 +56,22 @@ export const RUN_FILES: Record<string, string> = {
   "runs/twins/x/rep-01.csv": CSV,
   "runs/twins/y/rep-01.jsonl.gz": "",
 };
+
+/**
+ * A writer of study manifests for one test file: each call makes a fresh folder holding
+ * `RUN_FILES` and `study.yaml` with `text`, and returns the manifest's path; the folders go after
+ * each test.
+ */
+export function manifestWriter(): (text: string) => string {
+  const folders: string[] = [];
+  afterEach(() => {
+    while (folders.length > 0) removeFolder(folders.pop() as string);
+  });
+  return (text: string) => {
+    const dir = studyFolder(RUN_FILES);
+    folders.push(dir);
+    const file = join(dir, "study.yaml");
+    writeFileSync(file, text);
+    return file;
+  };
+}

@@ -3,30 +3,18 @@
  * catalogue message at the key path for every bad value (src/messages/manifest.ts). Positions are
  * found in the test's own manifest text by string search.
  */
-import { readFileSync, writeFileSync } from "node:fs";
-import { join } from "node:path";
-import { afterEach, describe, expect, test } from "vitest";
+import { readFileSync } from "node:fs";
+import { describe, expect, test } from "vitest";
 import { loadStudy } from "../../src/manifest/loadStudy.js";
 import { planDigest, scenarioPlans } from "../../src/study/runSummary.js";
 import { manifestMessages as m, type Place } from "../../src/messages/index.js";
-import { RUN_FILES, pos, removeFolder, studyFolder, userError } from "./helpers.js";
+import { manifestWriter, pos, userError } from "./helpers.js";
 
 const schema = JSON.parse(readFileSync(new URL("../../docs/manifest.schema.json", import.meta.url), "utf8")) as {
   definitions: Record<string, { description?: string }>;
 };
 
-const folders: string[] = [];
-afterEach(() => {
-  while (folders.length > 0) removeFolder(folders.pop() as string);
-});
-
-function write(text: string): string {
-  const dir = studyFolder(RUN_FILES);
-  folders.push(dir);
-  const file = join(dir, "study.yaml");
-  writeFileSync(file, text);
-  return file;
-}
+const write = manifestWriter();
 
 const at = (file: string, text: string, needle: string, path: string): Place => ({ file, ...pos(text, needle), path });
 

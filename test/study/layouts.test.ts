@@ -6,6 +6,7 @@
 import { describe, expect, it } from "vitest";
 import { departureOrder, entityCsv, entityMeasures, eventAndLevelCsv, LEVEL_MEASURES, shuffled, simulate, type ModelOptions } from "../helpers/layoutModel.js";
 import { studyOf } from "../helpers/runStudyFrom.js";
+import { parquetFile } from "../helpers/parquet.js";
 
 type Study = Awaited<ReturnType<typeof studyOf>>;
 
@@ -67,6 +68,31 @@ describe("layouts give the same numbers (property over seeded models; identity o
     const runA = a.outcome.results.scenarios[0].runs[0].measures;
     const runB = b.outcome.results.scenarios[0].runs[0].measures;
     expect(runB).toEqual(runA);
+  }, 60_000);
+});
+
+describe("an entity table as Parquet (contract section 9: Parquet files in any layout)", () => {
+  it("gives the figures and tables of the same table as CSV (the line column apart)", async () => {
+    const o: ModelOptions = { arrivalRate: 1, serviceRate: 0.6, servers: 2, horizon: 150, seed: 21, drain: false, decimals: null };
+    const cs = departureOrder(simulate(o));
+    const opt = (x: number | null) => x;
+    const pq = parquetFile(
+      [
+        { name: "id", data: cs.map((c) => String(c.id)), type: "STRING" },
+        { name: "arrived", data: cs.map((c) => c.arrived), type: "DOUBLE" },
+        { name: "started", data: cs.map((c) => opt(c.started)), type: "DOUBLE" },
+        { name: "left", data: cs.map((c) => opt(c.left)), type: "DOUBLE" },
+        { name: "server", data: cs.map((c) => opt(c.server)), type: "INT32" },
+        { name: "class", data: cs.map((c) => c.cls), type: "STRING" },
+      ],
+      { rowGroupSize: 40 },
+    );
+    const m = entityMeasures(2);
+    const fromCsv = await studyOf(manifest("entities", 150, ["csv/r.csv"], m, "columns: {entity: id}\n"), { "csv/r.csv": entityCsv(cs) });
+    const fromParquet = await studyOf(manifest("entities", 150, ["pq/r.parquet"], m, "columns: {entity: id}\n"), { "pq/r.parquet": pq });
+    const a = numbersOf(fromCsv, ENTITY_NAMES);
+    expect(a.tables.length).toBeGreaterThanOrEqual(ENTITY_NAMES.length);
+    expect(numbersOf(fromParquet, ENTITY_NAMES)).toEqual(a);
   }, 60_000);
 });
 

@@ -46,7 +46,7 @@ export function buildReportModel(
   const warmup = warmupSection(ctx);
   const measures = study.measureNames.map((name, mi) => measureSection(ctx, name, mi));
   const comparisons = comparisonsView(ctx);
-  const warnings = warningLines(outcome, ctx.warningIds);
+  const warnings = warningLines(outcome, ctx.warningIds, (m) => (study.measureNames.includes(m) ? ctx.labelOf(m) : m));
 
   const contents = [
     { href: "#summary", label: "Summary" },

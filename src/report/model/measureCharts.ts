@@ -50,7 +50,7 @@ export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: 
     spec: intervalChart(results.scenarios.map((sr, i) => {
       const r = readings[i];
       return { scenario: sr.name, mean: r?.mean ?? null, low: r?.ci_low ?? null, high: r?.ci_high ?? null, label: fmt(r?.mean ?? null) };
-    }), vTitle),
+    }), fromBatches.length === 0 ? vTitle : valueTitle(m, false)),
   });
   if (severalRuns) charts.push({
     id: chartId("runs"),

@@ -23,17 +23,21 @@ export function withUnit(title: string, unit: string | null): string {
   return unit === null ? title : `${title} (${unit})`;
 }
 
-/** The axis title of a measure's per-run values: its label, what the value is, and its unit. */
-export function valueTitle(m: Measure): string {
+/**
+ * The axis title of a measure's values: its label, what the value is, and its unit; "per run"
+ * unless `perRun` is false (an interval from the batch means of one long run is not per run).
+ */
+export function valueTitle(m: Measure, perRun = true): string {
+  const per = perRun ? " per run" : "";
   switch (m.kind) {
     case "level":
-      return withUnit(`time average of ${m.label} per run`, m.unit);
+      return withUnit(`time average of ${m.label}${per}`, m.unit);
     case "utilization":
-      return withUnit(`utilization of ${m.label} per run`, m.unit === "fraction" ? "share of capacity" : m.unit);
+      return withUnit(`utilization of ${m.label}${per}`, m.unit === "fraction" ? "share of capacity" : m.unit);
     case "observation":
-      return withUnit(`mean of ${m.label} per run`, m.unit);
+      return withUnit(`mean of ${m.label}${per}`, m.unit);
     case "count":
-      return withUnit(`${m.label}: count per run`, m.unit);
+      return withUnit(`${m.label}: count${per}`, m.unit);
   }
 }
 
