@@ -6,6 +6,11 @@
  *
  * A Parquet file (`.parquet`) is read by row group instead, by `readParquet` (`parquetReader.ts`).
  *
+ * Another layout (contract section 9), or a measure with `where`, reads records instead (`rowStage`):
+ *
+ *   CSV | JSON Lines: ChunkFeeder ─► CsvRecords | JsonLinesRecords ─┐
+ *   Parquet: readParquetRows ───────────────────────────────────────┴─► layout (layouts.ts) ─► RowRouter ─► onRow
+ *
  * A plain file is read into two alternating buffers, the next read running ahead while a chunk is
  * parsed; the feeder copies each chunk into its working buffer.
  *
