@@ -1,6 +1,6 @@
 /**
  * examples/ferry-check-in read from the same seeded runs in three layouts (ferry.yaml: events;
- * ferry-entities.yaml: one row per vehicle; ferry-levels.yaml: a wide table of levels) gives the
+ * layouts/ferry-entities.yaml: one row per vehicle; layouts/ferry-levels.yaml: a wide table of levels) gives the
  * same numbers. Tolerance 1e-12 relative: the entity table's waits are differences of times where
  * the event table carries the rounded difference, and its areas are sums over other intervals
  * (zero-length ones in between), so the last digits may differ (computed, not from a source).
@@ -34,20 +34,20 @@ describe("examples/ferry-check-in in three layouts", () => {
   it("ferry-entities.yaml and ferry-levels.yaml give the numbers of ferry.yaml to 1e-12", async () => {
     await writeExample("ferry-check-in", dir);
     for (const sc of FERRY.scenarios) {
-      for (const runs of ["runs-entities", "runs-levels"]) mkdirSync(join(dir, runs, sc.name), { recursive: true });
+      for (const runs of ["runs-entities", "runs-levels"]) mkdirSync(join(dir, "layouts", runs, sc.name), { recursive: true });
       for (let k = 1; k <= FERRY.replications; k++) {
         // the same model and seeds as examples/ferry-check-in/generate.mjs
         const rows = [...simulateQueue({ arrivalRate: FERRY.arrivalRate, serviceRate: FERRY.serviceRate, servers: sc.servers, horizon: FERRY.horizon, seed: 1000 + k, decimals: 3 })];
         const name = `rep-${String(k).padStart(2, "0")}.csv`;
-        writeFileSync(join(dir, "runs-entities", sc.name, name), queueAsEntities(rows));
-        writeFileSync(join(dir, "runs-levels", sc.name, name), queueAsLevels(rows));
+        writeFileSync(join(dir, "layouts", "runs-entities", sc.name, name), queueAsEntities(rows));
+        writeFileSync(join(dir, "layouts", "runs-levels", sc.name, name), queueAsLevels(rows));
       }
     }
-    for (const m of ["ferry-entities.yaml", "ferry-levels.yaml"]) copyFileSync(join(EXAMPLE, m), join(dir, m));
+    for (const m of ["ferry-entities.yaml", "ferry-levels.yaml"]) copyFileSync(join(EXAMPLE, "layouts", m), join(dir, "layouts", m));
     const results = async (m: string) => (await runStudy(await loadStudy(join(dir, m)))).outcome.results;
     const events = await results("ferry.yaml");
     let compared = 0;
-    for (const other of ["ferry-entities.yaml", "ferry-levels.yaml"]) {
+    for (const other of ["layouts/ferry-entities.yaml", "layouts/ferry-levels.yaml"]) {
       const r = await results(other);
       r.scenarios.forEach((sc, s) => {
         const base = events.scenarios[s];
