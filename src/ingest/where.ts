@@ -21,7 +21,7 @@ export function cellMatches(cell: Cell, value: number | string): boolean {
     if (typeof cell === "string") return parseDecimalText(cell) === value;
     return false;
   }
-  return (typeof cell === "string" ? cell : String(cell)) === value.trim();
+  return (typeof cell === "string" ? cell.trim() : String(cell)) === value.trim();
 }
 
 /** Whether the cell matches any of `values`. */

@@ -106,6 +106,8 @@ describe("where matching (docs/manifest.md, where)", () => {
   it("a number matches cells that read as the same number; a text matches the same text only", () => {
     expect([cellMatches("0", 0), cellMatches("0.0", 0), cellMatches("00", 0), cellMatches(0, 0), cellMatches("1", 0)]).toEqual([true, true, true, true, false]);
     expect([cellMatches("07", "07"), cellMatches("7", "07"), cellMatches(7, "7"), cellMatches("Gold", "gold"), cellMatches(null, "gold")]).toEqual([true, false, true, false, false]);
+    // Surrounding spaces are ignored on both sides (docs/manifest.md, "where"); inner ones are not.
+    expect([cellMatches(" gold ", "gold"), cellMatches("gold", " gold"), cellMatches("go ld", "gold")]).toEqual([true, true, false]);
   });
 });
 
