@@ -114,14 +114,18 @@ function isSpace(c: number): boolean {
   return c === 32 || c === 9 || c === 10 || c === 13;
 }
 
-export class JsonLinesParser implements ChunkParser {
+/**
+ * What every JSON Lines reader shares: the split into lines (a line longer than the row limit is
+ * an input error), blank lines skipped, each other line parsed as one JSON object whose keys are
+ * each written once, and an empty file refused. A subclass says what an object becomes (`object`).
+ */
+export abstract class JsonLinesReader implements ChunkParser {
   private line = 1;
-  private sawObject = false;
+  /** Whether an object was read before this one (false while the first is handed over). */
+  protected sawObject = false;
 
   constructor(
-    private readonly table: SeriesTable,
-    private readonly display: string,
-    private readonly columns: ColumnMap,
+    protected readonly display: string,
     /** The longest line, in bytes, its line break not counted (see `ChunkFeeder`). */
     private readonly limit: number = DEFAULT_ROW_LIMIT,
   ) {}
@@ -138,7 +142,10 @@ export class JsonLinesParser implements ChunkParser {
         throw ingestMessages.rowTooLong(this.display, this.line, this.limit, ROW_LIMIT_MAX);
       }
       const text = buf.toString("utf8", pos, lf);
-      if (!BLANK.test(text)) this.row(text, this.line);
+      if (!BLANK.test(text)) {
+        this.object(parseObject(this.display, text, this.line), this.line);
+        this.sawObject = true;
+      }
       this.line++;
       pos = lf < end ? lf + 1 : end;
     }
@@ -154,20 +161,39 @@ export class JsonLinesParser implements ChunkParser {
     return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
   }
 
-  private row(text: string, line: number): void {
+  /** One object of the file, read from its 1-based `line`. */
+  protected abstract object(row: Record<string, unknown>, line: number): void;
+}
+
+/** The JSON object on one line (an input error when the line is not valid JSON, not an object, or names a key twice). */
+function parseObject(file: string, text: string, line: number): Record<string, unknown> {
+  let parsed: unknown;
+  try {
+    parsed = JSON.parse(text);
+  } catch (e) {
+    throw ingestMessages.badJson(file, line, e instanceof Error ? e.message : String(e));
+  }
+  if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) {
+    throw ingestMessages.notAnObject(file, line, describe(parsed));
+  }
+  const row = parsed as Record<string, unknown>;
+  if (topLevelKeys(text) !== Object.keys(row).length) throw ingestMessages.duplicateKey(file, line, duplicateOf(text));
+  return row;
+}
+
+/** JSON Lines in the events layout: each object's time, series, value and entity keys, into the series table. */
+export class JsonLinesParser extends JsonLinesReader {
+  constructor(
+    private readonly table: SeriesTable,
+    display: string,
+    private readonly columns: ColumnMap,
+    limit: number = DEFAULT_ROW_LIMIT,
+  ) {
+    super(display, limit);
+  }
+
+  protected object(row: Record<string, unknown>, line: number): void {
     const file = this.display;
-    let parsed: unknown;
-    try {
-      parsed = JSON.parse(text);
-    } catch (e) {
-      throw ingestMessages.badJson(file, line, e instanceof Error ? e.message : String(e));
-    }
-    if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) {
-      throw ingestMessages.notAnObject(file, line, describe(parsed));
-    }
-    const row = parsed as Record<string, unknown>;
-    if (topLevelKeys(text) !== Object.keys(row).length) throw ingestMessages.duplicateKey(file, line, duplicateOf(text));
-    this.sawObject = true;
     const { time: timeKey, series: seriesKey, value: valueKey, entity: entityKey } = this.columns;
     const get = (key: string): unknown => (Object.hasOwn(row, key) ? row[key] : undefined);
 

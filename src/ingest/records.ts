@@ -17,7 +17,7 @@
 import * as ingestMessages from "../messages/ingest.js";
 import type { UserError } from "../messages/error.js";
 import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
-import { describe, duplicateOf, topLevelKeys } from "./jsonLinesParser.js";
+import { describe, JsonLinesReader } from "./jsonLinesParser.js";
 
 /** One cell as a reader gives it: null when empty or absent. */
 export type Cell = string | number | boolean | null;
@@ -189,56 +189,22 @@ export class CsvRecords implements ChunkParser {
   }
 }
 
-const BLANK = /^[ \t\r]*$/;
-
 /** JSON Lines as records of the wanted keys. */
-export class JsonLinesRecords implements ChunkParser {
-  private line = 1;
-  private sawObject = false;
+export class JsonLinesRecords extends JsonLinesReader {
   private readonly cells: Cell[];
 
   constructor(
     private readonly sink: RecordSink,
-    private readonly display: string,
-    private readonly limit: number = DEFAULT_ROW_LIMIT,
+    display: string,
+    limit: number = DEFAULT_ROW_LIMIT,
   ) {
+    super(display, limit);
     this.cells = new Array<Cell>(sink.wanted.length).fill(null);
   }
 
-  parse(buf: Buffer, pos: number, final: boolean): number {
-    const end = buf.length;
-    while (pos < end) {
-      let lf = buf.indexOf(LF, pos);
-      if (lf === -1) {
-        if (!final) return pos;
-        lf = end;
-      }
-      if (lf - pos > this.limit && lf - pos - (buf[lf - 1] === CR ? 1 : 0) > this.limit) {
-        throw ingestMessages.rowTooLong(this.display, this.line, this.limit, ROW_LIMIT_MAX);
-      }
-      const text = buf.toString("utf8", pos, lf);
-      if (!BLANK.test(text)) this.row(text, this.line);
-      this.line++;
-      pos = lf < end ? lf + 1 : end;
-    }
-    return pos;
-  }
-
-  private row(text: string, line: number): void {
+  protected object(row: Record<string, unknown>, line: number): void {
     const file = this.display;
-    let parsed: unknown;
-    try {
-      parsed = JSON.parse(text);
-    } catch (e) {
-      throw ingestMessages.badJson(file, line, e instanceof Error ? e.message : String(e));
-    }
-    if (parsed === null || typeof parsed !== "object" || Array.isArray(parsed)) throw ingestMessages.notAnObject(file, line, describe(parsed));
-    const row = parsed as Record<string, unknown>;
-    if (topLevelKeys(text) !== Object.keys(row).length) throw ingestMessages.duplicateKey(file, line, duplicateOf(text));
-    if (!this.sawObject) {
-      this.sawObject = true;
-      this.sink.header(null);
-    }
+    if (!this.sawObject) this.sink.header(null);
     const wanted = this.sink.wanted;
     for (let k = 0; k < wanted.length; k++) {
       const v = Object.hasOwn(row, wanted[k]) ? row[wanted[k]] : null;
@@ -249,12 +215,8 @@ export class JsonLinesRecords implements ChunkParser {
     this.sink.record(this.cells, line);
   }
 
-  finish(): void {
-    if (!this.sawObject) throw ingestMessages.emptyFile(this.display, "jsonl");
+  override finish(): void {
+    super.finish();
     this.sink.finish();
-  }
-
-  tooLong(_buf: Buffer, _start: number, limit: number): UserError {
-    return ingestMessages.rowTooLong(this.display, this.line, limit, ROW_LIMIT_MAX);
   }
 }
