@@ -83,14 +83,21 @@ export function emptyFile(file: string, format: "csv" | "jsonl"): UserError {
   return located({ file }, what, "write the run file again, or leave it out of the scenario's `runs:`");
 }
 
+/** The missing columns named for a message (with their role when renamed), and the manifest mapping that would name them. */
+function missingWords(missing: readonly { role: string; name: string }[]): { which: string[]; map: string } {
+  return {
+    which: missing.map((m) => (m.role === m.name ? `\`${m.name}\`` : `\`${m.name}\` (the ${m.role})`)),
+    map: `columns: {${missing.map((m) => `${m.role}: <column name>`).join(", ")}}`,
+  };
+}
+
 /** Required columns (time, series) missing from the CSV header, after column renaming. */
 export function missingColumns(
   file: string,
   missing: readonly { role: string; name: string }[],
   found: readonly string[],
 ): UserError {
-  const which = missing.map((m) => (m.role === m.name ? `\`${m.name}\`` : `\`${m.name}\` (the ${m.role})`));
-  const map = `columns: {${missing.map((m) => `${m.role}: <column name>`).join(", ")}}`;
+  const { which, map } = missingWords(missing);
   return located(
     { file, line: 1 },
     `the header has no column ${which.join(" and no column ")}; columns found: ${quoted(found)}`,
@@ -411,8 +418,7 @@ export function parquetMissingColumns(
   missing: readonly { role: string; name: string }[],
   found: readonly string[],
 ): UserError {
-  const which = missing.map((m) => (m.role === m.name ? `\`${m.name}\`` : `\`${m.name}\` (the ${m.role})`));
-  const map = `columns: {${missing.map((m) => `${m.role}: <column name>`).join(", ")}}`;
+  const { which, map } = missingWords(missing);
   return located(
     { file },
     `this Parquet file has no column ${which.join(" and no column ")}; its columns are ${quoted(found)}`,
