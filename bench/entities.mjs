@@ -2,21 +2,11 @@
 // departure order (id, arrived, started, left, server, class: three event and two attribute
 // columns), against the same events as an event table (time, series, value, entity). The same
 // five measures read both; the figures must agree. Invented data: a seeded two-server queue.
-/* global console, Buffer, process */
+/* global console, Buffer, process, URL */
 import { closeSync, createWriteStream, existsSync, openSync, readFileSync, readSync, renameSync, statSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-
-/** mulberry32 (seeded). */
-function random(seed) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+// The demo's seeded generator (mulberry32); `npm run bench` builds dist/ first.
+const { uniform: random } = await import(new URL("../dist/demo/random.js", import.meta.url).href);
 
 /** `n` customers of a two-server FCFS queue (0.9 arrivals and 0.5 services per minute per server), times to 4 decimals. */
 function customers(n, seed) {

@@ -14,6 +14,7 @@ import type { ColumnMap } from "../../src/manifest/types.js";
 import { ingestMessages } from "../../src/messages/index.js";
 import { departureOrder, entityCsv, shuffled, simulate } from "../helpers/layoutModel.js";
 import { type Call, COLUMNS, rejection, scratch } from "./helpers.js";
+import { mulberry32 } from "../stats/random.js";
 
 const folder = scratch();
 afterAll(() => folder.remove());
@@ -113,7 +114,7 @@ describe("where matching (docs/manifest.md, where)", () => {
 
 describe("the external sort (bounded memory)", () => {
   it("holds at most its limit of events, spills and merges more than FAN files, and gives the same order as sorting in memory", () => {
-    const rng = seededRandom(5);
+    const rng = mulberry32(5);
     const events = Array.from({ length: 20_000 }, (_, i) => ({ time: Math.floor(rng() * 500) / 10, line: i + 2, rank: Math.floor(rng() * 3) }));
     const order = (limit: number) => {
       const s = new EventSorter(limit);
@@ -151,15 +152,3 @@ describe("the external sort (bounded memory)", () => {
     expect(readdirSync(tmpdir()).filter((n) => n.startsWith("sojourn-sort-")).length).toBe(before);
   });
 });
-
-/** mulberry32, seeded (test data only). */
-function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
