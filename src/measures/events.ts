@@ -1,89 +1,166 @@
 /**
- * Events of several series merged into time order.
+ * Events of several series merged into time order as they arrive.
  *
  * The contract orders time only within each series, so a measure that reads two series (busy and
- * capacity, enter and leave) buffers their events in compact typed arrays and replays them by
- * (time, file order). Already-ordered input, the common case, is replayed without sorting.
+ * capacity, enter and leave) must merge them. Each input is one series, so its events come in
+ * time order (the reader checks it); an event can be passed on as soon as no input can still send
+ * one that sorts before it: every input without a waiting event has already sent one at the same
+ * time or later. Only the events that one series is ahead of the others wait:
+ *
+ *   add(input, event) ─► queue of its input ─► the smallest head, once no input can undercut it ─► emit
+ *   finish ─► every queue to the end, in order
+ *
+ * The order is by time; at one time either in arrival order (`ties: "arrival"`, a stable sort
+ * of all events by time) or by input, lower first, then arrival (`ties: "input"`, a stable sort
+ * of input 0's events followed by input 1's). With rows in time order across series (an entity
+ * table after its sort, an event table written in time order) nothing waits longer than until the
+ * other series' next row; with one series written after the other, the whole first one waits.
  */
-export class EventBuffer {
-  private times = new Float64Array(1024);
-  private values = new Float64Array(1024);
-  private kinds = new Uint8Array(1024);
-  private ids = new Int32Array(1024);
-  private lines = new Float64Array(1024);
-  private n = 0;
-  private ordered = true;
-  private lastTime = -Infinity;
+export type EventEmit = (time: number, kind: number, value: number, entity: string | undefined, line: number) => void;
 
-  add(time: number, kind: number, value: number, id: number, line: number): void {
-    if (this.n === this.times.length) this.grow();
-    const i = this.n++;
-    this.times[i] = time;
-    this.kinds[i] = kind;
-    this.values[i] = value;
-    this.ids[i] = id;
-    this.lines[i] = line;
-    if (time < this.lastTime) this.ordered = false;
-    else this.lastTime = time;
+export class EventMerge {
+  private readonly queues: EventQueue[];
+  /** The time of the latest event each input sent (-Infinity: none yet). */
+  private readonly last: Float64Array;
+  private seq = 0;
+  private waiting = 0;
+
+  constructor(
+    inputs: number,
+    private readonly ties: "arrival" | "input",
+    private readonly emit: EventEmit,
+  ) {
+    this.queues = Array.from({ length: inputs }, () => new EventQueue());
+    this.last = new Float64Array(inputs).fill(-Infinity);
   }
 
-  private grow(): void {
-    const size = this.times.length * 2;
-    const t = new Float64Array(size);
-    t.set(this.times);
-    this.times = t;
-    const v = new Float64Array(size);
-    v.set(this.values);
-    this.values = v;
-    const k = new Uint8Array(size);
-    k.set(this.kinds);
-    this.kinds = k;
-    const d = new Int32Array(size);
-    d.set(this.ids);
-    this.ids = d;
-    const l = new Float64Array(size);
-    l.set(this.lines);
-    this.lines = l;
-  }
+  /** The most events waiting at once, for tests of the bound. */
+  peak = 0;
 
-  get length(): number {
-    return this.n;
-  }
-
-  /** Calls `fn` for every event in (time, insertion) order. */
-  replay(fn: (time: number, kind: number, value: number, id: number, line: number) => void): void {
-    const { times, kinds, values, ids, lines } = this;
-    if (this.ordered) {
-      for (let i = 0; i < this.n; i++) fn(times[i], kinds[i], values[i], ids[i], lines[i]);
+  add(input: number, time: number, kind: number, value: number, entity: string | undefined, line: number): void {
+    this.last[input] = time;
+    const seq = this.seq++;
+    if (this.waiting === 0 && this.clear(input, time)) {
+      this.emit(time, kind, value, entity, line);
       return;
     }
-    const order = new Uint32Array(this.n);
-    for (let i = 0; i < this.n; i++) order[i] = i;
-    order.sort((a, b) => times[a] - times[b] || a - b);
-    for (let j = 0; j < this.n; j++) {
-      const i = order[j];
-      fn(times[i], kinds[i], values[i], ids[i], lines[i]);
+    this.queues[input].push(time, kind, value, entity, line, seq);
+    if (++this.waiting > this.peak) this.peak = this.waiting;
+    this.release(false);
+  }
+
+  /** Emits every event still waiting, in order. */
+  finish(): void {
+    this.release(true);
+  }
+
+  /**
+   * Whether no other input can still send an event that sorts before one of `input` at `time`
+   * (called for the head that sorts first, so inputs with a waiting event cannot): each input
+   * without a waiting event sent one later, or at the same time when its future events at that
+   * time sort after.
+   */
+  private clear(input: number, time: number): boolean {
+    const { queues, last } = this;
+    for (let j = 0; j < queues.length; j++) {
+      if (j === input || queues[j].size > 0) continue;
+      const t = last[j];
+      if (t > time) continue;
+      if (t === time && (this.ties === "arrival" || j > input)) continue;
+      return false;
     }
+    return true;
+  }
+
+  private release(all: boolean): void {
+    const queues = this.queues;
+    while (this.waiting > 0) {
+      // The head that sorts first.
+      let best = -1;
+      for (let j = 0; j < queues.length; j++) {
+        const q = queues[j];
+        if (q.size === 0) continue;
+        if (best < 0 || this.before(q, j, queues[best], best)) best = j;
+      }
+      const q = queues[best];
+      if (!all && !this.clear(best, q.headTime)) return;
+      const at = q.head;
+      const time = q.times[at];
+      const kind = q.kinds[at];
+      const value = q.values[at];
+      const entity = q.entities[at];
+      const line = q.lines[at];
+      q.shift();
+      this.waiting--;
+      this.emit(time, kind, value, entity, line);
+    }
+  }
+
+  private before(a: EventQueue, ia: number, b: EventQueue, ib: number): boolean {
+    const ta = a.headTime;
+    const tb = b.headTime;
+    if (ta !== tb) return ta < tb;
+    return this.ties === "arrival" ? a.seqs[a.head] < b.seqs[b.head] : ia < ib;
   }
 }
 
-/** Interns entity ids as small integers. */
-export class EntityIds {
-  private readonly ids = new Map<string, number>();
-  private readonly names: string[] = [];
-  id(name: string): number {
-    let i = this.ids.get(name);
-    if (i === undefined) {
-      i = this.names.length;
-      this.ids.set(name, i);
-      this.names.push(name);
+/** A first-in first-out queue of events in typed arrays (a ring, grown by doubling). */
+class EventQueue {
+  times = new Float64Array(64);
+  values = new Float64Array(64);
+  lines = new Float64Array(64);
+  seqs = new Float64Array(64);
+  kinds = new Uint8Array(64);
+  entities: (string | undefined)[] = new Array<string | undefined>(64).fill(undefined);
+  head = 0;
+  size = 0;
+
+  get headTime(): number {
+    return this.times[this.head];
+  }
+
+  push(time: number, kind: number, value: number, entity: string | undefined, line: number, seq: number): void {
+    if (this.size === this.times.length) this.grow();
+    const i = (this.head + this.size) & (this.times.length - 1);
+    this.times[i] = time;
+    this.kinds[i] = kind;
+    this.values[i] = value;
+    this.entities[i] = entity;
+    this.lines[i] = line;
+    this.seqs[i] = seq;
+    this.size++;
+  }
+
+  shift(): void {
+    this.entities[this.head] = undefined;
+    this.head = (this.head + 1) & (this.times.length - 1);
+    this.size--;
+  }
+
+  /** Doubles the ring, the waiting events moved to the front in order. */
+  private grow(): void {
+    const n = this.times.length;
+    const times = new Float64Array(2 * n);
+    const values = new Float64Array(2 * n);
+    const lines = new Float64Array(2 * n);
+    const seqs = new Float64Array(2 * n);
+    const kinds = new Uint8Array(2 * n);
+    const entities = new Array<string | undefined>(2 * n).fill(undefined);
+    for (let k = 0; k < this.size; k++) {
+      const i = (this.head + k) & (n - 1);
+      times[k] = this.times[i];
+      values[k] = this.values[i];
+      lines[k] = this.lines[i];
+      seqs[k] = this.seqs[i];
+      kinds[k] = this.kinds[i];
+      entities[k] = this.entities[i];
     }
-    return i;
-  }
-  name(id: number): string {
-    return this.names[id];
-  }
-  get size(): number {
-    return this.names.length;
+    this.times = times;
+    this.values = values;
+    this.lines = lines;
+    this.seqs = seqs;
+    this.kinds = kinds;
+    this.entities = entities;
+    this.head = 0;
   }
 }

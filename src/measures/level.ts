@@ -133,12 +133,42 @@ export class SeriesLevel implements MeasureAccumulator {
 export class EntityLevel implements MeasureAccumulator {
   readonly reads: SeriesRead[];
   private readonly visits: EntityVisits;
+  private readonly sinks: LevelSinks;
+  private readonly tracker: LevelTracker;
+  /** The area of the number inside alone (the level less `initial`), exact for whole numbers. */
+  private readonly insideArea = new Adder();
+  private readonly insideTracker: LevelTracker;
+  private inside = 0;
+  private entered = 0;
+  private left = 0;
 
   constructor(
     private readonly measure: LevelMeasure & { source: { type: "entities" } },
-    private readonly setup: MeasureSetup,
+    setup: MeasureSetup,
   ) {
-    this.visits = new EntityVisits(measure.name, measure.source.enter, measure.source.leave, setup.file);
+    const c = setup.window.collectFrom;
+    const end = setup.window.end as number;
+    this.sinks = new LevelSinks(setup, measure.atLeast, measure.initial);
+    this.tracker = new LevelTracker(measure.initial, c, end, this.sinks, this.sinks.trace);
+    this.insideTracker = new LevelTracker(0, c, end, { interval: (from, to, value) => this.insideArea.add(value * (to - from)) });
+    this.visits = new EntityVisits(
+      measure.name,
+      measure.source.enter,
+      measure.source.leave,
+      setup.file,
+      (time, line) => {
+        this.inside++;
+        if (time >= c) this.entered++;
+        this.tracker.change(time, measure.initial + this.inside, line);
+        this.insideTracker.change(time, this.inside, line);
+      },
+      (time, _entity, _began, line) => {
+        this.inside--;
+        if (time >= c) this.left++;
+        this.tracker.change(time, measure.initial + this.inside, line);
+        this.insideTracker.change(time, this.inside, line);
+      },
+    );
     this.reads = this.visits.reads;
   }
 
@@ -147,34 +177,10 @@ export class EntityLevel implements MeasureAccumulator {
   }
 
   finish(): MeasureOutput {
-    const { setup, measure } = this;
-    const c = setup.window.collectFrom;
-    const end = setup.window.end as number;
-    const sinks = new LevelSinks(setup, measure.atLeast, measure.initial);
-    const tracker = new LevelTracker(measure.initial, c, end, sinks, sinks.trace);
-    // The area of the number inside alone (the level less `initial`), exact for whole numbers.
-    const insideArea = new Adder();
-    const insideTracker = new LevelTracker(0, c, end, { interval: (from, to, value) => insideArea.add(value * (to - from)) });
-    let inside = 0;
-    let entered = 0;
-    let left = 0;
-    this.visits.replay(
-      (time, line) => {
-        inside++;
-        if (time >= c) entered++;
-        tracker.change(time, measure.initial + inside, line);
-        insideTracker.change(time, inside, line);
-      },
-      (time, _id, _began, line) => {
-        inside--;
-        if (time >= c) left++;
-        tracker.change(time, measure.initial + inside, line);
-        insideTracker.change(time, inside, line);
-      },
-    );
-    insideTracker.finish();
-    const out = sinks.output(tracker.finish(), { entered, left, inside_at_end: inside });
-    out.insideArea = insideArea.value();
+    this.visits.finish();
+    this.insideTracker.finish();
+    const out = this.sinks.output(this.tracker.finish(), { entered: this.entered, left: this.left, inside_at_end: this.inside });
+    out.insideArea = this.insideArea.value();
     return out;
   }
 }

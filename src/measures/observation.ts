@@ -108,12 +108,31 @@ export class SeriesObservation implements MeasureAccumulator {
 export class EntityObservation implements MeasureAccumulator {
   readonly reads: SeriesRead[];
   private readonly visits: EntityVisits;
+  private readonly obs: Observations;
+  private readonly running = new Adder();
+  private readonly table: TableBuilder;
+  /** Reused for every table row. */
+  private readonly cells: Cell[] = new Array<Cell>(ENTITY_OBSERVATION_COLUMNS.length);
+  private readonly resolution = { largestTime: 0, smallestDuration: Infinity };
 
   constructor(
     private readonly measure: ObservationMeasure & { source: { type: "entities" } },
     private readonly setup: MeasureSetup,
   ) {
-    this.visits = new EntityVisits(measure.name, measure.source.start, measure.source.end, setup.file);
+    const c = setup.window.collectFrom;
+    this.obs = new Observations(setup.observationTimes);
+    this.table = new TableBuilder(ENTITY_OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
+    this.visits = new EntityVisits(
+      measure.name,
+      measure.source.start,
+      measure.source.end,
+      setup.file,
+      () => {},
+      (time, entity, began, line, startLine) => {
+        if (time < c) return;
+        this.ended(time, entity, began, line, startLine);
+      },
+    );
     this.reads = this.visits.reads;
   }
 
@@ -121,39 +140,33 @@ export class EntityObservation implements MeasureAccumulator {
     this.visits.row(slot, time, entity, line);
   }
 
+  /** An entity's visit ended inside the window: one observation, one table row. */
+  private ended(time: number, entity: string, began: number, line: number, startLine: number): void {
+    const { obs, resolution } = this;
+    const value = time - began;
+    if (value > 0 && value < resolution.smallestDuration) resolution.smallestDuration = value;
+    const far = Math.max(Math.abs(time), Math.abs(began));
+    if (far > resolution.largestTime) resolution.largestTime = far;
+    obs.push(time, value);
+    this.running.add(value);
+    const sum = this.running.value();
+    const row = this.cells;
+    row[0] = obs.n;
+    row[1] = time;
+    row[2] = entity;
+    row[3] = began;
+    row[4] = value;
+    row[5] = sum;
+    row[6] = sum / obs.n;
+    row[7] = line;
+    row[8] = startLine;
+    this.table.add(row);
+  }
+
   finish(): MeasureOutput {
-    const { measure, setup } = this;
-    const c = setup.window.collectFrom;
-    const obs = new Observations(setup.observationTimes);
-    const running = new Adder();
-    const table = new TableBuilder(ENTITY_OBSERVATION_COLUMNS, setup.table.maxRows, setup.table.edgeRows);
-    const row: Cell[] = new Array(ENTITY_OBSERVATION_COLUMNS.length);
-    const resolution = { largestTime: 0, smallestDuration: Infinity };
-    const open = this.visits.replay(
-      () => {},
-      (time, id, began, line, startLine) => {
-        if (time < c) return;
-        const value = time - began;
-        if (value > 0 && value < resolution.smallestDuration) resolution.smallestDuration = value;
-        const far = Math.max(Math.abs(time), Math.abs(began));
-        if (far > resolution.largestTime) resolution.largestTime = far;
-        obs.push(time, value);
-        running.add(value);
-        const sum = running.value();
-        row[0] = obs.n;
-        row[1] = time;
-        row[2] = this.visits.name(id);
-        row[3] = began;
-        row[4] = value;
-        row[5] = sum;
-        row[6] = sum / obs.n;
-        row[7] = line;
-        row[8] = startLine;
-        table.add(row);
-      },
-    );
-    const out = observationOutput(measure, setup, obs, table, { censored: open });
-    out.resolution = resolution;
+    const open = this.visits.finish();
+    const out = observationOutput(this.measure, this.setup, this.obs, this.table, { censored: open });
+    out.resolution = this.resolution;
     return out;
   }
 }

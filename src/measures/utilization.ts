@@ -4,7 +4,7 @@ import { busyAboveCapacity, type OverCapacity } from "../messages/warnings.js";
 import type { UtilizationMeasure } from "../manifest/types.js";
 import type { UtilizationRunStats } from "../outcome/index.js";
 import type { MeasureAccumulator, MeasureOutput, SeriesRead } from "./accumulator.js";
-import { EventBuffer } from "./events.js";
+import { EventMerge } from "./events.js";
 import { EntityVisits } from "./visits.js";
 import { LevelStats } from "./levelStats.js";
 import { levelShareTables } from "./levelTables.js";
@@ -40,10 +40,17 @@ const LEFT = 3;
  * With `from: {enter, leave}` (contract section 9) the busy level is the number of entities that
  * have had the first event and not yet the second, paired per entity as for a level measure
  * (`EntityVisits`): each start adds 1, each end takes 1 away.
+ *
+ * The rows are followed as they come. With two series (busy and capacity, or entity events and
+ * capacity) an `EventMerge` puts their changes in time order; at one time a capacity row comes
+ * before the entity events' changes.
  */
 export class Utilization implements MeasureAccumulator {
   readonly reads: SeriesRead[];
-  private readonly events = new EventBuffer();
+  /** Merges the changes of two sources (busy or entity events, and a capacity series); null with one. */
+  private readonly events: EventMerge | null;
+  /** The merge input of the capacity series. */
+  private readonly capacityInput: number;
   /** The entity visits behind the busy level, with `from: {enter, leave}`; else null. */
   private readonly visits: EntityVisits | null;
   /** The reads slot of the capacity series (-1: a constant capacity). */
@@ -86,11 +93,31 @@ export class Utilization implements MeasureAccumulator {
       this.visits = null;
       this.reads = [{ series: source.series, entity: false }];
     } else {
-      this.visits = new EntityVisits(measure.name, source.enter, source.leave, setup.file);
+      // The busy level follows the entities: +1 at each start, -1 at each end, in time order.
+      let inside = measure.initial;
+      const busyInput = 1;
+      const changed = (time: number, kind: number, value: number, line: number) => {
+        if (this.events === null) this.change(time, kind, value, line);
+        else this.events.add(busyInput, time, kind, value, undefined, line);
+      };
+      this.visits = new EntityVisits(
+        measure.name,
+        source.enter,
+        source.leave,
+        setup.file,
+        (time, line) => changed(time, ENTERED, ++inside, line),
+        (time, _entity, _began, line) => changed(time, LEFT, --inside, line),
+      );
       this.reads = [...this.visits.reads];
     }
     this.capacitySlot = cap.type === "series" ? this.reads.length : -1;
     if (cap.type === "series") this.reads.push({ series: cap.series, entity: false, unfiltered: true });
+    const change = (time: number, kind: number, value: number, _entity: string | undefined, line: number) => this.change(time, kind, value, line);
+    // Busy rows and capacity rows: in file order at one time. Entity events and capacity rows:
+    // the capacity first at one time (input 0).
+    if (cap.type !== "series") this.events = null;
+    else this.events = this.visits === null ? new EventMerge(2, "arrival", change) : new EventMerge(2, "input", change);
+    this.capacityInput = this.visits === null ? 1 : 0;
     this.busy = measure.initial;
     this.capacity = cap.type === "constant" ? cap.value : cap.initial;
     this.c = setup.window.collectFrom;
@@ -120,8 +147,9 @@ export class Utilization implements MeasureAccumulator {
       return;
     }
     if (value !== value) throw msg.levelRowWithoutValue(this.setup.file, line, this.reads[slot].series, this.measure.name);
-    if (this.reads.length === 1) this.change(time, BUSY, value, line);
-    else this.events.add(time, slot === 0 ? BUSY : CAPACITY, value, 0, line);
+    if (this.events === null) this.change(time, BUSY, value, line);
+    else if (slot === this.capacitySlot) this.events.add(this.capacityInput, time, CAPACITY, value, undefined, line);
+    else this.events.add(0, time, BUSY, value, undefined, line);
   }
 
   /** The series of the row behind a change of `kind`. */
@@ -209,15 +237,8 @@ export class Utilization implements MeasureAccumulator {
   }
 
   finish(): MeasureOutput {
-    if (this.visits !== null) {
-      // The busy level follows the entities: +1 at each start, -1 at each end, in time order.
-      let inside = this.measure.initial;
-      this.visits.replay(
-        (time, line) => this.events.add(time, ENTERED, ++inside, 0, line),
-        (time, _id, _began, line) => this.events.add(time, LEFT, --inside, 0, line),
-      );
-    }
-    if (this.reads.length > 1) this.events.replay((time, kind, value, _id, line) => this.change(time, kind, value, line));
+    this.visits?.finish();
+    this.events?.finish();
     this.close(this.end);
     const T = this.end - this.c;
     const busyArea = this.busyArea.value();
