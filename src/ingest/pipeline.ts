@@ -21,6 +21,7 @@ import { fileURLToPath } from "node:url";
 import { Worker, isMainThread } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
 import type { ReadOptions, ReadReport } from "./readTypes.js";
+import { mark } from "../timing.js";
 
 /**
  * Files at least this large are parsed on a second thread; `SOJOURN_PARALLEL_BYTES` overrides it
@@ -76,6 +77,7 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
   const control = new SharedArrayBuffer(4);
   const inFlight = new Int32Array(control);
   const { path, display, columns, series, maxRowBytes } = opts;
+  mark(`reader thread for ${display}`);
   const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series, maxRowBytes }, control } });
   const hash = createHash("sha256");
   const giveBack = (spare: SpareBuffers, buffers: ArrayBufferLike[]) => worker.postMessage(spare, buffers as ArrayBuffer[]);
