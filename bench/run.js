@@ -1,7 +1,7 @@
 // The scale benchmark (docs/performance.md): `npm run bench` builds, then runs this.
 //
 //   1. one run of about 10 million rows, three measures, default settings: `sojourn report`
-//      against a one-pass awk program computing the same three numbers, side by side;
+//      against a one-pass mawk program computing the same three numbers, alternating tries;
 //   2. peak memory (RSS) of that report at two file lengths;
 //   3. the same run gzip-compressed;
 //   4. 16 runs of about 600 000 rows with 1 and 2 worker threads (results compared byte for byte);
@@ -185,30 +185,45 @@ if (want("long")) {
   const m5 = manifest("long5.yaml", [big5], H5);
   const mgz = manifest("long10gz.yaml", [`${big10}.gz`], H10);
 
-  const AWK = `BEGIN { FS = ","; pt = 0; pv = 0 }
-  NR == 1 { next }
-  $1 + 0 > END_T { next }
-  $2 == "queue" { area += pv * ($1 - pt); pt = $1 + 0; pv = $3 + 0; next }
-  $2 == "wait" { s += $3; n++; next }
-  $2 == "depart" { c++ }
-  END { area += pv * (END_T - pt); printf "%.17g %.17g %d\\n", area / END_T, s / n, c }`;
+  // The peer: one pass of mawk over the same file, converting only the fields it uses (a
+  // hand-written script would not convert the time of rows it skips), the level's intervals
+  // closed at the window end. The file's last time is below the end, so no row is outside.
+  const AWK = `BEGIN { FS = ","; end = ${H10} }
+NR > 1 {
+  if ($2 == "queue") { area += lv * ($1 - lt); lt = $1; lv = $3 }
+  else if ($2 == "wait") { ws += $3; wn++ }
+  else if ($2 == "depart") { dn++ }
+}
+END { area += lv * (end - lt); printf "%.10f %.10f %d\\n", area / end, ws / wn, dn }`;
   writeFileSync(join(dir, "three.awk"), AWK + "\n");
+  const awkProgram = existsSync("/usr/bin/mawk") ? "mawk" : "awk";
 
-  /** sojourn report against the awk program on one file, side by side; returns sojourn's timing. */
+  /**
+   * sojourn report against the awk program on one file, side by side: the two alternate, REPEAT
+   * tries each, so a slow moment of the machine falls on both. Returns sojourn's fastest timing.
+   */
   function sideBySide(title, file, manifestPath, outDir) {
     const rows = Number(execFileSync("wc", ["-l", file], { encoding: "utf8" }).split(" ")[0]) - 1;
-    const awk = timed("awk", ["-v", `END_T=${H10}`, "-f", join(dir, "three.awk"), file]);
-    const sj = timed(process.execPath, report(manifestPath, join(dir, outDir)));
+    let awk = null;
+    let sj = null;
+    const ratios = [];
+    for (let i = 0; i < REPEAT; i++) {
+      const a = timed(awkProgram, ["-f", join(dir, "three.awk"), file], 1);
+      const s = timed(process.execPath, report(manifestPath, join(dir, outDir)), 1);
+      ratios.push(s.seconds / a.seconds);
+      if (awk === null || a.seconds < awk.seconds) awk = a;
+      if (sj === null || s.seconds < sj.seconds) sj = s;
+    }
     const r = JSON.parse(readFileSync(join(dir, outDir, "results.json"), "utf8")).scenarios[0].runs[0].measures;
     out(`## ${title}: ${rows.toLocaleString("en")} rows, ${f2(mb(file))} MB of CSV, 3 measures`);
     out();
     out("| program | wall time (s) | CPU time (s) | level time average | observation mean | count |");
     out("|---|---|---|---|---|---|");
     const [aL, aO, aC] = awk.stdout.trim().split(" ");
-    out(`| awk (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
+    out(`| ${awkProgram} (one pass, same three numbers) | ${f2(awk.seconds)} | ${f2(awk.cpu)} | ${aL} | ${aO} | ${aC} |`);
     out(`| sojourn report (results, tables, HTML) | ${f2(sj.seconds)} | ${f2(sj.cpu)} | ${r.queue_len.value} | ${r.wait.value} | ${r.departures.value} |`);
     out();
-    out(`Ratio sojourn / awk: ${f2(sj.seconds / awk.seconds)} (target at most 1, stretch 0.5).`);
+    out(`Ratio sojourn / ${awkProgram}, fastest against fastest: wall ${f2(sj.seconds / awk.seconds)} (target at most 0.5), CPU ${f2(sj.cpu / awk.cpu)}; per alternating try ${f2(Math.min(...ratios))}-${f2(Math.max(...ratios))}.`);
     out();
     return { sj, rows };
   }

@@ -7,6 +7,8 @@ import { performance } from "node:perf_hooks";
 import { isMainThread, threadId } from "node:worker_threads";
 
 const on = process.env.SOJOURN_TIMING === "1";
+/** Whether `mark` writes: a caller may skip measuring what only a mark would show. */
+export const timing = on;
 /** Worker threads count from their own start; this offset puts their marks on the process clock. */
 const offset = isMainThread ? 0 : performance.timeOrigin - (Number(process.env.SOJOURN_TIMING_ORIGIN) || performance.timeOrigin);
 

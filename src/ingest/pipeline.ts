@@ -21,6 +21,8 @@ import { fileURLToPath } from "node:url";
 import { Worker, isMainThread } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
 import type { ReadOptions, ReadReport } from "./readTypes.js";
+import { performance } from "node:perf_hooks";
+import { mark, timing } from "../timing.js";
 
 /**
  * Files at least this large are parsed on a second thread; `SOJOURN_PARALLEL_BYTES` overrides it
@@ -76,6 +78,8 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
   const control = new SharedArrayBuffer(4);
   const inFlight = new Int32Array(control);
   const { path, display, columns, series, maxRowBytes } = opts;
+  mark(`reader thread for ${display}`);
+  const busyBefore = timing ? performance.eventLoopUtilization() : null;
   const worker = new Worker(WORKER_FILE, { workerData: { opts: { path, display, columns, series, maxRowBytes }, control } });
   const hash = createHash("sha256");
   const giveBack = (spare: SpareBuffers, buffers: ArrayBufferLike[]) => worker.postMessage(spare, buffers as ArrayBuffer[]);
@@ -109,7 +113,10 @@ export function readRunPipelined(opts: ReadOptions): Promise<ReadReport> {
         Atomics.notify(inFlight, 0);
         giveBack({ bytes: new Uint8Array(m.data.buffer) }, [m.data.buffer]);
       } else if (m.type === "done") {
-        finish(null, { ...m.report, sha256: hash.digest("hex") });
+        const report = { ...m.report, sha256: hash.digest("hex") };
+        // How busy this thread was while the reader parsed: near 100 % says the measures wait on nothing.
+        if (busyBefore !== null) mark(`rows of ${display} taken, this thread busy ${(100 * performance.eventLoopUtilization(busyBefore).utilization).toFixed(0)} %`);
+        finish(null, report);
       } else {
         const e = m.user ? new UserError(m.message, m.exitCode) : new Error(m.message);
         if (!m.user && m.stack !== undefined) e.stack = m.stack;

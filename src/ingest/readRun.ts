@@ -25,12 +25,8 @@ import { UserError } from "../messages/error.js";
 import * as ingestMessages from "../messages/ingest.js";
 import { CsvParser } from "./csvParser.js";
 import { type ChunkParser, ChunkFeeder, DEFAULT_ROW_LIMIT } from "./feeder.js";
-import { layoutSink } from "./layouts.js";
-import { CsvRecords, JsonLinesRecords } from "./records.js";
-import { RowRouter } from "./rowRouter.js";
 import { JsonLinesParser } from "./jsonLinesParser.js";
 import { openRunFile } from "./openFile.js";
-import { readParquet, readParquetRows } from "./parquetReader.js";
 import { RUN_EXTENSIONS, type RunFormat, runFormat } from "./runFile.js";
 import { SeriesTable } from "./seriesTable.js";
 import { mark } from "../timing.js";
@@ -43,6 +39,11 @@ export { refuseIfNotAFile } from "./openFile.js";
 export type { ReadOptions, ReadReport, SeriesRequest } from "./readTypes.js";
 
 const DEFAULT_CHUNK = 1 << 20;
+
+// The Parquet reader (hyparquet, about 60 modules) and the record path of other layouts load only
+// when a file needs them: the reader thread of a large CSV file starts that much sooner.
+const parquetReader = () => import("./parquetReader.js");
+const recordPath = () => Promise.all([import("./layouts.js"), import("./records.js"), import("./rowRouter.js")]);
 
 /** An error of the file system while reading, kept apart from the parser's own errors. */
 class SourceError extends Error {
@@ -90,13 +91,14 @@ interface RowStage {
  * Where a reader plugs in: a reader of another format gives records to `layoutSink(...)` (a
  * `RecordSink`, see `records.ts`) as `CsvRecords` and `JsonLinesRecords` do here.
  */
-function rowStage(opts: ReadOptions, format: "csv" | "jsonl", limit: number): RowStage {
+async function rowStage(opts: ReadOptions, format: "csv" | "jsonl", limit: number): Promise<RowStage> {
   const { display } = opts;
   if (!readsRecords(opts)) {
     const table = new SeriesTable(opts.series, opts.onRow, display);
     const parser = format === "csv" ? new CsvParser(table, display, opts.columns, limit) : new JsonLinesParser(table, display, opts.columns, limit);
     return { parser, rows: () => table.rows, counts: () => table.counts(), close: () => {} };
   }
+  const [{ layoutSink }, { CsvRecords, JsonLinesRecords }, { RowRouter }] = await recordPath();
   const router = new RowRouter(opts.series, opts.onRow, display);
   const sink = layoutSink(opts.layout ?? { layout: "events", pairs: [] }, router, opts.columns, display);
   const parser = format === "csv" ? new CsvRecords(sink, display, limit) : new JsonLinesRecords(sink, display, limit);
@@ -109,6 +111,7 @@ function rowStage(opts: ReadOptions, format: "csv" | "jsonl", limit: number): Ro
  */
 async function readParquetLayout(opts: ReadOptions): Promise<ReadReport> {
   const { display } = opts;
+  const [[{ layoutSink }, , { RowRouter }], { readParquetRows }] = await Promise.all([recordPath(), parquetReader()]);
   const router = new RowRouter(opts.series, opts.onRow, display);
   const sink = layoutSink(opts.layout ?? { layout: "events", pairs: [] }, router, opts.columns, display);
   const wanted = sink.wanted;
@@ -145,11 +148,11 @@ export async function readRunHere(opts: ReadOptions): Promise<ReadReport> {
   mark(`reading ${display}`);
   const format = runFormat(opts.path);
   if (format === null) throw ingestMessages.unsupportedExtension(display, RUN_EXTENSIONS);
-  if (format.format === "parquet") return readsRecords(opts) ? readParquetLayout(opts) : readParquet(opts);
+  if (format.format === "parquet") return readsRecords(opts) ? readParquetLayout(opts) : (await parquetReader()).readParquet(opts);
   const chunkSize = Math.max(1, Math.floor(opts.chunkSize ?? DEFAULT_CHUNK));
 
   const limit = opts.maxRowBytes ?? DEFAULT_ROW_LIMIT;
-  const stage = rowStage(opts, format.format, limit);
+  const stage = await rowStage(opts, format.format, limit);
   try {
     return await readThrough(opts, format, chunkSize, limit, stage);
   } finally {

@@ -1,9 +1,11 @@
 /** Worker thread of `pipeline.ts`: reads and checks one run file and sends its rows in batches. */
 import { parentPort, workerData } from "node:worker_threads";
 import { UserError } from "../messages/error.js";
+import { mark } from "../timing.js";
 import { BATCH_ROWS, MAX_IN_FLIGHT, type RowBatch, type SpareBuffers, type WorkerMessage } from "./pipeline.js";
 import { type ReadOptions, readRunHere } from "./readRun.js";
 
+mark("reader thread running");
 const port = parentPort!;
 const { opts, control } = workerData as { opts: Omit<ReadOptions, "onRow">; control: SharedArrayBuffer };
 const inFlight = new Int32Array(control);

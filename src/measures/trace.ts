@@ -30,6 +30,10 @@ export class TraceBuilder {
   private min = Infinity;
   private max = -Infinity;
   private readonly span: number;
+  /** The slice the last piece ended in, and its edges: most pieces lie within one slice. */
+  private sliceAt = 0;
+  private sliceFrom = Infinity;
+  private sliceTo = -Infinity;
 
   constructor(
     private readonly start: number,
@@ -95,6 +99,11 @@ export class TraceBuilder {
     if (v < this.min) this.min = v;
     if (v > this.max) this.max = v;
     if (this.slices === 0) return;
+    if (from >= this.sliceFrom && to <= this.sliceTo) {
+      // Within the slice of the last piece: the loop below would find that slice and stop after it.
+      this.slicePart(this.sliceAt, from, to, v, this.sliceFrom, this.sliceTo);
+      return;
+    }
     let j = Math.min(this.slices - 1, Math.max(0, Math.floor(((from - this.start) / this.span) * this.slices)));
     while (j > 0 && this.edge(j) > from) j--;
     while (j + 1 < this.slices && this.edge(j + 1) <= from) j++;
@@ -102,14 +111,22 @@ export class TraceBuilder {
       const a = this.edge(j);
       if (a >= to) break;
       const b = this.edge(j + 1);
-      const p = from > a ? from : a;
-      const q = to < b ? to : b;
-      if (!(q > p)) continue;
-      if (v < this.low[j]) this.low[j] = v;
-      if (v > this.high[j]) this.high[j] = v;
-      this.area[j].add(v * (q - p));
-      const pc = p > this.c ? p : this.c;
-      if (q > pc) this.after[j].add(v * (q - pc));
+      this.slicePart(j, from, to, v, a, b);
+      this.sliceAt = j;
+      this.sliceFrom = a;
+      this.sliceTo = b;
     }
+  }
+
+  /** The part of the level `v` on [from, to] that lies in slice `j`, [a, b]. */
+  private slicePart(j: number, from: number, to: number, v: number, a: number, b: number): void {
+    const p = from > a ? from : a;
+    const q = to < b ? to : b;
+    if (!(q > p)) return;
+    if (v < this.low[j]) this.low[j] = v;
+    if (v > this.high[j]) this.high[j] = v;
+    this.area[j].add(v * (q - p));
+    const pc = p > this.c ? p : this.c;
+    if (q > pc) this.after[j].add(v * (q - pc));
   }
 }
