@@ -14,6 +14,8 @@ export const IMPORT_DIRECTIONS = {
   report: ["record", "story", "cli", "ingest"],
   // The story of a command (src/story/) uses the folders above; only the command line uses it.
   record: ["story", "cli"],
+  // Running a study on a cluster (src/cluster/) uses the story of a report; only the command line uses it.
+  cluster: ["cli"],
 };
 
 const directions = Object.entries(IMPORT_DIRECTIONS).map(([folder, banned]) => ({

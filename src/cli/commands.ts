@@ -1,6 +1,7 @@
 import { join, resolve } from "node:path";
 import { loadStudy } from "../manifest/loadStudy.js";
 import type { Study } from "../manifest/types.js";
+import * as clusterMessages from "../messages/cluster.js";
 import { UserError } from "../messages/index.js";
 import { terminalJson, terminalText } from "../messages/terminal.js";
 import { mark } from "../timing.js";
@@ -29,9 +30,10 @@ async function noteWorkers(study: Study, workers: number | undefined): Promise<v
 
 export async function report(
   manifest: string,
-  o: { out: string; pdf?: boolean; edition: "audit" | "client"; paper: "A4" | "Letter"; chrome?: string; force?: boolean; quiet?: boolean; workers?: number; fromSummaries?: string },
+  o: ReportFlags,
 ): Promise<void> {
   const started = Date.now();
+  if (o.on === "slurm") return reportOnSlurm(manifest, o, started);
   const { makeReport } = await story();
   mark("report modules loaded");
   const r = await makeReport(manifest, {
@@ -47,6 +49,100 @@ export async function report(
     fromSummaries: o.fromSummaries,
   });
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
+}
+
+interface ReportFlags {
+  out: string;
+  pdf?: boolean;
+  edition: "audit" | "client";
+  paper: "A4" | "Letter";
+  chrome?: string;
+  force?: boolean;
+  quiet?: boolean;
+  workers?: number;
+  fromSummaries?: string;
+  on?: "local" | "slurm";
+  work?: string;
+  wait?: boolean;
+  partition?: string;
+  account?: string;
+  memPerTask?: string;
+  timePerTask?: string;
+  maxRunning?: number;
+  sbatchArg?: string[];
+}
+
+async function reportOnSlurm(manifest: string, o: ReportFlags, started: number): Promise<void> {
+  if (o.fromSummaries !== undefined) throw new UserError("--on slurm makes the run summaries itself: it cannot take --from-summaries.\n  What to do: leave out one of the two.", 2);
+  if (o.memPerTask !== undefined && !/^\d+[KMGT]?$/i.test(o.memPerTask)) throw clusterMessages.badSize("--mem-per-task", o.memPerTask, "2G, 900M or 4096 (MB)");
+  if (o.timePerTask !== undefined && !/^(\d+-)?\d+(:\d+){0,2}$/.test(o.timePerTask)) throw clusterMessages.badSize("--time-per-task", o.timePerTask, "30 (minutes), 1:30:00 or 2-00:00:00");
+  const { clusterReport } = await import("../cluster/clusterReport.js");
+  const wait = o.wait ?? true;
+  const r = await clusterReport(manifest, {
+    out: o.out,
+    work: o.work,
+    force: o.force ?? false,
+    pdf: o.pdf ?? false,
+    edition: o.edition,
+    paper: o.paper,
+    chrome: o.chrome,
+    wait,
+    slurm: { partition: o.partition, account: o.account, memPerTask: o.memPerTask, timePerTask: o.timePerTask, maxRunning: o.maxRunning, sbatchArgs: o.sbatchArg ?? [] },
+    onProgress: progressTo(o.quiet),
+    pollSeconds: pollSeconds(),
+  });
+  const jobs = r.jobs.runs !== null ? `job array ${r.jobs.runs} (${r.ran} runs) and report job ${r.jobs.report}` : `report job ${r.jobs.report}`;
+  if (!r.finished) {
+    say(`Submitted to Slurm: ${jobs}; ${r.reused} run summaries reused. Work folder: ${r.work}`);
+    say("To wait for the jobs and see the outcome (the same command follows them, never submits twice):");
+    const flags = [`--out ${shellArg(o.out)}`, "--on slurm", `--work ${shellArg(r.work)}`, ...slurmFlags(o)];
+    say(`  sojourn report ${shellArg(manifest)} ${flags.join(" ")}`);
+    return;
+  }
+  say(`Report written to ${r.dir} on Slurm (${jobs}; ${r.reused} run summaries reused) in ${((Date.now() - started) / 1000).toFixed(1)} s`);
+  say(`  ${join(r.dir, "report.html")}   open in a browser`);
+  if (o.pdf) say(`  ${join(r.dir, "report.pdf")}    if Chromium was found on the node (see ${join(r.work, "logs", "report.log")})`);
+  say(`  ${join(r.dir, "results.json")}  every number at full precision`);
+}
+
+/** The flags that make the same submission again (so that following it matches its settings). */
+function slurmFlags(o: ReportFlags): string[] {
+  const out: string[] = [];
+  if (o.pdf) out.push("--pdf");
+  if (o.edition !== "audit") out.push(`--edition ${o.edition}`);
+  if (o.paper !== "A4") out.push(`--paper ${o.paper}`);
+  if (o.chrome !== undefined) out.push(`--chrome ${shellArg(o.chrome)}`);
+  if (o.force) out.push("--force");
+  if (o.partition !== undefined) out.push(`--partition ${shellArg(o.partition)}`);
+  if (o.account !== undefined) out.push(`--account ${shellArg(o.account)}`);
+  if (o.memPerTask !== undefined) out.push(`--mem-per-task ${shellArg(o.memPerTask)}`);
+  if (o.timePerTask !== undefined) out.push(`--time-per-task ${shellArg(o.timePerTask)}`);
+  if (o.maxRunning !== undefined) out.push(`--max-running ${o.maxRunning}`);
+  for (const a of o.sbatchArg ?? []) out.push(`--sbatch-arg=${shellArg(a)}`);
+  return out;
+}
+
+/** A word for the user's shell: as it is when it is plain, else single-quoted. */
+function shellArg(s: string): string {
+  return /^[\w@%+=:,./-]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`;
+}
+
+/** Seconds between two looks at the jobs: $SOJOURN_SLURM_POLL (tests), else 2. */
+function pollSeconds(): number {
+  const v = Number(process.env.SOJOURN_SLURM_POLL);
+  return Number.isFinite(v) && v > 0 ? v : 2;
+}
+
+export async function clusterTask(work: string, index: string): Promise<void> {
+  const { clusterTask: task } = await import("../cluster/clusterReport.js");
+  if (!/^\d+$/.test(index)) throw new UserError(`cluster-task: the task index ${JSON.stringify(index)} is not a whole number.\n  What to do: this command is run by the job array of \`report --on slurm\`.`, 2);
+  say(await task(work, Number(index)));
+}
+
+export async function clusterReport(work: string): Promise<void> {
+  const { clusterFinish } = await import("../cluster/clusterReport.js");
+  const dir = await clusterFinish(work, progressTo(false));
+  say(`Report written to ${dir}`);
 }
 
 function summarize(dir: string, warnings: number, ms: number, pdfPages: number | null): void {

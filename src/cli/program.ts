@@ -52,7 +52,27 @@ export function program(): Command {
     .option("--quiet", "print no progress")
     .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; never more than the cores or the runs; 1: no worker)", count)
     .option("--from-summaries <folder>", "take each run from <folder>/<scenario>/<run>.json (written by summarize-run) instead of its run file")
+    .addOption(new Option("--on <where>", "where the runs are analysed: here, or as a Slurm job array with the report as a job after it (docs/distributed.md)").choices(["local", "slurm"]).default("local"))
+    .option("--work <dir>", "--on slurm: the work folder for summaries, job scripts, logs and status files, on storage every node sees (default: <out>.work)")
+    .option("--no-wait", "--on slurm: submit the jobs, print their ids and the command that follows them, and return")
+    .option("--partition <name>", "--on slurm: the partition of both jobs")
+    .option("--account <name>", "--on slurm: the account both jobs are charged to")
+    .option("--mem-per-task <size>", "--on slurm: memory of each run's task, as sbatch --mem takes it (e.g. 2G); default from the largest run file")
+    .option("--time-per-task <time>", "--on slurm: time limit of each run's task, as sbatch --time takes it (e.g. 30 or 1:30:00); default from the largest run file")
+    .option("--max-running <n>", "--on slurm: at most n run tasks at once", count)
+    .option("--sbatch-arg <arg>", "--on slurm: one more sbatch argument for both jobs, as it is (repeat for several, e.g. --sbatch-arg=--qos=short)", (v: string, all: string[]) => [...all, v], [] as string[])
     .action(commands.report);
+
+  p.command("cluster-task", { hidden: true })
+    .description("one task of a `report --on slurm` job array: summarise run <index> of the work folder's study")
+    .argument("<work>", "the work folder")
+    .argument("<index>", "the task's index (SLURM_ARRAY_TASK_ID)")
+    .action(commands.clusterTask);
+
+  p.command("cluster-report", { hidden: true })
+    .description("the report job of `report --on slurm`: build the report folder from the work folder's summaries")
+    .argument("<work>", "the work folder")
+    .action(commands.clusterReport);
 
   p.command("check")
     .description("validate the manifest and read every run file without writing anything; print the plan")

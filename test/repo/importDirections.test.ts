@@ -27,6 +27,7 @@ describe("eslint.config.js import directions", () => {
       study: ["report", "record", "story", "cli"],
       report: ["record", "story", "cli", "ingest"],
       record: ["story", "cli"],
+      cluster: ["cli"],
     });
   });
 

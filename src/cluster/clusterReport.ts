@@ -1,0 +1,368 @@
+/**
+ * `sojourn report MANIFEST --out DIR --on slurm`: the same report as `--on local`, with the
+ * per-run work done by a Slurm job array (docs/distributed.md):
+ *
+ *   submit (here) ── WORK/study.json: the manifest's digest, DIR, the report's date, one task per run
+ *       │            reuse: a summary already in WORK/summaries whose digest, plan and run file match
+ *       │
+ *   array job ────── task i: `sojourn cluster-task WORK i` = summarize-run of run i into
+ *       │            WORK/summaries/<scenario>/<run>.json (temporary name, then renamed);
+ *       │            its exit status to WORK/status/run-i.rc, its log to WORK/logs/run-i.log
+ *   report job ───── --dependency=afterok:<array>: `sojourn cluster-report WORK` = makeReport with
+ *       │            --from-summaries WORK/summaries and the recorded date, so DIR is the local
+ *       │            report byte for byte; exit status to WORK/status/report.rc
+ *   wait (here) ──── squeue while the jobs are known, the status files always: progress, then the
+ *                    outcome, or the first failed run with its log (nothing replaced DIR)
+ *
+ * Everything under WORK is Sojourn's own: study.json marks the folder, and only the status files
+ * of the tasks being submitted are removed before a submission.
+ */
+import { existsSync, mkdirSync, readdirSync, readFileSync, realpathSync, rmSync, statSync, writeFileSync, renameSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { sha256 } from "../digest.js";
+import { loadStudy } from "../manifest/loadStudy.js";
+import type { Study } from "../manifest/types.js";
+import * as msg from "../messages/cluster.js";
+import { UserError } from "../messages/index.js";
+import { writeOwnFiles } from "../record/outputFile.js";
+import { studyInputs } from "../record/ownership.js";
+import { reportDate } from "../record/publish.js";
+import { fileDigest } from "../regularFile.js";
+import { makeReport, type ReportOptions } from "../story/makeReport.js";
+import { decodeSummary, scenarioPlans, summarizeRun, summaryPath } from "../study/runSummary.js";
+import { resolveWarmup } from "../study/warmup.js";
+import { arrayList, arrayRequest, reportRequest, type TaskRequest } from "./sizing.js";
+import { anyAlive, jobScript, sbatch, shellWord } from "./slurm.js";
+
+export const WORK_FORMAT = "sojourn-slurm-work/1";
+
+/** What a cluster user sets for the jobs. */
+export interface SlurmOptions {
+  partition?: string;
+  account?: string;
+  /** `--mem` of each task, as sbatch takes it (`2G`, `900M`); default from the run files' sizes. */
+  memPerTask?: string;
+  /** `--time` of each task, as sbatch takes it (`30`, `1:30:00`); default from the run files' sizes. */
+  timePerTask?: string;
+  /** At most this many tasks run at once (`--array=...%N`). */
+  maxRunning?: number;
+  /** More sbatch arguments, given to both jobs as they are. */
+  sbatchArgs: string[];
+}
+
+export interface ClusterReportOptions {
+  out: string;
+  /** The work folder on storage every node sees; default `<DIR>.work` beside DIR. */
+  work?: string;
+  force: boolean;
+  pdf: boolean;
+  edition: "audit" | "client";
+  paper: "A4" | "Letter";
+  chrome?: string;
+  wait: boolean;
+  slurm: SlurmOptions;
+  onProgress?: (message: string) => void;
+  /** Seconds between two looks at the jobs (default 2). */
+  pollSeconds?: number;
+}
+
+interface Task {
+  scenario: string;
+  run: string;
+  /** The summary file, relative to WORK. */
+  summary: string;
+}
+
+/** WORK/study.json. */
+interface WorkFile {
+  format: string;
+  /** Digest of everything that makes the jobs: same key, same jobs. */
+  key: string;
+  manifest: string;
+  manifest_sha256: string;
+  out: string;
+  generated_at: string;
+  report: { force: boolean; pdf: boolean; edition: "audit" | "client"; paper: "A4" | "Letter"; chrome: string | null };
+  tasks: Task[];
+  /** Indices of the tasks the array runs (the others were reused). */
+  submitted: number[];
+  jobs: { runs: string | null; report: string };
+}
+
+export interface ClusterOutcome {
+  dir: string;
+  work: string;
+  jobs: WorkFile["jobs"];
+  /** Runs summarised by this submission, and runs whose summary was reused. */
+  ran: number;
+  reused: number;
+  /** False with `--no-wait`: the jobs are queued, nothing is known yet. */
+  finished: boolean;
+}
+
+const SUMMARIES = "summaries";
+
+/** The Sojourn command line a job runs: this Node and this build, by absolute path. */
+function sojournCommand(): string[] {
+  return [process.execPath, realpathSync(process.argv[1])].map(shellWord);
+}
+
+function readWork(work: string): WorkFile | null {
+  const file = join(work, "study.json");
+  if (!existsSync(file)) {
+    if (existsSync(work) && (!statSync(work).isDirectory() || readdirSync(work).length > 0)) {
+      throw msg.workNotOurs(work, statSync(work).isDirectory() ? "it is not empty and holds no study.json" : "it is a file");
+    }
+    return null;
+  }
+  let parsed: WorkFile;
+  try {
+    parsed = JSON.parse(readFileSync(file, "utf8")) as WorkFile;
+  } catch (e) {
+    throw msg.workNotOurs(work, `study.json is not JSON: ${(e as Error).message}`);
+  }
+  if (parsed?.format !== WORK_FORMAT) throw msg.workNotOurs(work, `study.json is not "${WORK_FORMAT}"`);
+  return parsed;
+}
+
+function writeAtomic(path: string, text: string): void {
+  const temp = `${path}.tmp-${process.pid}`;
+  writeFileSync(temp, text);
+  renameSync(temp, path);
+}
+
+/** Whether the summary of a task can be used as it is: its digest, plan and run file match. */
+async function reusable(work: string, study: Study, task: Task): Promise<boolean> {
+  const path = join(work, task.summary);
+  if (!existsSync(path)) return false;
+  const scenario = study.scenarios.find((s) => s.name === task.scenario)!;
+  const warmup = await resolveWarmup(study, scenario);
+  const plan = scenarioPlans(study, scenario, warmup.time)[scenario.runs.findIndex((r) => r.id === task.run)];
+  try {
+    const a = decodeSummary(readFileSync(path, "utf8"), plan, path);
+    return (await fileDigest(plan.run.path)) === a.input.sha256;
+  } catch (e) {
+    if (e instanceof UserError || (e as NodeJS.ErrnoException).code !== undefined) return false;
+    throw e;
+  }
+}
+
+/** Submits the study (or follows the submission already in WORK with the same settings) and, unless `--no-wait`, waits for it. */
+export async function clusterReport(manifest: string, o: ClusterReportOptions): Promise<ClusterOutcome> {
+  const progress = o.onProgress ?? (() => {});
+  const study = await loadStudy(manifest);
+  const mser = study.scenarios.find((s) => s.warmup.type === "mser-5");
+  if (mser !== undefined) throw msg.clusterMser(mser.name);
+  const out = resolve(o.out);
+  const work = resolve(o.work ?? `${out}.work`);
+  const report = { force: o.force, pdf: o.pdf, edition: o.edition, paper: o.paper, chrome: o.chrome ?? null };
+  const key = sha256(JSON.stringify({ manifest: study.manifestPath, sha: sha256(study.manifestText), out, report, slurm: o.slurm }));
+  const before = readWork(work);
+  const jobsOf = (w: WorkFile) => [w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
+
+  let w: WorkFile;
+  if (before !== null && (anyAlive(jobsOf(before)) || readStatus(join(work, "status", "report.rc")) !== null)) {
+    // A submission of the same study is queued, running, or ended with its report: follow it.
+    if (before.key !== key) {
+      if (anyAlive(jobsOf(before))) throw msg.workInUse(work, jobsOf(before).join(","));
+      w = await submit(study, work, out, key, report, o, progress);
+    } else {
+      w = before;
+      progress(`following the submission already in ${work} (jobs ${jobsOf(w).join(", ")})`);
+    }
+  } else {
+    w = await submit(study, work, out, key, report, o, progress);
+  }
+  const ran = w.submitted.length;
+  const result = { dir: out, work, jobs: w.jobs, ran, reused: w.tasks.length - ran };
+  if (!o.wait) return { ...result, finished: false };
+  await follow(work, w, progress, o.pollSeconds ?? 2);
+  return { ...result, finished: true };
+}
+
+async function submit(
+  study: Study,
+  work: string,
+  out: string,
+  key: string,
+  report: WorkFile["report"],
+  o: ClusterReportOptions,
+  progress: (m: string) => void,
+): Promise<WorkFile> {
+  for (const sub of ["", SUMMARIES, "logs", "status", "jobs"]) mkdirSync(join(work, sub), { recursive: true });
+  const tasks: Task[] = study.scenarios.flatMap((sc) => sc.runs.map((r) => ({ scenario: sc.name, run: r.id, summary: `${SUMMARIES}/${summaryPath(sc.name, r.id)}` })));
+  const submitted: number[] = [];
+  for (const [i, t] of tasks.entries()) if (!(await reusable(work, study, t))) submitted.push(i);
+  if (tasks.length > submitted.length) progress(`reusing ${tasks.length - submitted.length} of ${tasks.length} run summaries already in ${work}`);
+
+  // Only this submission's status files are removed: the tasks about to run, and the report's.
+  for (const i of submitted) rmSync(join(work, "status", `run-${i}.rc`), { force: true });
+  rmSync(join(work, "status", "report.rc"), { force: true });
+
+  const runs = study.scenarios.flatMap((sc) => sc.runs);
+  const request: TaskRequest = arrayRequest(submitted.map((i) => ({ bytes: statSync(runs[i].path).size, file: runs[i].file })));
+  const common = [`--chdir=${process.cwd()}`, ...(o.slurm.partition ? [`--partition=${o.slurm.partition}`] : []), ...(o.slurm.account ? [`--account=${o.slurm.account}`] : [])];
+  const w: WorkFile = {
+    format: WORK_FORMAT,
+    key,
+    manifest: study.manifestPath,
+    manifest_sha256: sha256(study.manifestText),
+    out,
+    generated_at: reportDate(),
+    report,
+    tasks,
+    submitted,
+    jobs: { runs: null, report: "" },
+  };
+  writeAtomic(join(work, "study.json"), JSON.stringify(w, null, 2) + "\n");
+
+  const cmd = sojournCommand();
+  if (submitted.length > 0) {
+    const status = `${shellWord(join(work, "status", "run-"))}"$SLURM_ARRAY_TASK_ID"${shellWord(".rc")}`;
+    const script = join(work, "jobs", "runs.sh");
+    writeFileSync(script, jobScript("one task per run of the study", [...cmd, "cluster-task", shellWord(work), '"$SLURM_ARRAY_TASK_ID"'], status), { mode: 0o755 });
+    w.jobs.runs = sbatch(
+      [
+        `--array=${arrayList(submitted)}${o.slurm.maxRunning !== undefined ? `%${o.slurm.maxRunning}` : ""}`,
+        "--job-name=sojourn-runs",
+        `--output=${join(work, "logs", "run-%a.log")}`,
+        "--ntasks=1",
+        "--cpus-per-task=1",
+        `--mem=${o.slurm.memPerTask ?? `${request.memoryMb}M`}`,
+        `--time=${o.slurm.timePerTask ?? request.minutes}`,
+        ...common,
+        ...o.slurm.sbatchArgs,
+        script,
+      ],
+      "job array of the runs",
+    );
+  }
+  const reportScript = join(work, "jobs", "report.sh");
+  writeFileSync(reportScript, jobScript("the report, once every run is summarised", [...cmd, "cluster-report", shellWord(work)], shellWord(join(work, "status", "report.rc"))), { mode: 0o755 });
+  const rr = reportRequest(request);
+  w.jobs.report = sbatch(
+    [
+      ...(w.jobs.runs !== null ? [`--dependency=afterok:${w.jobs.runs}`, "--kill-on-invalid-dep=yes"] : []),
+      "--job-name=sojourn-report",
+      `--output=${join(work, "logs", "report.log")}`,
+      "--ntasks=1",
+      "--cpus-per-task=1",
+      `--mem=${rr.memoryMb}M`,
+      `--time=${rr.minutes}`,
+      ...common,
+      ...o.slurm.sbatchArgs,
+      reportScript,
+    ],
+    "report job",
+  );
+  writeAtomic(join(work, "study.json"), JSON.stringify(w, null, 2) + "\n");
+  progress(
+    w.jobs.runs !== null
+      ? `submitted job array ${w.jobs.runs} (${submitted.length} runs, ${o.slurm.memPerTask ?? `${request.memoryMb}M`} and ${o.slurm.timePerTask ?? `${request.minutes} min`} each) and report job ${w.jobs.report} after it`
+      : `every run summary is reused: submitted report job ${w.jobs.report}`,
+  );
+  return w;
+}
+
+/** A status file's exit status, or null when there is none (yet). */
+function readStatus(path: string): number | null {
+  try {
+    const text = readFileSync(path, "utf8").trim();
+    return /^\d+$/.test(text) ? Number(text) : null;
+  } catch {
+    return null;
+  }
+}
+
+/** Why a job failed, as its log says: Sojourn's message (first line), else the log's last line. */
+function failureOf(log: string, status: number | null): string {
+  let text = "";
+  try {
+    text = readFileSync(log, "utf8");
+  } catch {
+    // no log: Slurm did not start the job, or the log is elsewhere
+  }
+  const lines = text.split("\n").filter((l) => l.trim() !== "");
+  const ours = lines.find((l) => l.startsWith("sojourn: "));
+  if (ours !== undefined) return ours.slice("sojourn: ".length);
+  if (status !== null) return `exit status ${status}${lines.length > 0 ? `; the log ends: ${lines[lines.length - 1]}` : ""}`;
+  return `the job ended without finishing (cancelled, killed, or over its time or memory limit)${lines.length > 0 ? `; the log ends: ${lines[lines.length - 1]}` : ""}`;
+}
+
+const sleep = (s: number) => new Promise((r) => setTimeout(r, s * 1000));
+
+/** Waits for the submission in WORK to end; throws the first failed run or the report's failure. */
+async function follow(work: string, w: WorkFile, progress: (m: string) => void, poll: number): Promise<void> {
+  const jobs = [w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
+  const reportRc = join(work, "status", "report.rc");
+  let shown = -1;
+  for (;;) {
+    const done = w.submitted.filter((i) => readStatus(join(work, "status", `run-${i}.rc`)) === 0).length;
+    if (done !== shown && w.submitted.length > 0) {
+      progress(`runs summarised on Slurm: ${done} of ${w.submitted.length}${w.jobs.runs !== null ? ` (job array ${w.jobs.runs})` : ""}`);
+      shown = done;
+    }
+    const rc = readStatus(reportRc);
+    if (rc !== null) {
+      if (rc === 0) return;
+      throw msg.reportFailed(w.jobs.report, join(work, "logs", "report.log"), failureOf(join(work, "logs", "report.log"), rc));
+    }
+    // Ended without a report status: look at the status files once more (a job may just have written one).
+    if (!anyAlive(jobs) && readStatus(reportRc) === null) break;
+    await sleep(poll);
+  }
+  for (const i of w.submitted) {
+    const rc = readStatus(join(work, "status", `run-${i}.rc`));
+    if (rc === 0) continue;
+    const t = w.tasks[i];
+    const log = join(work, "logs", `run-${i}.log`);
+    throw msg.taskFailed(t.scenario, t.run, `${w.jobs.runs}_${i}`, log, failureOf(log, rc));
+  }
+  const log = join(work, "logs", "report.log");
+  throw msg.reportFailed(w.jobs.report, log, failureOf(log, null));
+}
+
+function loadWork(work: string): WorkFile {
+  const w = readWork(resolve(work));
+  if (w === null) throw msg.workNotOurs(work, "it holds no study.json");
+  return w;
+}
+
+async function workStudy(work: string, w: WorkFile): Promise<Study> {
+  const study = await loadStudy(w.manifest);
+  if (sha256(study.manifestText) !== w.manifest_sha256) throw msg.workStudyChanged(work);
+  return study;
+}
+
+/** One array task (`sojourn cluster-task WORK i`): summarize-run of task i into the work folder. */
+export async function clusterTask(work: string, index: number): Promise<string> {
+  const w = loadWork(work);
+  const t = w.tasks[index];
+  if (t === undefined) throw msg.workNotOurs(work, `it has no task ${index}`);
+  const study = await workStudy(work, w);
+  const { text, analysis } = await summarizeRun(study, t.scenario, t.run);
+  const path = join(resolve(work), t.summary);
+  writeOwnFiles([{ path, text }], { kind: "run summary", force: false, inputs: studyInputs(study) });
+  return `wrote ${path}: run ${t.run} of scenario ${t.scenario}, ${analysis.input.rows} rows, input sha256 ${analysis.input.sha256}`;
+}
+
+/** The report job (`sojourn cluster-report WORK`): the local report's code on the summaries, with the recorded date. */
+export async function clusterFinish(work: string, onProgress?: (m: string) => void): Promise<string> {
+  const w = loadWork(work);
+  const options: ReportOptions = {
+    out: w.out,
+    force: w.report.force,
+    pdf: w.report.pdf,
+    edition: w.report.edition,
+    paper: w.report.paper,
+    chrome: w.report.chrome ?? undefined,
+    generatedAt: w.generated_at,
+    fromSummaries: join(resolve(work), SUMMARIES),
+    onProgress,
+    onStudy: (study) => {
+      if (sha256(study.manifestText) !== w.manifest_sha256) throw msg.workStudyChanged(work);
+    },
+  };
+  const r = await makeReport(w.manifest, options);
+  return r.dir;
+}
