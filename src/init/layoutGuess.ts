@@ -9,9 +9,10 @@
  *
  * The rules, tried in this order (docs/tutorial.md says them in words):
  *
- * 1. entities: a column filled on every row with a different value on every row (the id), and at
- *    least two other number columns that look like clock times: most of their values differ,
- *    their ranges overlap, and on every row where both are filled one is at most the other.
+ * 1. entities: a column filled on every row with a different value on every row (the id; a number
+ *    column of not only whole numbers that never decreases is a clock, not an id), and at least two
+ *    other number columns that look like clock times: at least 80 % of their values differ,
+ *    the ranges of consecutive ones overlap, and on every row where both are filled one is at most the other.
  * 2. events: a text column filled on every row whose few values repeat (the series), and a
  *    number column filled on every row that never decreases within a series (the time). The
  *    value is a number column left; the entity the column left with the most distinct values.
@@ -200,7 +201,7 @@ export function guessLayout(p: ColumnProfile): LayoutGuess {
 
 /** Columns that look like clock times: numbers, mostly distinct. */
 function timeLike(c: ColumnFacts): boolean {
-  return isNumberColumn(c) && (c.many || c.values.size * 2 >= c.filled) && c.filled >= 2;
+  return isNumberColumn(c) && (c.many || c.values.size * 5 >= c.filled * 4) && c.filled >= 2;
 }
 
 function guessEntities(p: ColumnProfile): LayoutGuess | null {
@@ -211,6 +212,8 @@ function guessEntities(p: ColumnProfile): LayoutGuess | null {
   for (const id of ids) {
     const times = p.columns.filter((c) => c !== id && timeLike(c));
     if (times.length < 2) continue;
+    // A number "id" that is not all whole numbers and never decreases is more likely a clock (a table of levels).
+    if (isNumberColumn(id) && !id.integers && id.nonDecreasing) continue;
     // Per-row order: a before b when a <= b on every row both are filled; then by mean position.
     const chain = orderTimes(p, times);
     const ordered = chain.slice(1).filter((b, i) => {
@@ -218,12 +221,13 @@ function guessEntities(p: ColumnProfile): LayoutGuess | null {
       return o.compared > 0 && o.atMost === o.compared;
     });
     if (ordered.length === 0) continue;
-    const overlap = chain.every((c) => chain.every((d) => c.min <= d.max && d.min <= c.max));
+    // Consecutive events' ranges overlap (a first arrival before the last start, and so on).
+    const overlap = chain.slice(1).every((d, i) => chain[i].min <= d.max && d.min <= chain[i].max);
     if (!overlap) continue;
     const attributes = p.columns.filter((c) => c !== id && !chain.includes(c) && c.filled > 0).map(attribute);
     const why = [
       `${q(id.name)} holds a different value on every one of the ${p.rows} rows read (an id)`,
-      `${chain.map((c) => q(c.name)).join(", ")} hold numbers in overlapping ranges (${chain.map(range).join("; ")}), most of them different: clock times of events`,
+      `${chain.map((c) => q(c.name)).join(", ")} hold numbers (${chain.map(range).join("; ")}), consecutive ranges overlapping, at least 80 % of the values different: clock times of events`,
     ];
     if (!isTextColumn(id)) why.push(`UNSURE: the id ${q(id.name)} holds numbers; if it is a time, this is not one row per entity`);
     return { layout: "entities", entity: id.name, events: chain.map((c) => c.name), attributes, why };
