@@ -76,32 +76,7 @@ export async function readHead(path: string, display: string, columns: ColumnMap
   await refuseIfNotAFile(path, display); // a pipe would block `discover`, a device never end
   const found = await discover(path, columns, limit);
   const names = found.series;
-  const heads: SeriesHead[] = names.map((name) => ({
-    name,
-    rows: 0,
-    valued: 0,
-    withEntity: 0,
-    firstTime: Infinity,
-    lastTime: -Infinity,
-    min: Infinity,
-    max: -Infinity,
-    integers: true,
-    distinct: new Set<number>(),
-    manyValues: false,
-    steps: 0,
-    unitSteps: 0,
-    sameSteps: 0,
-    entityTimes: null,
-  }));
-  const lastValue = new Float64Array(names.length).fill(NaN);
-  const pairs = new Map<string, PairHead>();
-  const pairOf = (x: number, y: number): PairHead => {
-    const key = names[x] + "\u0000" + names[y];
-    let p = pairs.get(key);
-    if (p === undefined) pairs.set(key, (p = { compared: 0, above: 0, equal: 0 }));
-    return p;
-  };
-  const compare = names.length <= PAIR_CAP;
+  const tally = new HeadTally(names);
   let delivered = 0;
   let cut = false;
   let lastTime = -Infinity;
@@ -115,42 +90,8 @@ export async function readHead(path: string, display: string, columns: ColumnMap
       onRow: (i, time, value, entity) => {
         if (delivered >= limit) throw new HeadFull();
         delivered++;
-        const h = heads[i];
-        h.rows++;
-        if (time < h.firstTime) h.firstTime = time;
-        if (time > h.lastTime) h.lastTime = time;
         if (time > lastTime) lastTime = time;
-        if (entity !== undefined) h.withEntity++;
-        if (value === value) {
-          h.valued++;
-          if (value < h.min) h.min = value;
-          if (value > h.max) h.max = value;
-          if (!Number.isInteger(value)) h.integers = false;
-          if (!h.manyValues) {
-            h.distinct.add(value);
-            if (h.distinct.size > DISTINCT_CAP) h.manyValues = true;
-          }
-          const before = lastValue[i];
-          if (before === before) {
-            h.steps++;
-            if (Math.abs(value - before) === 1) h.unitSteps++;
-            else if (value === before) h.sameSteps++;
-          }
-          lastValue[i] = value;
-          if (compare) {
-            for (let j = 0; j < names.length; j++) {
-              const other = lastValue[j];
-              if (j === i || other !== other) continue;
-              const p = pairOf(i, j);
-              p.compared++;
-              if (value > other) p.above++;
-              else if (value === other) p.equal++;
-            }
-          }
-        } else if (entity !== undefined) {
-          h.entityTimes ??= new Map();
-          if (!h.entityTimes.has(entity)) h.entityTimes.set(entity, time);
-        }
+        tally.row(i, time, value, entity);
       },
     });
     total = report.rows;
@@ -165,7 +106,83 @@ export async function readHead(path: string, display: string, columns: ColumnMap
     if (format?.format === "parquet") last = await parquetTailTime(path, columns);
     else last = format !== null && !format.gzip ? await tailTime(path, format.format, columns, found.header) : null;
   }
-  return { rows: total, cut, lastTime: last, series: heads.filter((h) => h.rows > 0), pairs };
+  return { rows: total, cut, lastTime: last, series: tally.heads.filter((h) => h.rows > 0), pairs: tally.pairs };
+}
+
+/**
+ * The per-series facts of rows given one at a time: `row(i, time, value, entity)` with `i` the
+ * series' index in `names`, `value` NaN when the row has none. Each valued row is compared with
+ * the level every other series holds at that moment (`pairs`).
+ */
+export class HeadTally {
+  readonly heads: SeriesHead[];
+  readonly pairs = new Map<string, PairHead>();
+  private readonly lastValue: Float64Array;
+  private readonly compare: boolean;
+
+  constructor(private readonly names: readonly string[]) {
+    this.heads = names.map((name) => ({
+      name,
+      rows: 0,
+      valued: 0,
+      withEntity: 0,
+      firstTime: Infinity,
+      lastTime: -Infinity,
+      min: Infinity,
+      max: -Infinity,
+      integers: true,
+      distinct: new Set<number>(),
+      manyValues: false,
+      steps: 0,
+      unitSteps: 0,
+      sameSteps: 0,
+      entityTimes: null,
+    }));
+    this.lastValue = new Float64Array(names.length).fill(NaN);
+    this.compare = names.length <= PAIR_CAP;
+  }
+
+  row(i: number, time: number, value: number, entity: string | undefined): void {
+    const h = this.heads[i];
+    const names = this.names;
+    const lastValue = this.lastValue;
+    h.rows++;
+    if (time < h.firstTime) h.firstTime = time;
+    if (time > h.lastTime) h.lastTime = time;
+    if (entity !== undefined) h.withEntity++;
+    if (value === value) {
+      h.valued++;
+      if (value < h.min) h.min = value;
+      if (value > h.max) h.max = value;
+      if (!Number.isInteger(value)) h.integers = false;
+      if (!h.manyValues) {
+        h.distinct.add(value);
+        if (h.distinct.size > DISTINCT_CAP) h.manyValues = true;
+      }
+      const before = lastValue[i];
+      if (before === before) {
+        h.steps++;
+        if (Math.abs(value - before) === 1) h.unitSteps++;
+        else if (value === before) h.sameSteps++;
+      }
+      lastValue[i] = value;
+      if (this.compare) {
+        for (let j = 0; j < names.length; j++) {
+          const other = lastValue[j];
+          if (j === i || other !== other) continue;
+          const key = names[i] + "\u0000" + names[j];
+          let p = this.pairs.get(key);
+          if (p === undefined) this.pairs.set(key, (p = { compared: 0, above: 0, equal: 0 }));
+          p.compared++;
+          if (value > other) p.above++;
+          else if (value === other) p.equal++;
+        }
+      }
+    } else if (entity !== undefined) {
+      h.entityTimes ??= new Map();
+      if (!h.entityTimes.has(entity)) h.entityTimes.set(entity, time);
+    }
+  }
 }
 
 /** Series names of the first rows, and whether rows can carry an entity. Never throws on bad data. */

@@ -12,11 +12,20 @@ import { readdirSync, statSync } from "node:fs";
 import { basename, join, relative, sep } from "node:path";
 import { initMessages, UserError } from "../messages/index.js";
 import { RUN_EXTENSIONS, runFormat, runIdOf } from "../ingest/runFile.js";
+import type { ColumnMap } from "../manifest/types.js";
 import { DEFAULT_COLUMNS } from "./columns.js";
+import { ColumnProfile, guessLayout, type LayoutGuess } from "./layoutGuess.js";
+import { readCells } from "./readCells.js";
 import { type FileHead, readHead } from "./readHead.js";
+import { type EntityPairFacts, readEntitiesHead, readLevelsHead } from "./readLayoutHead.js";
 
 /** Rows read per file, at most. */
 export const HEAD_ROWS = 200_000;
+/** Rows of each file the layout is guessed from (`layoutGuess.ts`), at most. */
+export const PROFILE_ROWS = 10_000;
+
+/** The layout of every run file read, with the file it was first seen in. */
+export type ScanLayout = Exclude<LayoutGuess, { layout: null }> & { seenIn: string };
 
 export interface ScannedRun {
   id: string;
@@ -36,6 +45,8 @@ export interface ScannedScenario {
   runs: ScannedRun[];
   /** Largest busy level seen per series (for a constant capacity guess). */
   maxBySeries: Map<string, number>;
+  /** Entity tables: the most rows between two event columns at one time in any run (`a + "\0" + b`). */
+  mostBetween: Map<string, number>;
 }
 
 export interface SkippedFile {
@@ -88,6 +99,10 @@ export interface EventPair {
 
 export interface RunsScan {
   dir: string;
+  /** The layout of the run files (all have the same; `events` with the contract's names when none was read). */
+  layout: ScanLayout;
+  /** For `entities`: the order of each two event columns over all rows read. */
+  entityOrder: Map<string, EntityPairFacts>;
   scenarios: ScannedScenario[];
   skipped: SkippedFile[];
   series: SeriesFacts[];
@@ -124,12 +139,15 @@ export async function scanRuns(dir: string, options: ScanOptions = {}): Promise<
   const firstTimes = new Map<string, number>();
   const entityFacts = new Map<string, { shared: number; inOrder: number; open: number }>();
   const scenarios: ScannedScenario[] = [];
+  const entityOrder = new Map<string, EntityPairFacts>();
+  let shape: ScanLayout | null = null;
   let cut = false;
 
   for (const sc of layout.scenarios) {
     const runs: ScannedRun[] = [];
     const ids = new Map<string, string>();
     const maxBySeries = new Map<string, number>();
+    const mostBetween = new Map<string, number>();
     for (const path of sc.files) {
       const display = slash(relative(process.cwd(), path)) || basename(path);
       const id = runIdOf(path);
@@ -138,14 +156,25 @@ export async function scanRuns(dir: string, options: ScanOptions = {}): Promise<
         skip(display, initMessages.skipDuplicateId(id, same));
         continue;
       }
+      let guess: LayoutGuess;
       let head: FileHead;
       try {
-        head = await readHead(path, display, DEFAULT_COLUMNS, limit);
+        guess = await profileFile(path, display, Math.min(limit, PROFILE_ROWS));
+        if (guess.layout !== null) head = await readLayoutHead(path, display, guess, limit);
       } catch (e) {
         if (!(e instanceof UserError)) throw e;
         skip(display, initMessages.skipUnreadable(display, e.message));
         continue;
       }
+      if (guess.layout === null) {
+        skip(display, initMessages.skipNoLayout(guess.why));
+        continue;
+      }
+      // One layout for the study: a file unlike the first is an error, not a guess (the manifest would not read it).
+      const merged: ScanLayout | null = shape === null ? { ...guess, seenIn: display } : mergeLayouts(shape, guess);
+      if (merged === null) throw initMessages.mixedLayouts(shape!.seenIn, layoutWords(shape!), display, layoutWords(guess));
+      shape = merged;
+      head = head!;
       if (head.series.length === 0) {
         skip(display, initMessages.skipNoRows());
         continue;
@@ -166,19 +195,39 @@ export async function scanRuns(dir: string, options: ScanOptions = {}): Promise<
         pairCounts.set(key, q);
       }
       addEntityPairs(entityFacts, head);
+      if ("mostBetween" in head) for (const [key, m] of head.mostBetween as Map<string, number>) mostBetween.set(key, Math.max(mostBetween.get(key) ?? 0, m));
+      if ("entityPairs" in head) {
+        for (const [key, f] of head.entityPairs as Map<string, EntityPairFacts>) {
+          const e = entityOrder.get(key) ?? { shared: 0, inOrder: 0, open: 0, firstBackwards: null };
+          e.shared += f.shared;
+          e.inOrder += f.inOrder;
+          e.open += f.open;
+          if (e.firstBackwards === null && f.firstBackwards !== null) e.firstBackwards = f.firstBackwards;
+          entityOrder.set(key, e);
+          const g = entityFacts.get(key) ?? { shared: 0, inOrder: 0, open: 0 };
+          g.shared += f.shared;
+          g.inOrder += f.inOrder;
+          g.open += f.open;
+          entityFacts.set(key, g);
+        }
+      }
     }
-    if (runs.length > 0) scenarios.push({ name: sc.name, dir: sc.dir, runs, maxBySeries });
+    if (runs.length > 0) scenarios.push({ name: sc.name, dir: sc.dir, runs, maxBySeries, mostBetween });
   }
 
   const series: SeriesFacts[] = [...acc.values()].map(({ values: _values, ...facts }) => facts);
-  for (const s of series) [s.kind, s.why] = guessKind(s, scenarios.reduce((n, sc) => n + sc.runs.length, 0));
+  const runCount = scenarios.reduce((n, sc) => n + sc.runs.length, 0);
+  for (const s of series) [s.kind, s.why] = shape?.layout === "levels" ? levelKind(s) : guessKind(s, runCount);
   return {
     dir,
+    layout: shape ?? { layout: "events", time: "time", series: "series", value: "value", entity: "entity", attributes: [], why: [], seenIn: "" },
+    entityOrder,
     scenarios,
     skipped,
     series,
     capacities: guessCapacities(series, pairCounts, firstTimes),
-    pairs: guessPairs(series, entityFacts),
+    // An entity table's reader refuses a row whose pair of a measure goes backwards: every row read must be in order.
+    pairs: guessPairs(series, entityFacts, shape?.layout === "entities" ? 1 : 0.95),
     cut,
     headRows: limit,
   };
@@ -330,17 +379,96 @@ function guessCapacities(series: SeriesFacts[], pairs: Map<string, { compared: n
 }
 
 /** Entity event pairs: most entities seen in both, and almost always in this order. */
-function guessPairs(series: SeriesFacts[], facts: Map<string, { shared: number; inOrder: number; open: number }>): EventPair[] {
+function guessPairs(series: SeriesFacts[], facts: Map<string, { shared: number; inOrder: number; open: number }>, inOrderShare: number): EventPair[] {
   const order = new Map(series.map((s, i) => [s.name, i]));
   const out: EventPair[] = [];
   for (const [key, f] of facts) {
     const [start, end] = key.split("\u0000");
     const total = f.shared + f.open;
-    if (f.shared === 0 || f.shared * 2 < total || f.inOrder < 0.95 * f.shared) continue;
+    if (f.shared === 0 || f.shared * 2 < total || f.inOrder < inOrderShare * f.shared) continue;
     // The reverse direction must not also qualify (ties in both orders: keep file order).
     const back = facts.get(end + "\u0000" + start);
-    if (back !== undefined && back.inOrder >= 0.95 * back.shared && order.get(end)! < order.get(start)!) continue;
+    if (back !== undefined && back.inOrder >= inOrderShare * back.shared && order.get(end)! < order.get(start)!) continue;
     out.push({ start, end, ...f });
   }
   return out.sort((a, b) => order.get(a.start)! - order.get(b.start)! || order.get(a.end)! - order.get(b.end)!);
+}
+
+/** The layout of one file, guessed from its first `rows` rows (`layoutGuess.ts`). */
+async function profileFile(path: string, display: string, rows: number): Promise<LayoutGuess> {
+  const profile = new ColumnProfile();
+  let header: readonly string[] = [];
+  await readCells(
+    path,
+    display,
+    rows,
+    (cells, line) => profile.add(header, cells, line),
+    (names) => (header = names),
+  );
+  return guessLayout(profile);
+}
+
+/** The contract's column map with the names the guess found (an absent value or entity keeps its default name). */
+export function columnsOf(guess: Extract<LayoutGuess, { layout: "events" }>): ColumnMap {
+  return { time: guess.time, series: guess.series, value: guess.value ?? DEFAULT_COLUMNS.value, entity: guess.entity ?? DEFAULT_COLUMNS.entity };
+}
+
+async function readLayoutHead(path: string, display: string, guess: Exclude<LayoutGuess, { layout: null }>, limit: number): Promise<FileHead> {
+  switch (guess.layout) {
+    case "events":
+      return readHead(path, display, columnsOf(guess), limit);
+    case "entities":
+      return readEntitiesHead(path, display, guess.entity, guess.events, limit);
+    case "levels":
+      return readLevelsHead(path, display, guess.time, guess.levels, limit);
+  }
+}
+
+/**
+ * The study's layout with one more file's: the same layout and the same named columns, or null
+ * when they differ. Attributes are joined; an events file without a value or entity column takes
+ * the other file's.
+ */
+function mergeLayouts(a: ScanLayout, b: Exclude<LayoutGuess, { layout: null }>): ScanLayout | null {
+  const attributes = [...a.attributes];
+  for (const x of b.attributes) {
+    const y = attributes.find((z) => z.name === x.name);
+    if (y === undefined) attributes.push(x);
+    else if (y.values !== null) {
+      const values = x.values === null ? null : [...new Set([...y.values, ...x.values])];
+      attributes[attributes.indexOf(y)] = { name: y.name, values: values !== null && values.length <= 12 ? values : null };
+    }
+  }
+  const sameSet = (x: readonly string[], y: readonly string[]) => x.length === y.length && x.every((n) => y.includes(n));
+  if (a.layout === "events" && b.layout === "events") {
+    const pick = (x: string | null, y: string | null): string | null | undefined => (x === null ? y : y === null || x === y ? x : undefined);
+    const value = pick(a.value, b.value);
+    const entity = pick(a.entity, b.entity);
+    if (a.time !== b.time || a.series !== b.series || value === undefined || entity === undefined) return null;
+    return { ...a, value, entity, attributes: attributes.filter((x) => x.name !== value && x.name !== entity) };
+  }
+  if (a.layout === "entities" && b.layout === "entities") return a.entity === b.entity && sameSet(a.events, b.events) ? { ...a, attributes } : null;
+  if (a.layout === "levels" && b.layout === "levels") return a.time === b.time && sameSet(a.levels, b.levels) ? { ...a, attributes } : null;
+  return null;
+}
+
+/** A layout in words, for the message about files that differ. */
+export function layoutWords(g: Exclude<LayoutGuess, { layout: null }>): string {
+  const q = (n: string) => JSON.stringify(n);
+  switch (g.layout) {
+    case "events":
+      return `an event table (time ${q(g.time)}, series ${q(g.series)}${g.value === null ? "" : `, value ${q(g.value)}`}${g.entity === null ? "" : `, entity ${q(g.entity)}`})`;
+    case "entities":
+      return `one row per entity (id ${q(g.entity)}, events ${g.events.map(q).join(", ")})`;
+    case "levels":
+      return `a table of levels (time ${q(g.time)}, levels ${g.levels.map(q).join(", ")})`;
+  }
+}
+
+/** A column of a levels table is a level whatever its values; the reason says what they look like. */
+function levelKind(s: SeriesFacts): [SeriesKind, string] {
+  const range = `${s.min} to ${s.max}`;
+  if (!s.integers) return ["level", `a column of the table of levels; UNSURE: its values (${range}) are not all whole numbers, so it may be a quantity other than a level`];
+  const unit = s.steps > 0 ? Math.round((s.unitSteps / s.steps) * 100) : 0;
+  return ["level", `a column of the table of levels: whole numbers ${range}, ${unit} % of changes by 1`];
 }

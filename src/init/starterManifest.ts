@@ -58,6 +58,7 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
   out.push("time_unit: time   # GUESS: unknown; write the unit of the simulation clock (min, h, s)");
   checks.push("title and time_unit: write the report's title and the clock's unit.");
   out.push("confidence: 0.95   # the usual 95 % confidence intervals");
+  out.push(...layoutLines(scan, checks));
 
   const levels = scan.series.filter((s) => s.kind === "level");
   const ends = new Map(scan.scenarios.map((sc) => [sc.name, guessEnd(sc)]));
@@ -69,12 +70,17 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
     used.add(name);
     return name;
   };
-  const seriesMeasure = new Map(scan.series.map((s) => [s.name, unique(s.kind === "count" ? `${measureName(s.name)}_count` : measureName(s.name))]));
+  // An entity table's event columns all count the same entities: only the last one (the way out) gets a count.
+  const layout = scan.layout;
+  const lastEvent = layout.layout === "entities" ? layout.events[layout.events.length - 1] : null;
+  const measured = scan.series.filter((s) => lastEvent === null || s.name === lastEvent);
+  const seriesMeasure = new Map(measured.map((s) => [s.name, unique(s.kind === "count" ? `${measureName(s.name)}_count` : measureName(s.name))]));
+  const pairNames = scan.pairs.map((p) => ({ level: unique(`n_${measureName(p.start)}_to_${measureName(p.end)}`), time: unique(`time_${measureName(p.start)}_to_${measureName(p.end)}`) }));
   // The warm-up is judged on the busiest level that is neither a capacity nor busy units (a queue).
   const capacitySeries = new Set(scan.capacities.map((c) => c.capacity));
   const plain = levels.filter((s) => !capacitySeries.has(s.name) && !BUSY_NAME.test(s.name)).sort((a, b) => b.rows - a.rows);
   const warmupSeries = plain[0]?.name ?? levels[0]?.name ?? scan.series.find((s) => s.kind === "observation")?.name;
-  const warmupMeasure = warmupSeries === undefined ? undefined : seriesMeasure.get(warmupSeries)!;
+  const warmupMeasure = warmupSeries === undefined || !seriesMeasure.has(warmupSeries) ? pairNames[0]?.level : seriesMeasure.get(warmupSeries)!;
   const shortest = Math.min(...[...ends.values()].map((e) => e.end));
   const slice = niceUp(shortest / 200);
   if (singleRun) {
@@ -92,9 +98,10 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
 
   // Measures first: the scenarios need their names for overrides.
   const measures: Measure[] = [];
-  for (const s of scan.series) {
+  for (const s of measured) {
     const name = seriesMeasure.get(s.name)!;
-    measures.push({ line: `{name: ${yamlText(name)}, kind: ${s.kind}, series: ${yamlText(s.name)}}`, comment: [describe(s, runCount), `GUESS ${s.kind}: ${s.why}`] });
+    const why = lastEvent === null ? `GUESS ${s.kind}: ${s.why}` : `GUESS count: the last event column in per-row order (how many entities got that far)`;
+    measures.push({ line: `{name: ${yamlText(name)}, kind: ${s.kind}, series: ${yamlText(s.name)}}`, comment: [describe(s, runCount), why] });
   }
   const overrides = new Map<string, string[]>();
   for (const c of scan.capacities) {
@@ -122,18 +129,40 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
     });
     checks.push(`${name}: the capacity is the most "${s.name}" seen in the runs; write the real number of units${perScenario.length > 1 ? " per scenario" : ""}.`);
   }
-  for (const p of scan.pairs) {
-    const a = measureName(p.start);
-    const b = measureName(p.end);
-    const evidence = `${p.shared} entities had both "${p.start}" and "${p.end}", ${p.inOrder === p.shared ? "all" : p.inOrder} in that order; ${p.open} had "${p.start}" only (censored if still open at the end)`;
+  if (layout.layout === "entities") measures.push(...chainComment(scan));
+  for (const [i, p] of scan.pairs.entries()) {
+    const who = layout.layout === "entities" ? "rows" : "entities";
+    const evidence = `${p.shared} ${who} had both "${p.start}" and "${p.end}", ${p.inOrder === p.shared ? "all" : p.inOrder} in that order; ${p.open} had "${p.start}" only (censored if still open at the end)`;
     measures.push({
-      line: `{name: ${yamlText(unique(`n_${a}_to_${b}`))}, kind: level, from: {enter: ${yamlText(p.start)}, leave: ${yamlText(p.end)}}}`,
+      line: `{name: ${yamlText(pairNames[i].level)}, kind: level, from: {enter: ${yamlText(p.start)}, leave: ${yamlText(p.end)}}}`,
       comment: [`GUESS from entity events: ${evidence}.`, `The number of entities that have had "${p.start}" and not yet "${p.end}" (like a number in system).`],
     });
     measures.push({
-      line: `{name: ${yamlText(unique(`time_${a}_to_${b}`))}, kind: observation, from: {start: ${yamlText(p.start)}, end: ${yamlText(p.end)}}}`,
+      line: `{name: ${yamlText(pairNames[i].time)}, kind: observation, from: {start: ${yamlText(p.start)}, end: ${yamlText(p.end)}}}`,
       comment: [`Each entity's time from "${p.start}" to "${p.end}" (like a time in system).`],
     });
+  }
+  const served = layout.layout === "entities" && layout.events.length >= 3 ? scan.pairs.find((p) => p.start === layout.events[layout.events.length - 2] && p.end === lastEvent) : undefined;
+  if (served !== undefined) {
+    // An entity table of three or more events: the last stage (start of service to departure) may be busy servers.
+    const key = served.start + "\u0000" + served.end;
+    const name = unique(`${measureName(served.start)}_to_${measureName(served.end)}_use`);
+    const perScenario = scan.scenarios.map((sc) => ({ sc: sc.name, max: Math.max(1, sc.mostBetween.get(key) ?? 1) }));
+    const study = Math.max(...perScenario.map((p) => p.max));
+    for (const p of perScenario) {
+      if (p.max === study) continue;
+      const list = overrides.get(p.sc) ?? [];
+      list.push(`${yamlText(name)}: {capacity: ${p.max}}   # GUESS: the most entities between ${q(served.start)} and ${q(served.end)} at once in this scenario's runs`);
+      overrides.set(p.sc, list);
+    }
+    measures.push({
+      line: `{name: ${yamlText(name)}, kind: utilization, from: {enter: ${yamlText(served.start)}, leave: ${yamlText(served.end)}}, capacity: ${study}}`,
+      comment: [
+        `GUESS utilization: if the time from ${q(served.start)} to ${q(served.end)} (the last two events) is service by a fixed number of servers, this is their utilization.`,
+        `capacity ${study} is the most entities seen between the two at once in any run read. Write the real number of servers, or delete this measure.`,
+      ],
+    });
+    checks.push(`${name}: the capacity is the most entities seen between ${q(served.start)} and ${q(served.end)} at once; write the real number of servers${perScenario.length > 1 ? " per scenario" : ""}, or delete it.`);
   }
   if (scan.pairs.length > 0) checks.push(`entity measures (n_..._to_..., time_..._to_...): keep the event pairs that mean something, delete the rest.`);
 
@@ -161,10 +190,80 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
   out.push("measures:");
   for (const m of measures) {
     for (const c of m.comment) out.push(`  # ${c}`);
-    out.push(`  - ${m.line}`);
+    if (m.line !== "") out.push(`  - ${m.line}`);
   }
+  out.push(...attributeLines(scan, pairNames[0]?.time ?? [...seriesMeasure.values()][0]));
   out.push("");
   return { text: out.join("\n"), checks };
+}
+
+const q = (name: string) => JSON.stringify(name);
+
+/** The `layout:` and `columns:` lines, each guess with what it is based on. */
+function layoutLines(scan: RunsScan, checks: string[]): string[] {
+  const g = scan.layout;
+  const runs = scan.scenarios.reduce((n, sc) => n + sc.runs.length, 0);
+  const out: string[] = [];
+  const seen = g.seenIn === "" ? [] : [`# GUESS layout, from the first rows of ${q(g.seenIn)}${runs > 1 ? ` (the other ${runs - 1} run file${runs === 2 ? "" : "s"} agree)` : ""}:`];
+  out.push(...seen, ...g.why.map((w) => `#   ${w}`));
+  const map = (pairs: [string, string | null, string][]) => {
+    const given = pairs.filter(([, name, standard]) => name !== null && name !== standard).map(([key, name]) => `${key}: ${yamlText(name!)}`);
+    return given.length === 0 ? null : `{${given.join(", ")}}`;
+  };
+  switch (g.layout) {
+    case "events": {
+      out.push("layout: events   # one row per event: time, series, value, entity (the default layout)");
+      const columns = map([["time", g.time, "time"], ["series", g.series, "series"], ["value", g.value, "value"], ["entity", g.entity, "entity"]]);
+      if (columns !== null) {
+        out.push(`columns: ${columns}   # GUESS: the contract's columns under the names this file uses (reasons above)`);
+        checks.push(`columns: the event table's columns were found under other names (${columns}); check which is which.`);
+      }
+      break;
+    }
+    case "entities":
+      out.push("layout: entities   # one row per entity: an id column and one column per event, each cell that event's time");
+      out.push(`columns: {entity: ${yamlText(g.entity)}}   # GUESS: the id column (reasons above)`);
+      checks.push(`layout: entities, id column ${q(g.entity)}, event columns ${g.events.map(q).join(", ")}: check that these are the times of events.`);
+      break;
+    case "levels":
+      out.push("layout: levels   # one row per instant: a time column and one column per level, each cell the level's new value");
+      out.push(`columns: {time: ${yamlText(g.time)}}   # GUESS: the time column (reasons above)`);
+      checks.push(`layout: levels, time column ${q(g.time)}, level columns ${g.levels.map(q).join(", ")}: check that each column is a level.`);
+      break;
+  }
+  if (g.why.some((w) => w.startsWith("UNSURE"))) checks.push("layout: init was unsure about a column (see UNSURE at the layout); check it.");
+  return out;
+}
+
+/** For an entity table: the per-row order of its event columns over every row read. */
+function chainComment(scan: RunsScan): Measure[] {
+  const g = scan.layout;
+  if (g.layout !== "entities") return [];
+  const parts: string[] = [q(g.events[0])];
+  const unsure: string[] = [];
+  for (let i = 1; i < g.events.length; i++) {
+    const f = scan.entityOrder.get(g.events[i - 1] + "\u0000" + g.events[i]);
+    const inOrder = f !== undefined && f.shared > 0 && f.inOrder === f.shared;
+    parts.push(`${inOrder ? "<=" : "?"} ${q(g.events[i])}`);
+    if (!inOrder) unsure.push(f === undefined || f.shared === 0 ? `${q(g.events[i - 1])} and ${q(g.events[i])} are never both filled on a row` : `${q(g.events[i])} came before ${q(g.events[i - 1])} on ${f.shared - f.inOrder} row(s) (first at line ${f.firstBackwards}): no measure between them`);
+  }
+  const comment = [`times: ${parts.join(" ")} on every row read${unsure.length > 0 ? " where marked <=" : ""}`, ...unsure.map((u) => `UNSURE: ${u}`)];
+  return [{ line: "", comment }];
+}
+
+/** Commented-out `where` suggestions for the columns that are neither events nor times, with few values. */
+function attributeLines(scan: RunsScan, example: string | undefined): string[] {
+  const few = scan.layout.attributes.filter((a) => a.values !== null);
+  const many = scan.layout.attributes.filter((a) => a.values === null);
+  if (few.length + many.length === 0) return [];
+  const out = ["", "# Columns read as attributes (not times, series or levels): a measure can keep only the rows with some values."];
+  for (const a of few) {
+    const values = a.values!;
+    out.push(`# ${q(a.name)} holds ${values.length} value${values.length === 1 ? "" : "s"} in the rows read: ${values.map(q).join(", ")}. To measure one of them, add to a measure${example === undefined ? "" : ` (say ${example})`}:`);
+    out.push(`#   where: {${yamlText(a.name)}: ${yamlText(values[0])}}`);
+  }
+  for (const a of many) out.push(`# ${q(a.name)} holds many different values: not suggested for where.`);
+  return out;
 }
 
 /** A one-line description of a series: rows, files, values and entities. */

@@ -49,6 +49,18 @@ export function noSeries(dir: string): UserError {
   return located({ file: dir }, "the run files hold no data rows, so there is nothing to measure", "Check that the simulation wrote its rows (time, series, value, entity) into the run files.");
 }
 
+/**
+ * Two run files have different layouts (or name their columns differently): one manifest reads
+ * all its run files one way, so init does not guess which is right.
+ */
+export function mixedLayouts(first: string, firstLayout: string, other: string, otherLayout: string): UserError {
+  return located(
+    { file: other },
+    `this run file looks like ${otherLayout}, but ${first} looks like ${firstLayout}; one manifest reads all its run files in one layout with the same column names`,
+    "Put the files of each layout in a folder of their own and run `sojourn init` on each, or write the files of every run in the same layout.",
+  );
+}
+
 /** The manifest cannot be written. */
 export function manifestUnwritable(file: string, reason: string): UserError {
   return located({ file }, `the manifest cannot be written (${reason})`, "Check that the folder exists and that you may write in it, or choose another file with `--out`.");
@@ -71,6 +83,11 @@ export function skipUnreadable(display: string, message: string): string {
   const line = /^:(\d+)(?::\d+)?: /.exec(first);
   if (line !== null) return `cannot be read as a run file: line ${line[1]}: ${first.slice(line[0].length)}`;
   return `cannot be read as a run file: ${first.replace(/^: /, "")}`;
+}
+
+/** Why a file was skipped: its first rows fit none of the layouts init recognises (`why` says what was seen). */
+export function skipNoLayout(why: string): string {
+  return `its layout was not recognised (events, entities or levels): ${why}; write its manifest by hand (docs/manifest.md, "Layouts of run files")`;
 }
 
 /** Why a file was skipped: a header but no data row. */
