@@ -236,6 +236,6 @@ export interface Results {
   warmup: WarmupAsWritten;
   scenarios: ScenarioResult[];
   comparisons?: Comparison[];
-  /** Each measure against each factor (docs/report.md, "Response curves"); absent without factors. */
+  /** Each measure against each factor (docs/manifest.md, "Factors and response curves"); absent without factors. */
   response_curves?: ResponseCurve[];
 }
