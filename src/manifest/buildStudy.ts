@@ -84,6 +84,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
   const warmup = spec.warmup === undefined ? ({ type: "none" } as const) : toWarmup(spec.warmup, ["warmup"]);
 
   // Scenarios.
+  const factors = checkFactors();
   const scenarios = spec.scenarios.map((scenario, i) => buildScenario(scenario, i));
   const comparisons = (spec.compare ?? []).map((c, k) => buildComparison(c, k));
 
@@ -104,7 +105,30 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     ),
     comparisons,
     tables,
+    factors,
   };
+
+  /**
+   * The study's factor names: those of the first scenario with `factors`, in its order. Every
+   * scenario must name the same factors (a response curve holds the other factors fixed, which
+   * needs each scenario's value of each); the schema has checked that each value is a finite
+   * number. A factor name is shown in the report, so it holds no control character.
+   */
+  function checkFactors(): string[] {
+    const withFactors = spec.scenarios.findIndex((sc) => sc.factors !== undefined);
+    if (withFactors === -1) return [];
+    const names = Object.keys(spec.scenarios[withFactors].factors!);
+    for (const name of names) checkShownText(name, ["scenarios", withFactors, "factors", name]);
+    spec.scenarios.forEach((sc, i) => {
+      const own = sc.factors === undefined ? [] : Object.keys(sc.factors);
+      const missing = names.filter((n) => !own.includes(n));
+      const extra = own.filter((n) => !names.includes(n));
+      if (missing.length === 0 && extra.length === 0) return;
+      const at = sc.factors === undefined ? place(["scenarios", i]) : extra.length > 0 ? place(["scenarios", i, "factors", extra[0]], true) : place(["scenarios", i, "factors"]);
+      throw manifestMessages.factorsDiffer(at, sc.name, missing, extra, spec.scenarios[withFactors].name);
+    });
+    return names;
+  }
 
   /**
    * The table options. An edge_rows as written must leave room for checkpoints (2 · edge_rows
@@ -220,7 +244,8 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
     const columns: ColumnMap = { ...DEFAULT_COLUMNS, ...spec.columns, ...scenario.columns };
     const layout: Layout = scenario.layout ?? spec.layout ?? "events";
     const maxRowBytes = scenario.max_row_bytes ?? spec.max_row_bytes ?? DEFAULT_ROW_LIMIT;
-    return { name, runs, measures, warmup, analysis, columns, layout, maxRowBytes };
+    const factorValues = factors.map((f) => ({ name: f, value: own(scenario.factors, f) as number }));
+    return { name, runs, measures, warmup, analysis, columns, layout, maxRowBytes, factors: factorValues };
   }
 
   /**

@@ -167,6 +167,7 @@ function toMessage(error: ErrorObject, source: ManifestSource) {
     case "minProperties":
     case "maxProperties": {
       const count = error.data !== null && typeof error.data === "object" ? Object.keys(error.data).length : 0;
+      if (parent.title === "the factors") return manifestMessages.factorCount(source.place(path), count, Number(params.limit));
       return manifestMessages.targetNeedsOneKey(source.place(path), count);
     }
     default:

@@ -49,6 +49,8 @@ export interface ScenarioSpec {
   analysis?: AnalysisSpec;
   max_row_bytes?: number;
   runs: string | (string | RunSpec)[];
+  /** The scenario's value of each factor of the study (response curves, docs/manifest.md). */
+  factors?: Record<string, number>;
   /** Overrides of measure options, by measure name. */
   measures?: Record<string, OverrideSpec>;
 }

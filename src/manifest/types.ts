@@ -133,6 +133,17 @@ export interface Scenario {
   layout: Layout;
   /** The longest row of a run file, in bytes (`max_row_bytes`; the scenario's, else the study's, else 1 MiB). */
   maxRowBytes: number;
+  /**
+   * The scenario's value of each of the study's factors, in the order of `Study.factors` (every
+   * scenario has all of them, or the study has none).
+   */
+  factors: FactorValue[];
+}
+
+/** One factor's value in one scenario: a finite number. */
+export interface FactorValue {
+  name: string;
+  value: number;
 }
 
 export interface Comparison {
@@ -175,4 +186,6 @@ export interface Study {
   measureSources: ReadonlyMap<string, MeasureSource>;
   comparisons: Comparison[];
   tables: TableOptions;
+  /** The factor names of the scenarios' `factors`, in the order the first scenario writes them; empty without factors. */
+  factors: string[];
 }

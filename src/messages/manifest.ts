@@ -327,6 +327,26 @@ export function pairedRunsDiffer(place: Place, a: string, b: string, onlyA: read
   );
 }
 
+/** A scenario's `factors` do not name the factors of the first scenario that has them. */
+export function factorsDiffer(place: Place, scenario: string, missing: readonly string[], extra: readonly string[], first: string): UserError {
+  const parts: string[] = [];
+  if (missing.length > 0) parts.push(`lacks ${missing.length === 1 ? "the factor" : "the factors"} ${list(missing.map(quote))}`);
+  if (extra.length > 0) parts.push(`names ${extra.length === 1 ? "the factor" : "the factors"} ${list(extra.map(quote))} that scenario ${quote(first)} does not`);
+  return located(
+    place,
+    `scenario ${quote(scenario)} ${parts.join(" and ")}; every scenario must give a value to the same factors as scenario ${quote(first)}, the first with factors`,
+    "Give every scenario the same factor names under factors:, each with its value in that scenario, or leave factors out everywhere.",
+  );
+}
+
+export function factorCount(place: Place, count: number, limit: number): UserError {
+  return located(
+    place,
+    count === 0 ? "factors is empty" : `factors names ${count} factors, more than the ${limit} allowed`,
+    count === 0 ? "Name at least one factor with its value, such as {booths: 3}, or leave factors out." : `Keep at most ${limit} factors per scenario.`,
+  );
+}
+
 export function mserCountMeasure(place: Place, measure: string): UserError {
   return located(place, `the MSER-5 warm-up cannot use the count measure ${quote(measure)}`, "Name a level, utilization or observation measure.");
 }

@@ -154,6 +154,42 @@ export interface ScenarioResult {
   warmup_estimate?: WarmupEstimate;
   analysis?: { method: "batch-means"; batches: number };
   checks?: Check[];
+  /** The scenario's value of each factor (the manifest's `factors`), in the study's factor order; absent without factors. */
+  factors?: Record<string, number>;
+}
+
+/**
+ * One point of a response curve: one scenario's interval of the measure (the one its summary row
+ * shows: across runs, or from the batch means of its single long run), placed at its factor value.
+ */
+export interface CurvePoint {
+  scenario: string;
+  /** The scenario's value of the curve's factor. */
+  value: number;
+  /** Mean and interval bounds, exactly the scenario's summary (null where the summary has none). */
+  mean: number | null;
+  ci_low: number | null;
+  ci_high: number | null;
+  /** The values the interval rests on: runs with a value, or the batches of one long run. */
+  n: number;
+  /** Only when the interval is from batch means ("batch-means"); absent: across runs. */
+  interval_method?: IntervalMethod;
+}
+
+/** The points of one curve that share the values of the other factors, in ascending factor value. */
+export interface CurveGroup {
+  /** The values of the other factors, in the study's factor order (empty with one factor). */
+  fixed: Record<string, number>;
+  points: CurvePoint[];
+}
+
+/** A measure against one factor: one group per combination of the other factors with at least two points. */
+export interface ResponseCurve {
+  measure: string;
+  factor: string;
+  groups: CurveGroup[];
+  /** Scenarios on no curve of this factor: their combination of the other factors has no second factor value. */
+  alone?: string[];
 }
 
 /** One comparison of two scenarios in one measure (study/compare.ts). */
@@ -200,4 +236,6 @@ export interface Results {
   warmup: WarmupAsWritten;
   scenarios: ScenarioResult[];
   comparisons?: Comparison[];
+  /** Each measure against each factor (docs/manifest.md, "Factors and response curves"); absent without factors. */
+  response_curves?: ResponseCurve[];
 }

@@ -24,6 +24,7 @@ export interface InputRecord {
 
 /** One calculation table written under DIR/tables. */
 export interface TableRecord {
+  /** The scenario; the empty text for a response curve's table, which spans scenarios. */
   scenario: string;
   /** null for a scenario-level table (interval arithmetic). */
   run: string | null;
@@ -48,6 +49,8 @@ export interface TableRecord {
    * which comparison of results.json's `comparisons` it is (0-based) and its two sides.
    */
   comparison?: { index: number; a: string; b: string; method: string };
+  /** Only on a response curve's table (kind "response-curve"): the factor the measure is drawn against. */
+  curve?: { factor: string };
 }
 
 /** Step-by-step arithmetic of one across-run interval, labelled with what it summarises. */

@@ -575,3 +575,84 @@ export function timeAtValueChart(
     },
   });
 }
+
+/** One point of a response curve chart: a scenario's mean and interval at its factor value. */
+export interface CurveChartPoint {
+  scenario: string;
+  value: number;
+  mean: number;
+  low: number | null;
+  high: number | null;
+  /** The mean as the report rounds it, for the point's description. */
+  label: string;
+}
+
+/** Most distinct factor values the x axis marks one by one; more get the axis' own ticks. */
+const MAX_FACTOR_TICKS = 12;
+
+/**
+ * A measure against one factor: each scenario's mean as a dot at its factor value, its interval
+ * as a vertical bar with end ticks, and the dots of a group joined by a line in factor order. One
+ * panel per group (a combination of the other factors), labelled with it, only when there is more
+ * than one group; panels share both axes. Groups are faceted by key (`nameKey`), in the given
+ * order, so no label can meet a member of a plain object.
+ */
+export function responseCurveChart(args: {
+  groups: { label: string; points: CurveChartPoint[] }[];
+  factorTitle: string;
+  valueTitle: string;
+}): TopLevelSpec {
+  const values = args.groups.flatMap((g, gi) => g.points.map((p, pi) => ({
+    ...p, group_key: nameKey(g.label), group_order: gi, point_order: pi,
+    about: `${g.label === "" ? "" : `${g.label}: `}${p.scenario} at ${p.value}: mean ${p.label}`,
+  })));
+  const ticks = [...new Set(values.map((v) => v.value))].sort((a, b) => a - b);
+  const x = {
+    field: "value", type: "quantitative", title: axisTitle(args.factorTitle), scale: { zero: false, padding: 16 },
+    ...(ticks.length <= MAX_FACTOR_TICKS ? { axis: { values: ticks, format: "~g", grid: false } } : {}),
+  } as const;
+  const y = { field: "mean", type: "quantitative", title: axisTitle(args.valueTitle), scale: { zero: false } } as const;
+  const description = { field: "about" } as const;
+  const withInterval = "datum.low !== null && datum.high !== null";
+  const layer = [
+    {
+      name: "curve_line",
+      mark: { type: "line", color: PALETTE.tide, strokeWidth: 1.5 },
+      encoding: { x, y, order: { field: "point_order" } },
+    },
+    {
+      name: "curve_interval",
+      mark: { type: "rule", strokeWidth: 2.5, color: PALETTE.kiln },
+      transform: [{ filter: withInterval }],
+      encoding: { x, y: { field: "low", type: "quantitative", title: axisTitle(args.valueTitle) }, y2: { field: "high" }, description },
+    },
+    {
+      name: "curve_low",
+      mark: { type: "tick", orient: "horizontal", thickness: 2, size: 12, color: PALETTE.kiln },
+      transform: [{ filter: withInterval }],
+      encoding: { x, y: { field: "low", type: "quantitative" } },
+    },
+    {
+      name: "curve_high",
+      mark: { type: "tick", orient: "horizontal", thickness: 2, size: 12, color: PALETTE.kiln },
+      transform: [{ filter: withInterval }],
+      encoding: { x, y: { field: "high", type: "quantitative" } },
+    },
+    {
+      name: "curve_point",
+      mark: { type: "point", filled: true, size: 60, color: PALETTE.ink, opacity: 1 },
+      encoding: { x, y, description },
+    },
+  ];
+  if (args.groups.length <= 1) return { $schema: SCHEMA, width: WIDTH, height: 220, data: { values }, layer, config: config() } as unknown as TopLevelSpec;
+  const header = { labelAngle: 0, labelAlign: "left" as const, labelAnchor: "start" as const, labelExpr: NAME_LABEL, title: null };
+  return {
+    $schema: SCHEMA,
+    data: { values },
+    facet: { field: "group_key", type: "nominal", sort: { field: "group_order", op: "min" }, header, title: null },
+    columns: 2,
+    spacing: 16,
+    spec: { width: Math.floor((WIDTH - 16) / 2), height: 180, layer },
+    config: config(),
+  } as unknown as TopLevelSpec;
+}

@@ -15,6 +15,7 @@ import { intervalTable, intervalTablePath, PREVIEW_RUNS, tableFile } from "./tab
 import { type ResolvedWarmup, resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
 import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
+import { curveTableFile, responseCurves } from "./responseCurves.js";
 import * as summaryMessages from "../messages/summary.js";
 import { runsWithoutValue } from "../messages/warnings.js";
 
@@ -78,6 +79,7 @@ interface ScenarioWork {
  *          │                │  checks, its values into the samples; then only its small results kept
  *          │                └─ per measure: across-run summaries with their interval arithmetic
  *          ├─ comparisons between scenarios (Bonferroni over all of them), each with its table
+ *          ├─ response curves: each measure against each factor, points = scenario summaries
  *          └─ results.json + tables + chart data + audit records  ──▶  StudyOutcome
  *
  * Runs end in any order (worker threads); what each leaves is kept at its index and the samples
@@ -179,6 +181,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
   for (const { scenario, warmup, runs, samples } of works) {
     for (const message of warmup.warnings) outcome.warnings.push({ scenario: scenario.name, run: null, measure: null, message });
     const sc: ScenarioResult = { name: scenario.name, runs: runs.map((r) => r.result), summary: Object.create(null) };
+    if (scenario.factors.length > 0) sc.factors = Object.fromEntries(scenario.factors.map((f) => [f.name, f.value]));
     if (scenario.warmup.type !== "none") sc.warmup = warmup.time;
     if (warmup.estimate !== null) sc.warmup_estimate = warmup.estimate;
     if (scenario.analysis.type === "batch-means") sc.analysis = { method: "batch-means", batches: scenario.analysis.batches };
@@ -217,6 +220,13 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
   for (const c of comparisonArithmetic(study, outcome.results)) {
     outcome.comparisons.push(c);
     const f = comparisonTableFile(c);
+    writeTable(f.record.file, f.csv);
+    outcome.tables.push(f.record);
+  }
+  const curves = responseCurves(study, outcome.results);
+  if (curves.length > 0) outcome.results.response_curves = curves;
+  for (const curve of curves) {
+    const f = curveTableFile(curve);
     writeTable(f.record.file, f.csv);
     outcome.tables.push(f.record);
   }

@@ -56,7 +56,7 @@ const SCENARIOS = `scenarios:
 `;
 const SCENARIO_NAMES = ["two-booths", "three-booths"];
 const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "layout", "analysis", "tables", "max_row_bytes", "scenarios", "measures", "compare"];
-const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "layout", "analysis", "max_row_bytes", "runs", "measures"];
+const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "layout", "analysis", "max_row_bytes", "factors", "runs", "measures"];
 const OVERRIDABLE = ["capacity", "capacity_initial", "initial", "quantiles", "within", "at_least", "target"];
 
 describe("loadStudy: reading and YAML syntax", () => {

@@ -92,6 +92,10 @@ const TABLE_EXPLAIN: Record<string, { label: string; text: string }> = {
     label: "share of time at or above each threshold",
     text: "One row per threshold k: intervals_at_or_above counts the level's intervals with value ≥ k, time is their total duration inside the window, duration is the window's length, and share = time / duration.",
   },
+  "response-curve": {
+    label: "response curve points",
+    text: "One row per point: group gives the values of the other factors, factor_value the scenario's value of this factor; n, mean, ci_low and ci_high are the scenario's summary interval exactly as in results.json, whose arithmetic is in interval_table (across runs; a batch-means point's batch values are in the batch means of this appendix).",
+  },
   time_at_value: {
     label: "time at each value",
     text: "One row per distinct value: time is how long the level held that value inside the window, duration is the window's length, and share = time / duration; the shares add up to 1.",
@@ -146,7 +150,8 @@ function calcTable(t: TableRecord, preview: NonNullable<TableRecord["preview"]>,
   if (hiddenHere > 0 || hiddenTotal > 0) parts.push("Rows not shown here are in that file.");
   parts.push(`SHA-256 ${t.sha256}.`);
   const extra = TABLE_EXPLAIN[t.kind];
-  const base = t.run === null ? `${t.measure} — ${t.scenario}` : `${t.measure} — ${t.scenario} — run ${t.run}`;
+  const base = t.curve !== undefined ? `${t.measure} — against ${t.curve.factor}`
+    : t.run === null ? `${t.measure} — ${t.scenario}` : `${t.measure} — ${t.scenario} — run ${t.run}`;
   const heading = extra ? `${base} — ${extra.label}` : base;
   return { id, heading, explain: extra?.text ?? null, file: t.file, sha256: t.sha256, columns: t.columns, numeric, rows, closing, note: parts.join(" ") };
 }

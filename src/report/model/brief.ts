@@ -90,6 +90,15 @@ export function briefSentences(ctx: ReportContext): BriefSentence[] {
     say(`${none.length === 1 ? "One figure has" : `${count(none.length, "figure")} have`} no interval (the table's notes say why): ${rowNames(ctx, none)}.`);
   }
 
+  // Response curves: which factors, where they are drawn.
+  const curves = results.response_curves ?? [];
+  if (curves.length > 0) {
+    const factors = [...new Set(curves.map((c) => c.factor))];
+    const first = ctx.measureIds[study.measureNames.indexOf(curves[0].measure)];
+    say(`Each measure is also drawn against ${factors.length === 1 ? "the factor" : "the factors"} ${names(factors.map(q))}, each point a scenario's interval above (response curves, no fitted model).`,
+      first === undefined ? null : `#${first}`, "(first curve)");
+  }
+
   if (b.warnings === 0) say("The study produced no warnings.");
   else say(`The study produced ${count(b.warnings, "warning")}.`, "#warnings", "(warnings)");
   return out;

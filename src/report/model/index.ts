@@ -20,7 +20,7 @@ import { appendixView } from "./appendix.js";
 import { comparisonsView } from "./comparisons.js";
 import { coverView } from "./cover.js";
 import { measureSection } from "./measure.js";
-import { LIMITATIONS, METHODS } from "./methods.js";
+import { CURVE_CAUTION, LIMITATIONS, METHODS } from "./methods.js";
 import { summaryView } from "./summary.js";
 import type { ReportModel } from "./view.js";
 import { warmupSection } from "./warmup.js";
@@ -73,7 +73,7 @@ export function buildReportModel(
     measures,
     comparisons,
     methods: METHODS.map((n, i) => ({ id: anchor("method", i + 1, n.term), ...n })),
-    limitations: LIMITATIONS,
+    limitations: (outcome.results.response_curves ?? []).length > 0 ? [...LIMITATIONS, CURVE_CAUTION] : LIMITATIONS,
     warnings,
     appendix: appendixView(ctx),
   };

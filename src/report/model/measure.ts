@@ -8,6 +8,7 @@ import type { BatchMeansReading, Readings, RunStats, StudyOutcome } from "../../
 import { formatPercent, MISSING } from "../number.js";
 import { key, type ReportContext } from "./anchors.js";
 import { measureCharts } from "./measureCharts.js";
+import { fixedText } from "../../study/responseCurves.js";
 import { type Cell, type MeasureSection, tableView, type TableView } from "./view.js";
 import { batchMeansOf, capacityText, figureLabel, fmt, intervalText, kindLabel, link, primaryName, q, text } from "./words.js";
 
@@ -18,6 +19,7 @@ export function measureSection(ctx: ReportContext, name: string, mi: number): Me
   const m = measureOf(scenarioNames[0], name);
   const charts = measureCharts(ctx, name, m, id);
   const needed = runsNeededTable(m, results.scenarios);
+  const curves = curvesTable(m, ctx);
   return {
     id,
     name: m.label,
@@ -30,7 +32,32 @@ export function measureSection(ctx: ReportContext, name: string, mi: number): Me
     extras: extrasTable(m, results.scenarios, ivId),
     batchMeans: batchMeansTable(m, results.scenarios, ctx.outcome.readings, batchIds),
     runsNeeded: needed === null ? null : { ...needed, id: ctx.runsNeededId(name) },
+    ...(curves === null ? {} : { curves }),
   };
+}
+
+/**
+ * The points of the measure's response curves: one row per point, its mean and interval linked
+ * to the arithmetic of the scenario's summary interval (across runs) or to its batch values.
+ */
+function curvesTable(m: Measure, ctx: ReportContext): TableView | null {
+  const rows: Cell[][] = [];
+  for (const curve of ctx.results.response_curves ?? []) {
+    if (curve.measure !== m.name) continue;
+    for (const g of curve.groups) for (const p of g.points) {
+      const href = p.interval_method === "batch-means" ? (ctx.batchIds.get(key(p.scenario, m.name)) ?? null) : ctx.ivId(p.scenario, m.name, "value");
+      rows.push([
+        text(curve.factor), text(fixedText(g.fixed, fmt) || MISSING), text(p.scenario), text(fmt(p.value)),
+        link(fmt(p.mean), href), link(intervalText(p.ci_low, p.ci_high), href), text(fmt(p.n)),
+      ]);
+    }
+  }
+  if (rows.length === 0) return null;
+  return tableView(
+    `${m.label}: the points of its response curves (${m.unit === null ? "" : `values in ${m.unit}; `}each point is its scenario's summary interval, linked to its arithmetic)`,
+    ["Factor", "Other factors", "Scenario", "Factor value", "Mean", "Interval", "n"],
+    rows,
+  );
 }
 
 function statement(measure: Measure, scenarios: Scenario[], unit: string): string {

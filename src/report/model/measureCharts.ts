@@ -4,7 +4,8 @@
  */
 import type { TopLevelSpec } from "vega-lite";
 import type { Measure, Study } from "../../manifest/types.js";
-import type { LevelTrace, StudyOutcome, TimeAtValueMean } from "../../outcome/index.js";
+import type { LevelTrace, ResponseCurve, StudyOutcome, TimeAtValueMean } from "../../outcome/index.js";
+import { fixedText } from "../../study/responseCurves.js";
 import {
   ecdfChart,
   ecdfSteps,
@@ -13,6 +14,7 @@ import {
   intervalChart,
   MAX_ECDF_POINTS,
   MAX_HISTOGRAM_VALUES,
+  responseCurveChart,
   runsChart,
   timeAtValueChart,
   traceChart,
@@ -85,7 +87,32 @@ export function measureCharts(ctx: ReportContext, name: string, m: Measure, id: 
     const tav = timeAtValueView(m, outcome.readings.timeAtValue, unit);
     if (tav !== null) charts.push({ id: chartId("time-at-value"), ...tav });
   }
+  for (const curve of results.response_curves ?? []) {
+    if (curve.measure !== name) continue;
+    const view = curveView(m, curve, study.confidence);
+    if (view !== null) charts.push({ id: chartId("response-curve"), ...view });
+  }
   return charts;
+}
+
+/** The chart of a measure against one factor (results.json `response_curves`), or null when no point has a mean. */
+function curveView(m: Measure, curve: ResponseCurve, confidence: number): Omit<Chart, "id"> | null {
+  const groups = curve.groups.map((g) => ({
+    label: fixedText(g.fixed, fmt),
+    points: g.points.flatMap((p) => (p.mean === null ? [] : [{ scenario: p.scenario, value: p.value, mean: p.mean, low: p.ci_low, high: p.ci_high, label: fmt(p.mean) }])),
+  })).filter((g) => g.points.length > 0);
+  if (groups.length === 0) return null;
+  const others = Object.keys(curve.groups[0]?.fixed ?? {});
+  const missing = curve.groups.flatMap((g) => g.points.filter((p) => p.mean === null || p.ci_low === null).map((p) => q(p.scenario)));
+  const caption = [
+    `${m.label} against ${q(curve.factor)}: each scenario's mean (dot) and ${formatPercent(confidence)} confidence interval (bar), the interval of its summary row, ` +
+      `joined in order of ${q(curve.factor)}` + (m.unit === null ? "." : `; unit: ${m.unit}.`),
+    groups.length > 1 ? `One panel per value of ${others.map(q).join(" and ")}.` : others.length > 0 ? `${groups[0].label}.` : "",
+    "The lines only guide the eye: no value between two points was simulated, and no model is fitted.",
+    missing.length > 0 ? `Without an interval: ${missing.join(", ")}.` : "",
+    curve.alone !== undefined ? `Not on this curve (no other value of ${q(curve.factor)} with the same other factors): ${curve.alone.map(q).join(", ")}.` : "",
+  ].filter((x) => x !== "").join(" ");
+  return { caption, spec: responseCurveChart({ groups, factorTitle: curve.factor, valueTitle: valueTitle(m, false) }) };
 }
 
 /** The empirical distribution chart of an observation measure, or null without samples. */

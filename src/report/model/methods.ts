@@ -103,6 +103,13 @@ export const METHODS: Omit<MethodNote, "id">[] = [
   },
 ];
 
+/**
+ * The caution of the response curves, shown after the others when the study has any: what a
+ * curve's points assume and what its lines do not say.
+ */
+export const CURVE_CAUTION = "Each point of a response curve is its scenario's own interval, with the assumptions of that interval; " +
+  "the points are not jointly at the stated confidence, and the lines between them only guide the eye: no factor value between two points was simulated and no model is fitted, so a curve says nothing about values between or beyond its points.";
+
 export const LIMITATIONS = [
   "The report summarises what the simulation model produced. Whether the model represents the real system (its logic, its input distributions, its data) is outside this tool and has to be established separately.",
   "Each interval assumes that the run values of a scenario are independent and identically distributed (separate random-number streams, same settings) and roughly normal; with few runs or skewed values the stated confidence is approximate.",

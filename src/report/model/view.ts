@@ -115,6 +115,8 @@ export interface MeasureSection {
   extras: TableView | null;
   batchMeans: TableView | null;
   runsNeeded: TableView | null;
+  /** The points of the measure's response curves (results.json `response_curves`); absent without them. */
+  curves?: TableView;
 }
 
 export interface MethodNote {
