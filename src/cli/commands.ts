@@ -37,18 +37,17 @@ export async function report(
   const { makeReport } = await story();
   mark("report modules loaded");
   const r = await makeReport(manifest, {
-    out: o.out,
-    force: o.force ?? false,
-    pdf: o.pdf ?? false,
-    edition: o.edition,
-    paper: o.paper,
-    chrome: o.chrome,
-    onProgress: progressTo(o.quiet),
+    ...reportOutput(o),
     onStudy: (study) => noteWorkers(study, o.workers),
     workers: o.workers,
     fromSummaries: o.fromSummaries,
   });
   summarize(r.dir, r.outcome.warnings.length, Date.now() - started, r.pdfPages);
+}
+
+/** What a report writes and how it tells its progress: the same for a local report and one on Slurm. */
+function reportOutput(o: ReportFlags) {
+  return { out: o.out, force: o.force ?? false, pdf: o.pdf ?? false, edition: o.edition, paper: o.paper, chrome: o.chrome, onProgress: progressTo(o.quiet) };
 }
 
 interface ReportFlags {
@@ -79,16 +78,10 @@ async function reportOnSlurm(manifest: string, o: ReportFlags, started: number):
   const { clusterReport } = await import("../cluster/clusterReport.js");
   const wait = o.wait ?? true;
   const r = await clusterReport(manifest, {
-    out: o.out,
+    ...reportOutput(o),
     work: o.work,
-    force: o.force ?? false,
-    pdf: o.pdf ?? false,
-    edition: o.edition,
-    paper: o.paper,
-    chrome: o.chrome,
     wait,
     slurm: { partition: o.partition, account: o.account, memPerTask: o.memPerTask, timePerTask: o.timePerTask, maxRunning: o.maxRunning, sbatchArgs: o.sbatchArg ?? [] },
-    onProgress: progressTo(o.quiet),
     pollSeconds: pollSeconds(),
   });
   const jobs = r.jobs.runs !== null ? `job array ${r.jobs.runs} (${r.ran} runs) and report job ${r.jobs.report}` : `report job ${r.jobs.report}`;
