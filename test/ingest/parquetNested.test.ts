@@ -102,6 +102,9 @@ describe("a Parquet file with nested columns", () => {
       { series: 0, time: 1.5, value: 1, entity: undefined, line: 3 },
       { series: 0, time: 4, value: 0, entity: undefined, line: 4 },
     ]);
+    // The same file with the entity column mapped onto the struct: refused before any row.
+    const e = await rejection(readParquet({ path, display: "runs/e.parquet", columns: { ...COLUMNS, entity: "detail" }, series: [{ name: "arrive", entity: true }], onRow: () => {} }));
+    expect(e.message).toBe(ingestMessages.parquetNestedColumn("runs/e.parquet", "detail", "a nested group").message);
   });
 
   it("a nested column the study reads (where, or a column of the layout) is refused naming the file and the column", async () => {
