@@ -68,6 +68,7 @@ function checkHeader(found: readonly string[] | null, display: string, needed: {
 /** `layout: events` read as records: used when a measure filters rows with `where`. */
 class EventsLayout implements LayoutSink {
   readonly wanted: string[];
+  readonly numeric: boolean[];
 
   constructor(
     private readonly router: RowRouter,
@@ -75,6 +76,7 @@ class EventsLayout implements LayoutSink {
     private readonly display: string,
   ) {
     this.wanted = [columns.time, columns.series, columns.value, columns.entity, ...router.attributes];
+    this.numeric = this.wanted.map((_, k) => k === 0 || k === 2);
   }
 
   header(found: readonly string[] | null): void {
@@ -102,6 +104,7 @@ class EventsLayout implements LayoutSink {
 /** `layout: entities`: see the module comment. */
 class EntitiesLayout implements LayoutSink {
   readonly wanted: string[];
+  readonly numeric: boolean[];
   private readonly events: string[];
   private readonly slots: (SeriesSlot | undefined)[];
   /** The order of the event columns at one time on one row: a pair's first before its second. */
@@ -118,6 +121,7 @@ class EntitiesLayout implements LayoutSink {
   ) {
     this.events = router.requestedNames;
     this.wanted = [columns.entity, ...this.events, ...router.attributes];
+    this.numeric = this.wanted.map((_, k) => k >= 1 && k <= this.events.length);
     this.slots = new Array<SeriesSlot | undefined>(this.events.length).fill(undefined);
     this.times = new Float64Array(this.events.length);
     this.pairs = options.pairs
@@ -206,6 +210,7 @@ function ranks(n: number, pairs: readonly [number, number][]): Int32Array {
 /** `layout: levels`: see the module comment. */
 class LevelsLayout implements LayoutSink {
   readonly wanted: string[];
+  readonly numeric: boolean[];
   private readonly levels: string[];
   private readonly slots: (SeriesSlot | undefined)[];
   private lastTime = -Infinity;
@@ -218,6 +223,7 @@ class LevelsLayout implements LayoutSink {
   ) {
     this.levels = router.requestedNames;
     this.wanted = [columns.time, ...this.levels, ...router.attributes];
+    this.numeric = this.wanted.map((_, k) => k <= this.levels.length);
     this.slots = new Array<SeriesSlot | undefined>(this.levels.length).fill(undefined);
   }
 

@@ -78,6 +78,8 @@ export interface ParquetColumn {
   type: string;
   /** Whether its cells come out as numbers (integers and floating point), texts, or other values. */
   kind: "number" | "text" | "other";
+  /** Whether it is not one plain value per row: a group (a list, a struct, a map) or a repeated field. */
+  nested: boolean;
 }
 
 /** One row group: its 0-based first row and its number of rows. */
@@ -142,9 +144,11 @@ export class ParquetRunFile {
         ? { name: c.element.name, element: c.element, path: [tree, c], maxDefinition: getMaxDefinitionLevel([tree, c]) }
         : null,
     );
-    this.columns = tree.children.map((c) => {
+    this.columns = tree.children.map((c, i) => {
       const nested = c.children.length > 0;
-      return { name: c.element.name, type: typeName(c.element, nested), kind: nested ? "other" : kindOf(c.element) };
+      const repeated = !nested && this.flat[i] === null;
+      const type = (repeated ? "a repeated " : "") + typeName(c.element, nested);
+      return { name: c.element.name, type, kind: nested ? "other" : kindOf(c.element), nested: this.flat[i] === null };
     });
     let start = 0;
     this.groups = metadata.row_groups.map((g) => {

@@ -60,6 +60,7 @@ export async function readParquet(opts: ReadOptions, probe: ParquetProbe = newPr
     const entityCol = table.wantsEntity ? file.indexOf(columns.entity) : -1;
     if (table.wantsEntity && entityCol < 0) throw ingestMessages.parquetMissingEntity(display, columns.entity, names, table.entitySeries);
     const roles = [timeCol, seriesCol, valueCol, entityCol].filter((i) => i >= 0).map((i) => names[i]);
+    refuseNested(file.columns, roles, display);
     const cells = new RoleCells(display, file.columns[timeCol], file.columns[seriesCol], file.columns[valueCol], file.columns[entityCol]);
     const digesting = file.digest(opts.storedBytes);
     digesting.catch(() => {}); // awaited below; a failure of the rows comes first
@@ -153,6 +154,7 @@ export async function readParquetRows(opts: ParquetRowsOptions, probe: ParquetPr
     const asked = opts.onHeader?.(header);
     const wanted = header.map((name) => asked === undefined || asked.includes(name));
     const read = header.filter((_, i) => wanted[i]);
+    if (asked !== undefined) refuseNested(file.columns, read, display);
     const digesting = file.digest(opts.storedBytes);
     digesting.catch(() => {});
     const cells: Cell[] = new Array<Cell>(header.length).fill(null);
@@ -174,6 +176,15 @@ export async function readParquetRows(opts: ParquetRowsOptions, probe: ParquetPr
   } finally {
     await file.close();
   }
+}
+
+/**
+ * Refuses, before any row is read, a column of `names` that is nested (a list, a struct, a map, a
+ * repeated field): its cells are not one value per row. Nested columns no one reads are left alone.
+ */
+function refuseNested(columns: readonly ParquetColumn[], names: readonly string[], display: string): void {
+  const c = columns.find((col) => col.nested && names.includes(col.name));
+  if (c !== undefined) throw ingestMessages.parquetNestedColumn(display, c.name, c.type);
 }
 
 /** One decoded cell as the plain row source gives it. */

@@ -9,7 +9,9 @@
  *
  * A reader hands over, for each row, one cell per name of `sink.wanted` (in that order): the
  * cell's text (CSV, trimmed of surrounding spaces), a JSON string, number or boolean as it is,
- * or null when the cell is empty or the column absent. It calls `header` first with the names
+ * or null when the cell is empty or the column absent. A CSV cell of a column the sink marks
+ * `numeric` (a time or a level), unquoted and a plain decimal, comes as its number instead, read
+ * from the bytes by the event reader's `scanDecimal` (no string made). It calls `header` first with the names
  * the file has (when the format has a header), then `record` in file order, then `finish`.
  * The event layout of contract section 1 keeps its own faster reader (`csvParser.ts`) when no
  * measure filters rows with `where`; everything else goes through here.
@@ -17,6 +19,7 @@
 import * as ingestMessages from "../messages/ingest.js";
 import type { UserError } from "../messages/error.js";
 import { type ChunkParser, DEFAULT_ROW_LIMIT, ROW_LIMIT_MAX } from "./feeder.js";
+import { scanDecimal, scanned } from "./decimal.js";
 import { describe, JsonLinesReader } from "./jsonLinesParser.js";
 
 /** One cell as a reader gives it: null when empty or absent. */
@@ -26,6 +29,12 @@ export type Cell = string | number | boolean | null;
 export interface RecordSink {
   /** The column names the layout reads, in the order `record`'s cells come in. */
   readonly wanted: readonly string[];
+  /**
+   * For each name of `wanted`, whether the layout reads its cells only as numbers: a reader may
+   * then give such a cell as the number it reads (the same double `parseDecimalText` gives its
+   * text) instead of its text. A cell that is not a plain decimal still comes as text.
+   */
+  readonly numeric?: readonly boolean[];
   /** The names of the file's columns, before any record; null for a format without a header (JSON Lines). */
   header(found: readonly string[] | null): void;
   /** One row: `cells[k]` is the cell of column `wanted[k]`; `line` is the row's 1-based line (or position). */
@@ -49,6 +58,8 @@ export class CsvRecords implements ChunkParser {
   private slotOf: Int32Array = new Int32Array(0);
   /** For a field that fills more than one wanted name (a `where` on a column a layout reads too): the further indices. */
   private moreSlots: Map<number, number[]> | null = null;
+  /** For each field of the header, whether its unquoted cells are read as numbers in place (`RecordSink.numeric`). */
+  private numberAt: Uint8Array = new Uint8Array(0);
   private readonly cells: Cell[];
   private readonly all: string[] = [];
 
@@ -95,7 +106,7 @@ export class CsvRecords implements ChunkParser {
     cells.fill(null);
     if (header) this.all.length = 0;
     for (;;) {
-      let text: string | null = null;
+      let text: string | number | null = null;
       const slot = header ? -2 : field < this.width ? this.slotOf[field] : -1;
       let q: number;
       if (p < end && buf[p] === QUOTE) {
@@ -127,14 +138,19 @@ export class CsvRecords implements ChunkParser {
         q = p;
         while (q < end && buf[q] !== COMMA && buf[q] !== LF) q++;
         if (q === end && !final) return -1;
-        if (slot !== -1) {
+        if (slot >= 0 && this.numberAt[field] === 1 && q > p) {
+          // A time cell read straight from the bytes; anything `scanDecimal` declines is read as text below.
+          const x = scanDecimal(buf, p, q);
+          if (x === x && scanned.end === q) text = x;
+        }
+        if (slot !== -1 && text === null) {
           let b = q;
           if (b > p && buf[b - 1] === CR) b--;
           const t = buf.toString("utf8", p, b).replace(SPACE, "");
           text = t;
         }
       }
-      if (header) this.all.push(text ?? "");
+      if (header) this.all.push(String(text ?? ""));
       else if (slot >= 0 && text !== "" && text !== null) {
         cells[slot] = text;
         const more = this.moreSlots?.get(field);
@@ -165,6 +181,7 @@ export class CsvRecords implements ChunkParser {
     const names = this.all.slice();
     this.width = names.length;
     this.slotOf = new Int32Array(names.length).fill(-1);
+    this.numberAt = new Uint8Array(names.length);
     const seen = new Map<string, number>();
     names.forEach((name, i) => {
       const first = seen.get(name);
@@ -175,6 +192,8 @@ export class CsvRecords implements ChunkParser {
       const slots = this.sink.wanted.flatMap((w, k) => (w === name ? [k] : []));
       this.slotOf[i] = slots.length > 0 ? slots[0] : -1;
       if (slots.length > 1) (this.moreSlots ??= new Map()).set(i, slots.slice(1));
+      // A column that also fills a `where` keeps its text: `where` compares texts as written.
+      else if (slots.length === 1 && this.sink.numeric?.[slots[0]] === true) this.numberAt[i] = 1;
     });
     this.sink.header(names);
   }

@@ -453,6 +453,15 @@ export function parquetUnusableType(file: string, row: number, column: string, r
   );
 }
 
+/** A Parquet column the study reads that holds a list, a struct, a map or repeated values instead of one value per row. */
+export function parquetNestedColumn(file: string, column: string, type: string): UserError {
+  return located(
+    { file },
+    `column \`${column}\` is ${type}: it holds more than one value per row (a list, a struct, a map or a repeated field), and Sojourn reads only columns with one number or text per row`,
+    `write \`${column}\` as a flat column (one value per row, for example each field of a struct as a column of its own), or read another column in its place in the manifest (\`columns\` or \`where\`)`,
+  );
+}
+
 /** A NaN or infinite double in a Parquet time or value column. */
 export function parquetNotFinite(file: string, row: number, column: string, role: "time" | "value", x: number): UserError {
   return located(

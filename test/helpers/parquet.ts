@@ -77,3 +77,15 @@ export function eventsParquet(rows: readonly EventRow[], options: ParquetOptions
     options,
   );
 }
+
+/** A Parquet schema element as hyparquet-writer takes it (the flattened schema, root first). */
+export type SchemaNode = Parameters<typeof parquetWriteBuffer>[0]["schema"] extends (infer E)[] | undefined ? E : never;
+
+/**
+ * A Parquet file with the schema written out (for columns the writer does not infer, such as
+ * lists and structs): `schema` is the flattened tree, root first, each group with its
+ * `num_children`; `columns` give the top-level columns' cells (arrays for a list, objects for a struct).
+ */
+export function parquetWithSchema(schema: SchemaNode[], columns: { name: string; data: unknown[] }[]): Buffer {
+  return Buffer.from(parquetWriteBuffer({ schema, columnData: columns as ColumnSource[], codec: "SNAPPY" }));
+}

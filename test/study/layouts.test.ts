@@ -7,33 +7,7 @@ import { describe, expect, it } from "vitest";
 import { departureOrder, entityCsv, entityMeasures, eventAndLevelCsv, LEVEL_MEASURES, shuffled, simulate, type ModelOptions } from "../helpers/layoutModel.js";
 import { studyOf } from "../helpers/runStudyFrom.js";
 import { parquetFile } from "../helpers/parquet.js";
-
-type Study = Awaited<ReturnType<typeof studyOf>>;
-
-/** A calculation table's CSV text without its columns of run-file lines (`line`, `start_line`). */
-function withoutLine(csv: string): string {
-  const rows = csv.split("\n");
-  const drop = new Set(rows[0].split(",").flatMap((name, j) => (name === "line" || name === "start_line" ? [j] : [])));
-  return rows.map((r) => r.split(",").filter((_, j) => !drop.has(j)).join(",")).join("\n");
-}
-
-/** Run figures, summaries and tables (without `line`) of the named measures. */
-function numbersOf(s: Study, measures: string[]) {
-  const sc = s.outcome.results.scenarios[0];
-  const pick = (m: Record<string, unknown>) => Object.fromEntries(measures.map((k) => [k, m[k]]));
-  const tables = s.tableFiles
-    .filter((t) => measures.some((m) => t.record.file.split("/").pop()!.startsWith(`${m}.`)))
-    .map((t) => [t.record.file, withoutLine(t.csv)])
-    .sort();
-  return { runs: sc.runs.map((r) => pick(r.measures)), summary: pick(sc.summary as Record<string, unknown>), tables };
-}
-
-const ENTITY_NAMES = ["in_queue", "in_system", "wait", "sojourn", "served", "use", "busy_server0", "wait_server1", "gold_wait", "gold_done"];
-const LEVEL_NAMES = ["queue", "busy", "busy_share"];
-
-function manifest(layout: string, end: number, runs: string[], measures: string, extra = ""): string {
-  return `layout: ${layout}\n${extra}scenarios:\n  - {name: s, end: ${end}, runs: [${runs.join(", ")}]}\n${measures}`;
-}
+import { ENTITY_NAMES, layoutManifest as manifest, LEVEL_NAMES, numbersOf } from "../helpers/layoutNumbers.js";
 
 describe("layouts give the same numbers (property over seeded models; identity of contract section 9, common practice)", () => {
   for (let k = 0; k < 12; k++) {
