@@ -132,6 +132,17 @@ export async function clusterTask(work: string, index: string): Promise<void> {
   say(await task(work, Number(index)));
 }
 
+export async function clusterPart(work: string, index: string): Promise<void> {
+  const { clusterPart: part } = await import("../cluster/clusterReport.js");
+  if (!/^\d+$/.test(index)) throw new UserError(`cluster-part: the task index ${JSON.stringify(index)} is not a whole number.\n  What to do: this command is run by the warm-up array of \`report --on slurm\`.`, 2);
+  say(await part(work, Number(index)));
+}
+
+export async function clusterWarmup(work: string): Promise<void> {
+  const { clusterWarmup: warmup } = await import("../cluster/clusterReport.js");
+  say(await warmup(work));
+}
+
 export async function clusterReport(work: string): Promise<void> {
   const { clusterFinish } = await import("../cluster/clusterReport.js");
   const dir = await clusterFinish(work, progressTo(false));

@@ -69,6 +69,17 @@ export function program(): Command {
     .argument("<index>", "the task's index (SLURM_ARRAY_TASK_ID)")
     .action(commands.clusterTask);
 
+  p.command("cluster-part", { hidden: true })
+    .description("one task of the warm-up array of `report --on slurm`: the MSER-5 first pass of warm-up task <index>")
+    .argument("<work>", "the work folder")
+    .argument("<index>", "the task's index (SLURM_ARRAY_TASK_ID)")
+    .action(commands.clusterPart);
+
+  p.command("cluster-warmup", { hidden: true })
+    .description("the warm-up job of `report --on slurm`: each MSER-5 scenario's warm-up from its runs' first pass")
+    .argument("<work>", "the work folder")
+    .action(commands.clusterWarmup);
+
   p.command("cluster-report", { hidden: true })
     .description("the report job of `report --on slurm`: build the report folder from the work folder's summaries")
     .argument("<work>", "the work folder")

@@ -4,13 +4,21 @@
  *
  *   submit (here) ── WORK/study.json: the manifest's digest, DIR, the report's date, one task per run
  *       │            reuse: a summary already in WORK/summaries whose digest, plan and run file match
+ *       │            (and the warm-up slices of WORK/warmup, the same way)
  *       │
- *   array job ────── task i: `sojourn cluster-task WORK i` = summarize-run of run i into
+ *   [MSER-5 only] ── warm-up array, one task per run of an MSER-5 scenario: `sojourn cluster-part
+ *       │            WORK i` = the run's first pass (warmupPart) into WORK/warmup/<scenario>/<run>.json;
+ *       │            then the warm-up job (`cluster-warmup WORK`, afterok): estimateWarmup from
+ *       │            those files, the time to WORK/estimates/<scenario>.json, as a local report does
+ *       │
+ *   array job ────── (afterok: the warm-up job, when there is one)
+ *       │            task i: `sojourn cluster-task WORK i` = summarize-run of run i into
  *       │            WORK/summaries/<scenario>/<run>.json (temporary name, then renamed);
  *       │            its exit status to WORK/status/run-i.rc, its log to WORK/logs/run-i.log
  *   report job ───── --dependency=afterok:<array>: `sojourn cluster-report WORK` = makeReport with
- *       │            --from-summaries WORK/summaries and the recorded date, so DIR is the local
- *       │            report byte for byte; exit status to WORK/status/report.rc
+ *       │            --from-summaries WORK/summaries, the warm-ups estimated again from WORK/warmup
+ *       │            and the recorded date, so DIR is the local report byte for byte; exit
+ *       │            status to WORK/status/report.rc
  *   wait (here) ──── squeue while the jobs are known, the status files always: progress, then the
  *                    outcome, or the first failed run with its log (nothing replaced DIR)
  *
@@ -18,19 +26,20 @@
  * of the tasks being submitted are removed before a submission.
  */
 import { existsSync, mkdirSync, readdirSync, readFileSync, realpathSync, rmSync, statSync, writeFileSync, renameSync } from "node:fs";
-import { join, resolve } from "node:path";
+import { dirname, join, resolve } from "node:path";
 import { sha256 } from "../digest.js";
 import { loadStudy } from "../manifest/loadStudy.js";
-import type { Study } from "../manifest/types.js";
+import type { Scenario, Study } from "../manifest/types.js";
 import * as msg from "../messages/cluster.js";
-import { UserError } from "../messages/index.js";
+import { checkReportDir } from "../record/outputDir.js";
 import { writeOwnFiles } from "../record/outputFile.js";
 import { studyInputs } from "../record/ownership.js";
 import { reportDate } from "../record/publish.js";
 import { fileDigest } from "../regularFile.js";
 import { makeReport, type ReportOptions } from "../story/makeReport.js";
 import { decodeSummary, scenarioPlans, summarizeRun, summaryPath } from "../study/runSummary.js";
-import { resolveWarmup } from "../study/warmup.js";
+import { estimateWarmup, resolveWarmup, type ResolvedWarmup, type WarmupPart } from "../study/warmup.js";
+import { decodeWarmupPart, makeWarmupPart, unusable, warmupPlan } from "../study/warmupPart.js";
 import { arrayList, arrayRequest, reportRequest, type TaskRequest } from "./sizing.js";
 import { anyAlive, jobScript, sbatch, shellWord } from "./slurm.js";
 
@@ -86,7 +95,10 @@ interface WorkFile {
   tasks: Task[];
   /** Indices of the tasks the array runs (the others were reused). */
   submitted: number[];
-  jobs: { runs: string | null; report: string };
+  /** The first-pass tasks of the runs of MSER-5 scenarios (`summary`: their part file), and those submitted. */
+  parts: Task[];
+  submitted_parts: number[];
+  jobs: { parts: string | null; warmup: string | null; runs: string | null; report: string };
 }
 
 export interface ClusterOutcome {
@@ -101,6 +113,8 @@ export interface ClusterOutcome {
 }
 
 const SUMMARIES = "summaries";
+const PARTS = "warmup";
+const ESTIMATES = "estimates";
 
 /** The Sojourn command line a job runs: this Node and this build, by absolute path. */
 function sojournCommand(): string[] {
@@ -131,18 +145,45 @@ function writeAtomic(path: string, text: string): void {
   renameSync(temp, path);
 }
 
+/**
+ * One run's warm-up part from WORK, checked: its digest, its plan, and its run file's SHA-256
+ * where the file can be read (as a summary is checked). Throws when it cannot be used.
+ */
+async function readPart(work: string, scenario: Scenario, run: string): Promise<WarmupPart> {
+  const path = join(work, PARTS, summaryPath(scenario.name, run));
+  const plan = warmupPlan(scenario, run);
+  const { part, inputSha256 } = decodeWarmupPart(readFileSync(path, "utf8"), plan, path);
+  let now: string | null = null;
+  try {
+    now = await fileDigest(plan.run.path);
+  } catch {
+    // not readable here: the part is used as it is, and the run's summary carries the warning
+  }
+  if (now !== null && now !== inputSha256) throw msg.warmupStale(path, plan.run.file);
+  return part;
+}
+
+/** The warm-up of an MSER-5 scenario from the parts in WORK, exactly as a local report estimates it. */
+async function warmupFromParts(work: string, scenario: Scenario): Promise<ResolvedWarmup> {
+  const parts: WarmupPart[] = [];
+  for (const run of scenario.runs) parts.push(await readPart(work, scenario, run.id));
+  return estimateWarmup(scenario, parts);
+}
+
 /** Whether the summary of a task can be used as it is: its digest, plan and run file match. */
-async function reusable(work: string, study: Study, task: Task): Promise<boolean> {
+async function reusable(work: string, study: Study, task: Task, estimated: ReadonlyMap<string, ResolvedWarmup | null>): Promise<boolean> {
   const path = join(work, task.summary);
   if (!existsSync(path)) return false;
   const scenario = study.scenarios.find((s) => s.name === task.scenario)!;
-  const warmup = await resolveWarmup(study, scenario);
+  // An MSER-5 scenario's summaries are reused only when its warm-up is known from reused parts.
+  const warmup = scenario.warmup.type === "mser-5" ? estimated.get(scenario.name) : await resolveWarmup(study, scenario);
+  if (warmup === null || warmup === undefined) return false;
   const plan = scenarioPlans(study, scenario, warmup.time)[scenario.runs.findIndex((r) => r.id === task.run)];
   try {
     const a = decodeSummary(readFileSync(path, "utf8"), plan, path);
     return (await fileDigest(plan.run.path)) === a.input.sha256;
   } catch (e) {
-    if (e instanceof UserError || (e as NodeJS.ErrnoException).code !== undefined) return false;
+    if (unusable(e)) return false;
     throw e;
   }
 }
@@ -151,14 +192,15 @@ async function reusable(work: string, study: Study, task: Task): Promise<boolean
 export async function clusterReport(manifest: string, o: ClusterReportOptions): Promise<ClusterOutcome> {
   const progress = o.onProgress ?? (() => {});
   const study = await loadStudy(manifest);
-  const mser = study.scenarios.find((s) => s.warmup.type === "mser-5");
-  if (mser !== undefined) throw msg.clusterMser(mser.name);
   const out = resolve(o.out);
   const work = resolve(o.work ?? `${out}.work`);
+  // DIR is checked now with the report's own rule (and the summaries the report job will read
+  // as inputs), so that a refused folder costs no job: the report job checks it again.
+  checkReportDir(o.out, { force: o.force, inputs: studyInputs(study, join(work, SUMMARIES)) });
   const report = { force: o.force, pdf: o.pdf, edition: o.edition, paper: o.paper, chrome: o.chrome ?? null };
   const key = sha256(JSON.stringify({ manifest: study.manifestPath, sha: sha256(study.manifestText), out, report, slurm: o.slurm }));
   const before = readWork(work);
-  const jobsOf = (w: WorkFile) => [w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
+  const jobsOf = (w: WorkFile) => [w.jobs.parts, w.jobs.warmup, w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
 
   let w: WorkFile;
   if (before !== null && (anyAlive(jobsOf(before)) || readStatus(join(work, "status", "report.rc")) !== null)) {
@@ -189,18 +231,37 @@ async function submit(
   o: ClusterReportOptions,
   progress: (m: string) => void,
 ): Promise<WorkFile> {
-  for (const sub of ["", SUMMARIES, "logs", "status", "jobs"]) mkdirSync(join(work, sub), { recursive: true });
+  for (const sub of ["", SUMMARIES, PARTS, ESTIMATES, "logs", "status", "jobs"]) mkdirSync(join(work, sub), { recursive: true });
   const tasks: Task[] = study.scenarios.flatMap((sc) => sc.runs.map((r) => ({ scenario: sc.name, run: r.id, summary: `${SUMMARIES}/${summaryPath(sc.name, r.id)}` })));
+  const mser = study.scenarios.filter((sc) => sc.warmup.type === "mser-5");
+  const parts: Task[] = mser.flatMap((sc) => sc.runs.map((r) => ({ scenario: sc.name, run: r.id, summary: `${PARTS}/${summaryPath(sc.name, r.id)}` })));
+  const submittedParts: number[] = [];
+  for (const [i, t] of parts.entries()) {
+    try {
+      await readPart(work, mser.find((sc) => sc.name === t.scenario)!, t.run);
+    } catch (e) {
+      if (!unusable(e)) throw e;
+      submittedParts.push(i);
+    }
+  }
+  if (parts.length > submittedParts.length) progress(`reusing ${parts.length - submittedParts.length} of ${parts.length} warm-up parts already in ${work}`);
+  // The warm-up of a scenario whose parts are all reused is known now; the others' after the warm-up job.
+  const estimated = new Map<string, ResolvedWarmup | null>();
+  for (const sc of mser) estimated.set(sc.name, parts.some((t, i) => t.scenario === sc.name && submittedParts.includes(i)) ? null : await warmupFromParts(work, sc));
   const submitted: number[] = [];
-  for (const [i, t] of tasks.entries()) if (!(await reusable(work, study, t))) submitted.push(i);
+  for (const [i, t] of tasks.entries()) if (!(await reusable(work, study, t, estimated))) submitted.push(i);
   if (tasks.length > submitted.length) progress(`reusing ${tasks.length - submitted.length} of ${tasks.length} run summaries already in ${work}`);
 
-  // Only this submission's status files are removed: the tasks about to run, and the report's.
+  // Only this submission's status files are removed: the tasks about to run, and the jobs'.
   for (const i of submitted) rmSync(join(work, "status", `run-${i}.rc`), { force: true });
+  for (const i of submittedParts) rmSync(join(work, "status", `part-${i}.rc`), { force: true });
+  rmSync(join(work, "status", "warmup.rc"), { force: true });
   rmSync(join(work, "status", "report.rc"), { force: true });
 
   const runs = study.scenarios.flatMap((sc) => sc.runs);
   const request: TaskRequest = arrayRequest(submitted.map((i) => ({ bytes: statSync(runs[i].path).size, file: runs[i].file })));
+  const partRuns = mser.flatMap((sc) => sc.runs);
+  const partRequest: TaskRequest = arrayRequest(submittedParts.map((i) => ({ bytes: statSync(partRuns[i].path).size, file: partRuns[i].file })));
   const common = [`--chdir=${process.cwd()}`, ...(o.slurm.partition ? [`--partition=${o.slurm.partition}`] : []), ...(o.slurm.account ? [`--account=${o.slurm.account}`] : [])];
   const w: WorkFile = {
     format: WORK_FORMAT,
@@ -212,11 +273,52 @@ async function submit(
     report,
     tasks,
     submitted,
-    jobs: { runs: null, report: "" },
+    parts,
+    submitted_parts: submittedParts,
+    jobs: { parts: null, warmup: null, runs: null, report: "" },
   };
   writeAtomic(join(work, "study.json"), JSON.stringify(w, null, 2) + "\n");
 
   const cmd = sojournCommand();
+  const size = (r: TaskRequest) => [`--mem=${o.slurm.memPerTask ?? `${r.memoryMb}M`}`, `--time=${o.slurm.timePerTask ?? r.minutes}`];
+  if (submittedParts.length > 0) {
+    const status = `${shellWord(join(work, "status", "part-"))}"$SLURM_ARRAY_TASK_ID"${shellWord(".rc")}`;
+    const script = join(work, "jobs", "parts.sh");
+    writeFileSync(script, jobScript("the warm-up slices, one task per run of an MSER-5 scenario", [...cmd, "cluster-part", shellWord(work), '"$SLURM_ARRAY_TASK_ID"'], status), { mode: 0o755 });
+    w.jobs.parts = sbatch(
+      [
+        `--array=${arrayList(submittedParts)}${o.slurm.maxRunning !== undefined ? `%${o.slurm.maxRunning}` : ""}`,
+        "--job-name=sojourn-warmup-parts",
+        `--output=${join(work, "logs", "part-%a.log")}`,
+        "--ntasks=1",
+        "--cpus-per-task=1",
+        ...size(partRequest),
+        ...common,
+        ...o.slurm.sbatchArgs,
+        script,
+      ],
+      "job array of the warm-up slices",
+    );
+  }
+  if (mser.length > 0) {
+    const script = join(work, "jobs", "warmup.sh");
+    writeFileSync(script, jobScript("the MSER-5 warm-ups, from every run's slices", [...cmd, "cluster-warmup", shellWord(work)], shellWord(join(work, "status", "warmup.rc"))), { mode: 0o755 });
+    w.jobs.warmup = sbatch(
+      [
+        ...(w.jobs.parts !== null ? [`--dependency=afterok:${w.jobs.parts}`, "--kill-on-invalid-dep=yes"] : []),
+        "--job-name=sojourn-warmup",
+        `--output=${join(work, "logs", "warmup.log")}`,
+        "--ntasks=1",
+        "--cpus-per-task=1",
+        "--mem=512M",
+        "--time=10",
+        ...common,
+        ...o.slurm.sbatchArgs,
+        script,
+      ],
+      "warm-up job",
+    );
+  }
   if (submitted.length > 0) {
     const status = `${shellWord(join(work, "status", "run-"))}"$SLURM_ARRAY_TASK_ID"${shellWord(".rc")}`;
     const script = join(work, "jobs", "runs.sh");
@@ -224,6 +326,7 @@ async function submit(
     w.jobs.runs = sbatch(
       [
         `--array=${arrayList(submitted)}${o.slurm.maxRunning !== undefined ? `%${o.slurm.maxRunning}` : ""}`,
+        ...(w.jobs.warmup !== null ? [`--dependency=afterok:${w.jobs.warmup}`, "--kill-on-invalid-dep=yes"] : []),
         "--job-name=sojourn-runs",
         `--output=${join(work, "logs", "run-%a.log")}`,
         "--ntasks=1",
@@ -242,7 +345,7 @@ async function submit(
   const rr = reportRequest(request);
   w.jobs.report = sbatch(
     [
-      ...(w.jobs.runs !== null ? [`--dependency=afterok:${w.jobs.runs}`, "--kill-on-invalid-dep=yes"] : []),
+      ...((w.jobs.runs ?? w.jobs.warmup) !== null ? [`--dependency=afterok:${w.jobs.runs ?? w.jobs.warmup}`, "--kill-on-invalid-dep=yes"] : []),
       "--job-name=sojourn-report",
       `--output=${join(work, "logs", "report.log")}`,
       "--ntasks=1",
@@ -256,6 +359,11 @@ async function submit(
     "report job",
   );
   writeAtomic(join(work, "study.json"), JSON.stringify(w, null, 2) + "\n");
+  if (w.jobs.warmup !== null) {
+    progress(
+      `submitted ${w.jobs.parts !== null ? `warm-up job array ${w.jobs.parts} (${submittedParts.length} runs) and ` : ""}warm-up job ${w.jobs.warmup}${w.jobs.parts !== null ? " after it" : ""} (MSER-5 in ${mser.length} scenario${mser.length === 1 ? "" : "s"}; the runs wait for it)`,
+    );
+  }
   progress(
     w.jobs.runs !== null
       ? `submitted job array ${w.jobs.runs} (${submitted.length} runs, ${o.slurm.memPerTask ?? `${request.memoryMb}M`} and ${o.slurm.timePerTask ?? `${request.minutes} min`} each) and report job ${w.jobs.report} after it`
@@ -293,10 +401,16 @@ const sleep = (s: number) => new Promise((r) => setTimeout(r, s * 1000));
 
 /** Waits for the submission in WORK to end; throws the first failed run or the report's failure. */
 async function follow(work: string, w: WorkFile, progress: (m: string) => void, poll: number): Promise<void> {
-  const jobs = [w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
+  const jobs = [w.jobs.parts, w.jobs.warmup, w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
   const reportRc = join(work, "status", "report.rc");
   let shown = -1;
+  let shownParts = -1;
   for (;;) {
+    const partsDone = w.submitted_parts.filter((i) => readStatus(join(work, "status", `part-${i}.rc`)) === 0).length;
+    if (partsDone !== shownParts && w.submitted_parts.length > 0) {
+      progress(`warm-up slices made on Slurm: ${partsDone} of ${w.submitted_parts.length} (job array ${w.jobs.parts})`);
+      shownParts = partsDone;
+    }
     const done = w.submitted.filter((i) => readStatus(join(work, "status", `run-${i}.rc`)) === 0).length;
     if (done !== shown && w.submitted.length > 0) {
       progress(`runs summarised on Slurm: ${done} of ${w.submitted.length}${w.jobs.runs !== null ? ` (job array ${w.jobs.runs})` : ""}`);
@@ -310,6 +424,17 @@ async function follow(work: string, w: WorkFile, progress: (m: string) => void, 
     // Ended without a report status: look at the status files once more (a job may just have written one).
     if (!anyAlive(jobs) && readStatus(reportRc) === null) break;
     await sleep(poll);
+  }
+  for (const i of w.submitted_parts) {
+    const rc = readStatus(join(work, "status", `part-${i}.rc`));
+    if (rc === 0) continue;
+    const t = w.parts[i];
+    const log = join(work, "logs", `part-${i}.log`);
+    throw msg.taskFailed(t.scenario, t.run, `${w.jobs.parts}_${i}`, log, failureOf(log, rc));
+  }
+  if (w.jobs.warmup !== null && readStatus(join(work, "status", "warmup.rc")) !== 0) {
+    const log = join(work, "logs", "warmup.log");
+    throw msg.warmupFailed(w.jobs.warmup, log, failureOf(log, readStatus(join(work, "status", "warmup.rc"))));
   }
   for (const i of w.submitted) {
     const rc = readStatus(join(work, "status", `run-${i}.rc`));
@@ -340,16 +465,74 @@ export async function clusterTask(work: string, index: number): Promise<string> 
   const t = w.tasks[index];
   if (t === undefined) throw msg.workNotOurs(work, `it has no task ${index}`);
   const study = await workStudy(work, w);
-  const { text, analysis } = await summarizeRun(study, t.scenario, t.run);
+  const scenario = study.scenarios.find((s) => s.name === t.scenario)!;
+  const estimated = scenario.warmup.type === "mser-5" ? readEstimate(work, scenario.name) : undefined;
+  const { text, analysis } = await summarizeRun(study, t.scenario, t.run, estimated);
   const path = join(resolve(work), t.summary);
   writeOwnFiles([{ path, text }], { kind: "run summary", force: false, inputs: studyInputs(study) });
   return `wrote ${path}: run ${t.run} of scenario ${t.scenario}, ${analysis.input.rows} rows, input sha256 ${analysis.input.sha256}`;
 }
 
+/** WORK/estimates/<scenario>.json. */
+interface EstimateFile {
+  format: string;
+  scenario: string;
+  time: number | null;
+}
+const ESTIMATE_FORMAT = "sojourn-warmup-estimate/1";
+
+function readEstimate(work: string, scenario: string): { time: number | null } {
+  const path = join(resolve(work), ESTIMATES, summaryPath(scenario, "warmup"));
+  let e: EstimateFile;
+  try {
+    e = JSON.parse(readFileSync(path, "utf8")) as EstimateFile;
+  } catch (err) {
+    throw msg.workNotOurs(work, `its warm-up estimate ${path} cannot be read: ${(err as Error).message}`);
+  }
+  if (e?.format !== ESTIMATE_FORMAT || e.scenario !== scenario || !(e.time === null || typeof e.time === "number")) throw msg.workNotOurs(work, `${path} is not a warm-up estimate of scenario "${scenario}"`);
+  return { time: e.time };
+}
+
+/** One task of the warm-up array (`sojourn cluster-part WORK i`): the first pass of one run of an MSER-5 scenario. */
+export async function clusterPart(work: string, index: number): Promise<string> {
+  const w = loadWork(work);
+  const t = w.parts[index];
+  if (t === undefined) throw msg.workNotOurs(work, `it has no warm-up task ${index}`);
+  const study = await workStudy(work, w);
+  const scenario = study.scenarios.find((s) => s.name === t.scenario)!;
+  const { text, sha256: digest } = await makeWarmupPart(scenario, t.run);
+  const path = join(resolve(work), t.summary);
+  mkdirSync(dirname(path), { recursive: true });
+  writeAtomic(path, text);
+  return `wrote ${path}: warm-up slices of run ${t.run} of scenario ${t.scenario}, input sha256 ${digest}`;
+}
+
+/** The warm-up job (`sojourn cluster-warmup WORK`): each MSER-5 scenario's warm-up from its runs' parts. */
+export async function clusterWarmup(work: string): Promise<string> {
+  const w = loadWork(work);
+  const study = await workStudy(work, w);
+  const lines: string[] = [];
+  for (const scenario of study.scenarios.filter((s) => s.warmup.type === "mser-5")) {
+    const { time } = await warmupFromParts(resolve(work), scenario);
+    const path = join(resolve(work), ESTIMATES, summaryPath(scenario.name, "warmup"));
+    mkdirSync(dirname(path), { recursive: true });
+    const e: EstimateFile = { format: ESTIMATE_FORMAT, scenario: scenario.name, time };
+    writeAtomic(path, JSON.stringify(e) + "\n");
+    lines.push(`scenario ${scenario.name}: warm-up ${time === null ? "none" : time}`);
+  }
+  return lines.join("\n");
+}
+
 /** The report job (`sojourn cluster-report WORK`): the local report's code on the summaries, with the recorded date. */
 export async function clusterFinish(work: string, onProgress?: (m: string) => void): Promise<string> {
   const w = loadWork(work);
+  // The warm-ups are estimated again from the parts (a few numbers per run), not taken from the
+  // warm-up job's file: a summary made with another warm-up then fails its plan check.
+  const study = await workStudy(work, w);
+  const warmups = new Map<string, ResolvedWarmup>();
+  for (const sc of study.scenarios) if (sc.warmup.type === "mser-5") warmups.set(sc.name, await warmupFromParts(resolve(work), sc));
   const options: ReportOptions = {
+    warmups,
     out: w.out,
     force: w.report.force,
     pdf: w.report.pdf,

@@ -35,7 +35,17 @@ export const workStudyChanged = (work: string) =>
 export const badSize = (flag: string, value: string, example: string) =>
   new UserError(`${flag} ${value}: not a size Sojourn can pass to Slurm\n  What to do: write it as in ${example}.`, 2);
 
-export const clusterMser = (scenario: string) =>
+export const warmupPartUnusable = (file: string, why: string) =>
   new UserError(
-    `scenario "${scenario}" estimates its warm-up with MSER-5, which --on slurm does not split into jobs yet\n  What to do: use --on local, or give the scenario a fixed warm-up (the estimate of an earlier report).`,
+    `${file}: not the warm-up slices of this run as \`report --on slurm\` writes them (${why})\n  What to do: run the same \`sojourn report ... --on slurm\` command again: a part that does not match is made again.`,
+  );
+
+export const warmupStale = (file: string, runFile: string) =>
+  new UserError(
+    `${file}: the warm-up slices were made from an older version of ${runFile} (its SHA-256 differs now)\n  What to do: run the same \`sojourn report ... --on slurm\` command again: the changed runs are read again.`,
+  );
+
+export const warmupFailed = (job: string, log: string, why: string) =>
+  new UserError(
+    `the warm-up job (MSER-5) failed on Slurm (job ${job}): ${why}\n  log: ${log}\n  No report was written; an earlier report folder is unchanged.\n  What to do: fix what the log says, then run the same command again: the warm-up slices already made are reused.`,
   );

@@ -16,6 +16,39 @@ export interface StagedDirOptions {
 }
 
 /**
+ * The rule a report folder is claimed by, checked without writing anything (`StagedDir` applies
+ * it first; `report --on slurm` applies it before it submits a job): DIR must not be a file, must
+ * not be, hold or be a parent of an input of the study (even with `force`), and an existing DIR
+ * must hold only what Sojourn can show it wrote (unless `force`). Throws the catalogue message.
+ */
+export function checkReportDir(dir: string, options: { force: boolean; inputs: StudyInput[] }): { final: string; exists: boolean; earlier: boolean } {
+  const wanted = resolve(dir);
+  let exists = false;
+  try {
+    const st = statSync(wanted);
+    if (!st.isDirectory()) throw msg.outIsFile(dir);
+    exists = true;
+  } catch (e) {
+    if (e instanceof UserError) throw e;
+    const code = errorCode(e);
+    if (code !== "ENOENT") throw folderError(dir, wanted, e);
+  }
+  const final = realLocation(wanted);
+  const held = inputInside(final, options.inputs);
+  if (held !== null) throw msg.outHoldsInput(dir, held.relative, held.input.kind);
+  try {
+    const earlier = exists && readdirSync(final).length > 0;
+    const foreign = earlier && !options.force ? firstForeign(final) : null;
+    if (foreign !== null) throw msg.outHoldsForeign(dir, foreign.file, foreign.why);
+    return { final, exists, earlier };
+  } catch (e) {
+    const code = errorCode(e);
+    if (code === null) throw e;
+    throw msg.outUnreadable(dir, code);
+  }
+}
+
+/**
  * A report folder that is built beside its final place and moved there only when complete:
  *
  *   DIR.sojourn-tmp-<pid>  ──write everything──▶  commit(): DIR → DIR.sojourn-old-<pid>,
@@ -47,29 +80,10 @@ export class StagedDir {
   constructor(dir: string, options: StagedDirOptions) {
     this.shown = dir;
     this.fs = options.fs ?? nodeFs;
-    const wanted = resolve(dir);
-    let exists = false;
-    try {
-      const st = statSync(wanted);
-      if (!st.isDirectory()) throw msg.outIsFile(dir);
-      exists = true;
-    } catch (e) {
-      if (e instanceof UserError) throw e;
-      const code = errorCode(e);
-      if (code !== "ENOENT") throw this.prepareError(e, wanted);
-    }
-    this.final = realLocation(wanted);
-    const held = inputInside(this.final, options.inputs);
-    if (held !== null) throw msg.outHoldsInput(dir, held.relative, held.input.kind);
-    try {
-      this.earlier = exists && readdirSync(this.final).length > 0;
-      const foreign = this.earlier && !options.force ? firstForeign(this.final) : null;
-      if (foreign !== null) throw msg.outHoldsForeign(dir, foreign.file, foreign.why);
-    } catch (e) {
-      const code = errorCode(e);
-      if (code === null) throw e;
-      throw msg.outUnreadable(dir, code);
-    }
+    const claim = checkReportDir(dir, options);
+    this.final = claim.final;
+    this.earlier = claim.earlier;
+    const exists = claim.exists;
     const parent = dirname(this.final);
     this.temp = join(parent, `${stagePrefix(basename(this.final))}tmp-${process.pid}`);
     try {

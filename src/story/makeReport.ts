@@ -14,7 +14,7 @@ import { makeRecord, recordJson, type StudyRecord } from "../record/record.js";
 import { toolVersion } from "../record/version.js";
 import { DEFAULT_EDITION, type Edition } from "../report/edition.js";
 import { loadTQuantile } from "../stats/tQuantile.js";
-import { runStudy } from "../study/runStudy.js";
+import { runStudy, type RunStudyOptions } from "../study/runStudy.js";
 import { mark } from "../timing.js";
 
 export interface ReportOptions {
@@ -34,6 +34,8 @@ export interface ReportOptions {
   workers?: number;
   /** Take the runs from per-run summaries in this folder (see `RunStudyOptions.fromSummaries`). */
   fromSummaries?: string;
+  /** MSER-5 warm-ups estimated elsewhere, by scenario (see `RunStudyOptions.warmups`). */
+  warmups?: RunStudyOptions["warmups"];
   /** The calls that write the folder (tests make one fail); default node:fs (src/fileSystem.ts). */
   fs?: OutputFs;
 }
@@ -86,6 +88,7 @@ export async function reportStudy(study: Study, options: ReportOptions): Promise
       onProgress: progress,
       workers: options.workers,
       fromSummaries: options.fromSummaries,
+      warmups: options.warmups,
       writeTable: (file, csv) => staged.write(file, csv),
     });
     // The report's modules (templates, chart renderer) and the t quantile load while the runs are read.

@@ -41,6 +41,12 @@ export interface RunStudyOptions {
    * tables are only indexed (`outcome.tables`, with their digests).
    */
   writeTable?: (file: string, csv: string) => void;
+  /**
+   * MSER-5 warm-ups already estimated elsewhere (the first stage of `report --on slurm`), by
+   * scenario name: used as they are instead of a first pass over the scenario's runs. With
+   * `fromSummaries`, every MSER-5 scenario needs one.
+   */
+  warmups?: ReadonlyMap<string, ResolvedWarmup>;
 }
 
 /** Largest number of observation values kept per scenario and measure for the histogram. */
@@ -113,7 +119,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
 
   let analyze = runAnalyzer(workerCount(totalRuns, options.workers));
   if (options.fromSummaries !== undefined) {
-    const mser = study.scenarios.find((sc) => sc.warmup.type === "mser-5");
+    const mser = study.scenarios.find((sc) => sc.warmup.type === "mser-5" && options.warmups?.get(sc.name) === undefined);
     if (mser !== undefined) throw summaryMessages.summaryNeedsFixedWarmup(mser.name);
     analyze = summariesAnalyzer(options.fromSummaries, readIfThere);
   }
@@ -170,7 +176,7 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
   };
   for (const scenario of study.scenarios) {
     if (scenario.warmup.type === "mser-5" && pending.length > 0) await flush();
-    const warmup = await resolveWarmup(study, scenario, analyze);
+    const warmup = options.warmups?.get(scenario.name) ?? (await resolveWarmup(study, scenario, analyze));
     const work: ScenarioWork = { scenario, warmup, runs: [], samples: new Map(), waiting: new Map(), nextSample: 0 };
     for (const m of scenario.measures) if (m.kind === "observation") work.samples.set(m.name, { sample: new EvenSample(SAMPLE_LIMIT), total: 0 });
     works.push(work);

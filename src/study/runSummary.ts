@@ -167,7 +167,8 @@ function computed(measures: readonly Measure[]): Record<string, unknown>[] {
   });
 }
 
-function replacer(_key: string, value: unknown): unknown {
+/** JSON.stringify's replacer of a summary: doubles (Float64Array) as base64, every bit kept; maps as entry lists. */
+export function replacer(_key: string, value: unknown): unknown {
   if (value instanceof Float64Array) {
     const bytes = Buffer.from(value.buffer, value.byteOffset, value.byteLength);
     return { $f64: (isLittleEndian ? bytes : swapped(bytes)).toString("base64") };
@@ -177,9 +178,10 @@ function replacer(_key: string, value: unknown): unknown {
 }
 
 /** A summary's text that is JSON but not what `encodeSummary` writes. */
-class NotASummary extends Error {}
+export class NotASummary extends Error {}
 
-function reviver(_key: string, value: unknown): unknown {
+/** JSON.parse's reviver that undoes `replacer` (a malformed list throws `NotASummary`). */
+export function reviver(_key: string, value: unknown): unknown {
   if (value !== null && typeof value === "object" && !Array.isArray(value)) {
     const o = value as Record<string, unknown>;
     if (typeof o.$f64 === "string") {
@@ -308,16 +310,20 @@ async function checkAgainstRunFile(a: RunAnalysis, plan: RunPlan, display: strin
 
 /**
  * Analyses one run of a study exactly as `runStudy` would (same plan) and returns its summary
- * file's text. A scenario with an MSER-5 warm-up is refused: its warm-up needs all its runs.
+ * file's text. A scenario with an MSER-5 warm-up needs all its runs for its warm-up: it is refused
+ * unless `estimated` gives the warm-up time estimated from them (the cluster's first stage).
  */
-export async function summarizeRun(study: Study, scenarioName: string, runId: string): Promise<{ text: string; analysis: RunAnalysis }> {
+export async function summarizeRun(study: Study, scenarioName: string, runId: string, estimated?: { time: number | null }): Promise<{ text: string; analysis: RunAnalysis }> {
   const scenario = study.scenarios.find((s) => s.name === scenarioName);
   if (scenario === undefined) throw studyMessages.unknownName("scenario", scenarioName, study.scenarios.map((s) => s.name));
   const index = scenario.runs.findIndex((r) => r.id === runId);
   if (index < 0) throw studyMessages.unknownName(`run in scenario "${scenarioName}"`, runId, scenario.runs.map((r) => r.id));
-  if (scenario.warmup.type === "mser-5") throw msg.summaryNeedsFixedWarmup(scenario.name);
-  const warmup = await resolveWarmup(study, scenario);
-  const plan = scenarioPlans(study, scenario, warmup.time)[index];
+  let time: number | null;
+  if (scenario.warmup.type === "mser-5") {
+    if (estimated === undefined) throw msg.summaryNeedsFixedWarmup(scenario.name);
+    time = estimated.time;
+  } else time = (await resolveWarmup(study, scenario)).time;
+  const plan = scenarioPlans(study, scenario, time)[index];
   const analysis = await analyzeRun(plan);
   return { text: encodeSummary(plan, analysis), analysis };
 }

@@ -33,8 +33,8 @@ if (skip !== null) console.warn(`test/cluster/slurm.test.ts: SKIPPED, Slurm cann
 const title = (t: string) => (skip === null ? t : `${t} (skipped: Slurm cannot start here: ${skip})`);
 
 /** The built command line with the one-node Slurm's config and a fixed report date (both sides alike). */
-function sojourn(args: string[]): { status: number; stdout: string; stderr: string } {
-  const env = { ...process.env, SOURCE_DATE_EPOCH: DATE, SOJOURN_SLURM_POLL: "0.5", ...("conf" in slurm ? { SLURM_CONF: slurm.conf } : {}) };
+function sojourn(args: string[], date = DATE): { status: number; stdout: string; stderr: string } {
+  const env = { ...process.env, SOURCE_DATE_EPOCH: date, SOJOURN_SLURM_POLL: "0.5", ...("conf" in slurm ? { SLURM_CONF: slurm.conf } : {}) };
   const r = spawnSync(process.execPath, [MAIN, ...args], { encoding: "utf8", env, timeout: 600_000 });
   return { status: r.status ?? -1, stdout: r.stdout, stderr: r.stderr };
 }
@@ -58,7 +58,7 @@ afterAll(() => {
 });
 
 /** A small study (2 scenarios x 2 runs) of the demo's shape, invented by the seeded queue. */
-async function smallStudy(at: string): Promise<string> {
+async function smallStudy(at: string, warmup = "warmup: 10"): Promise<string> {
   for (const [s, servers] of [2, 3].entries()) {
     mkdirSync(join(at, "runs", `s${s}`), { recursive: true });
     for (const k of [1, 2]) await writeRunCsv(join(at, "runs", `s${s}`, `rep-${k}.csv`), simulateQueue({ arrivalRate: 0.9, serviceRate: 0.5, servers, horizon: 200, seed: 500 + k, decimals: 3 }));
@@ -68,7 +68,7 @@ async function smallStudy(at: string): Promise<string> {
     manifest,
     `version: 1
 title: Slurm check
-warmup: 10
+${warmup}
 scenarios:
   - {name: s0, end: 200, runs: "runs/s0/*.csv", measures: {use: {capacity: 2}}}
   - {name: s1, end: 200, runs: "runs/s1/*.csv", measures: {use: {capacity: 3}}}
@@ -166,6 +166,65 @@ describe.skipIf(skip !== null)("sojourn report --on slurm (one-node Slurm)", { t
     const again = sojourn(args);
     expect(again.stderr).toContain(`reusing 3 of 4 run summaries already in ${work}`);
     expect(again.status).toBe(0);
+    expectSameBytes(local, out);
+  });
+
+  it(title("MSER-5 warm-ups (a level and an observation measure): warm-up array, warm-up job, then the runs; DIR is the --on local report byte for byte, and a rerun reuses every part"), async () => {
+    const at = join(dir, "mser");
+    mkdirSync(at);
+    const manifest = await smallStudy(at, "warmup: {method: mser-5, measure: queue, slice: 4}");
+    // the second scenario estimates its warm-up from the waiting times instead (MSER-5 on each run's observations)
+    writeFileSync(manifest, readFileSync(manifest, "utf8").replace('{name: s1, end: 200,', '{name: s1, end: 200, warmup: {method: mser-5, measure: wait, slice: 1},'));
+    const local = join(dir, "mser-local");
+    const out = join(dir, "mser-out");
+    const work = join(dir, "mser-work");
+    expect(sojourn(["report", manifest, "--out", local, "--quiet"]).status).toBe(0);
+    const results = JSON.parse(readFileSync(join(local, "results.json"), "utf8")) as { scenarios: { warmup_estimate?: { method: string } }[] };
+    // both scenarios really estimate a warm-up (else this test would not exercise the warm-up stage)
+    expect(results.scenarios.map((sc) => sc.warmup_estimate?.method)).toEqual(["mser-5", "mser-5"]);
+    const r = sojourn(["report", manifest, "--out", out, "--on", "slurm", "--work", work]);
+    expect(r.stderr).toMatch(/warm-up slices made on Slurm: 4 of 4/);
+    expect(r.stderr).toMatch(/runs summarised on Slurm: 4 of 4/);
+    expect(r.status).toBe(0);
+    expectSameBytes(local, out);
+
+    // a changed run file: its part and every summary of its scenario are made again, the rest reused
+    const file = join(at, "runs", "s0", "rep-1.csv");
+    writeFileSync(file, readFileSync(file, "utf8").replace(/\n([0-9.]+),queue,(\d+)/, (_m, t: string, v: string) => `\n${t},queue,${Number(v) + 1}`));
+    const local2 = join(dir, "mser-local2");
+    expect(sojourn(["report", manifest, "--out", local2, "--quiet"]).status).toBe(0);
+    // (another report folder: with the same one, the ended submission would only be followed)
+    const out2 = join(dir, "mser-out2");
+    const again = sojourn(["report", manifest, "--out", out2, "--on", "slurm", "--work", work]);
+    expect(again.stderr).toContain(`reusing 3 of 4 warm-up parts already in ${work}`);
+    expect(again.stderr).toContain(`reusing 2 of 4 run summaries already in ${work}`);
+    expect(again.stderr).toContain("warm-up slices made on Slurm: 1 of 1");
+    expect(again.status).toBe(0);
+    expectSameBytes(local2, out2);
+  });
+
+  it(title("the report date is the one of the submission: submitted with --no-wait under one SOURCE_DATE_EPOCH and followed under another, DIR carries the first"), async () => {
+    const at = join(dir, "date");
+    mkdirSync(at);
+    const manifest = await smallStudy(at);
+    const out = join(dir, "date-out");
+    const work = join(dir, "date-work");
+    const later = "1790000000";
+    const local = join(dir, "date-local");
+    const localLater = join(dir, "date-local-later");
+    expect(sojourn(["report", manifest, "--out", local, "--quiet"]).status).toBe(0);
+    expect(sojourn(["report", manifest, "--out", localLater, "--quiet"], later).status).toBe(0);
+    // the two dates give different pages (else this test could not tell which date was used)
+    expect(readFileSync(join(localLater, "report.html"), "utf8")).not.toBe(readFileSync(join(local, "report.html"), "utf8"));
+    // the jobs themselves run under the later date too (sbatch --export), so only the recorded date can give the first
+    const flags = ["--out", out, "--on", "slurm", "--work", work, `--sbatch-arg=--export=ALL,SOURCE_DATE_EPOCH=${later}`];
+    expect(sojourn(["report", manifest, ...flags, "--no-wait", "--quiet"]).status).toBe(0);
+    const followed = sojourn(["report", manifest, ...flags], later);
+    expect(followed.stderr).toContain(`following the submission already in ${work}`);
+    expect(followed.status).toBe(0);
+    // SOURCE_DATE_EPOCH is seconds since 1970-01-01 UTC (reproducible-builds.org specification)
+    const record = JSON.parse(readFileSync(join(out, "record.json"), "utf8")) as { report: { generated_at: string } };
+    expect(record.report.generated_at).toBe(new Date(Number(DATE) * 1000).toISOString());
     expectSameBytes(local, out);
   });
 });
