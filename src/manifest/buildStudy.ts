@@ -17,11 +17,12 @@ import {
   type MeasureSpec,
   type OverrideSpec,
   type ScenarioSpec,
+  type SelectionSpec,
   type StudySpec,
   type TargetSpec,
   type WarmupSpec,
 } from "./spec.js";
-import type { Analysis, ColumnMap, Layout, WhereFilter, Comparison, Measure, MeasureSource, RunRef, Scenario, Study, Target, Warmup } from "./types.js";
+import type { Analysis, ColumnMap, Layout, WhereFilter, Comparison, Measure, MeasureSource, RunRef, Scenario, Selection, Study, Target, Warmup } from "./types.js";
 
 export const DEFAULT_COLUMNS: ColumnMap = { time: "time", series: "series", value: "value", entity: "entity" };
 export const DEFAULT_QUANTILES: readonly number[] = [0.5, 0.9, 0.95];
@@ -87,6 +88,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
   const factors = checkFactors();
   const scenarios = spec.scenarios.map((scenario, i) => buildScenario(scenario, i));
   const comparisons = (spec.compare ?? []).map((c, k) => buildComparison(c, k));
+  const selections = (spec.select ?? []).map((s, k) => buildSelection(s, k));
 
   return {
     manifestPath: context.manifestPath,
@@ -104,6 +106,7 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
       }),
     ),
     comparisons,
+    selections,
     tables,
     factors,
   };
@@ -293,6 +296,48 @@ export function buildStudy(spec: StudySpec, source: ManifestSource, context: Stu
       if (onlyA.length > 0 || onlyB.length > 0) throw manifestMessages.pairedRunsDiffer(place(path), a, b, onlyA, onlyB);
     }
     return { measure: comparison.measure, a, b, method };
+  }
+
+  /**
+   * A `select:` entry: a known measure, two or more different known scenarios (default all),
+   * 1/k < P* < 1 (default the study's confidence), n0 runs present in every scenario (n0 may be
+   * left out only when they all have the same number of runs), and for `paired` the same run ids
+   * in the same order in every scenario's first stage.
+   */
+  function buildSelection(selection: SelectionSpec, k: number): Selection {
+    const path: KeyPath = ["select", k];
+    if (!measureNames.includes(selection.measure)) {
+      throw manifestMessages.unknownMeasure(place([...path, "measure"]), selection.measure, measureNames, closest(selection.measure, measureNames));
+    }
+    const names = selection.scenarios ?? scenarioNames;
+    if (selection.scenarios === undefined && names.length < 2) throw manifestMessages.selectionTooFewScenarios(place(path), names.length);
+    names.forEach((s, j) => {
+      if (!scenarioNames.includes(s)) throw manifestMessages.unknownScenario(place([...path, "scenarios", j]), s, scenarioNames, closest(s, scenarioNames));
+      if (names.indexOf(s) !== j) throw manifestMessages.selectionScenarioTwice(place([...path, "scenarios", j]), s);
+    });
+    const pcs = selection.probability ?? confidence;
+    if (!(pcs > 1 / names.length && pcs < 1)) {
+      throw manifestMessages.selectionProbabilityOutOfRange(place(selection.probability !== undefined ? [...path, "probability"] : ["confidence"]), pcs, names.length);
+    }
+    const chosen = names.map((n) => scenarios[scenarioNames.indexOf(n)]);
+    const counts = chosen.map((sc) => ({ scenario: sc.name, runs: sc.runs.length }));
+    let firstStage = selection.first_stage;
+    if (firstStage === undefined) {
+      if (counts.some((c) => c.runs !== counts[0].runs)) throw manifestMessages.selectionFirstStageNeeded(place(path), counts);
+      firstStage = counts[0].runs;
+    }
+    const stagePlace = place(selection.first_stage !== undefined ? [...path, "first_stage"] : path);
+    for (const c of counts) if (c.runs < firstStage) throw manifestMessages.selectionFirstStageTooMany(stagePlace, c.scenario, c.runs, firstStage);
+    const method = selection.method ?? "independent";
+    if (method === "paired") {
+      const head = (sc: Scenario) => sc.runs.slice(0, firstStage).map((r) => r.id);
+      const first = head(chosen[0]);
+      for (const sc of chosen.slice(1)) {
+        const ids = head(sc);
+        if (ids.some((id, i) => id !== first[i])) throw manifestMessages.selectionPairedRunsDiffer(place([...path, "method"]), chosen[0].name, sc.name, first, ids);
+      }
+    }
+    return { measure: selection.measure, better: selection.better, delta: selection.indifference, pcs, method, firstStage, scenarios: names };
   }
 }
 

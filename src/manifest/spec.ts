@@ -20,6 +20,7 @@ export interface StudySpec {
   scenarios: ScenarioSpec[];
   measures: MeasureSpec[];
   compare?: ComparisonSpec[];
+  select?: SelectionSpec[];
 }
 
 export type WarmupSpec = number | { method: "mser-5"; measure: string; slice: number };
@@ -107,4 +108,15 @@ export interface ComparisonSpec {
   measure: string;
   scenarios: [string, string];
   method?: "paired" | "welch";
+}
+
+/** A selection of the best scenario (docs/manifest.md, "Selecting the best"). */
+export interface SelectionSpec {
+  measure: string;
+  better: "larger" | "smaller";
+  indifference: number;
+  probability?: number;
+  method?: "independent" | "paired";
+  first_stage?: number;
+  scenarios?: string[];
 }

@@ -153,6 +153,23 @@ export interface Comparison {
   method: "paired" | "welch";
 }
 
+/**
+ * A selection of the best scenario (issue 17), every default filled in: the scenarios in the
+ * order written (all the study's, in manifest order, when none are named); n0 ≤ the runs of each.
+ */
+export interface Selection {
+  measure: string;
+  better: "larger" | "smaller";
+  /** The indifference amount δ > 0, in the measure's unit. */
+  delta: number;
+  /** The probability of correct selection P*, 1/k < P* < 1. */
+  pcs: number;
+  method: "independent" | "paired";
+  /** n0 ≥ 2: the first n0 runs of each scenario, in manifest order, are the first stage. */
+  firstStage: number;
+  scenarios: string[];
+}
+
 /** Options for the calculation tables written under DIR/tables. */
 export interface TableOptions {
   /** Tables with at most this many rows are written in full. */
@@ -185,6 +202,8 @@ export interface Study {
   /** Per measure name: where its series are named (for messages about the run files). */
   measureSources: ReadonlyMap<string, MeasureSource>;
   comparisons: Comparison[];
+  /** The manifest's `select:` entries, in order; empty without them. */
+  selections: Selection[];
   tables: TableOptions;
   /** The factor names of the scenarios' `factors`, in the order the first scenario writes them; empty without factors. */
   factors: string[];

@@ -327,6 +327,48 @@ export function pairedRunsDiffer(place: Place, a: string, b: string, onlyA: read
   );
 }
 
+// --- selecting the best (select:) ---------------------------------------------------------------
+
+export function selectionScenarioTwice(place: Place, scenario: string): UserError {
+  return located(place, `the selection names scenario ${quote(scenario)} twice`, "Name each scenario once.");
+}
+
+export function selectionTooFewScenarios(place: Place, count: number): UserError {
+  return located(place, `a selection of the best needs at least two scenarios, and the study has ${count}`, "Add scenarios to the study, or remove the select entry.");
+}
+
+export function selectionProbabilityOutOfRange(place: Place, probability: number, k: number): UserError {
+  return located(
+    place,
+    `the probability of a correct selection is ${quote(probability)}, but among ${k} scenarios it must be above 1/${k} (what a blind pick achieves) and below 1`,
+    `Write a probability such as 0.95 (between ${quote(1 / k)} and 1, both left out).`,
+  );
+}
+
+export function selectionFirstStageNeeded(place: Place, counts: readonly { scenario: string; runs: number }[]): UserError {
+  return located(
+    place,
+    `the scenarios of this selection have different numbers of runs (${counts.map((c) => `${quote(c.scenario)} ${c.runs}`).join(", ")}), so the first stage is not known`,
+    `Write first_stage: N0, the number of runs every scenario had in the first stage (at most ${Math.min(...counts.map((c) => c.runs))} here).`,
+  );
+}
+
+export function selectionFirstStageTooMany(place: Place, scenario: string, runs: number, firstStage: number): UserError {
+  return located(
+    place,
+    `scenario ${quote(scenario)} has ${runs} run${runs === 1 ? "" : "s"}, fewer than the first stage of ${firstStage}`,
+    `Add runs until every scenario has the first stage's ${firstStage}, or write a smaller first_stage.`,
+  );
+}
+
+export function selectionPairedRunsDiffer(place: Place, first: string, scenario: string, firstIds: readonly string[], ids: readonly string[]): UserError {
+  return located(
+    place,
+    `a paired selection needs the same run ids at the head of every scenario, but the first stage of ${quote(first)} is ${list(firstIds)} and of ${quote(scenario)} is ${list(ids)}`,
+    "Give every scenario its first-stage runs with the same ids (the same seeds), in the same order, or use method: independent.",
+  );
+}
+
 /** A scenario's `factors` do not name the factors of the first scenario that has them. */
 export function factorsDiffer(place: Place, scenario: string, missing: readonly string[], extra: readonly string[], first: string): UserError {
   const parts: string[] = [];

@@ -142,6 +142,13 @@ const M_QUANTILES = manifest(`  - {name: wait, kind: observation, series: wait, 
 const M_BATCHES = manifest(QUEUE, undefined, "analysis: {method: batch-means, batches: 50000}\n");
 const M_LABEL_LONG = manifest(`  - {name: queue, kind: level, series: queue, label: ${"Bread queue".repeat(20)}}\n`);
 const M_LABEL_CONTROL = manifest('  - {name: queue, kind: level, series: queue, label: "Bread\\tqueue"}\n');
+/** Two scenarios for the select: cases: morning with day-1 and day-2, evening with day-1 and day-3 (or day-1 only). */
+const selectStudy = (evening: string, select: string): string =>
+  `title: Bakery counter\ntime_unit: min\nscenarios:\n  - {name: morning, end: 10, runs: [runs/day-1.csv, runs/day-2.csv]}\n  - {name: evening, end: 10, runs: ${evening}}\nmeasures:\n${QUEUE}select:\n  - ${select}\n`;
+const M_SELECT_P = selectStudy("[runs/day-1.csv, runs/day-2.csv]", "{measure: queue, better: smaller, indifference: 1, probability: 0.4}");
+const M_SELECT_N0 = selectStudy("[runs/day-1.csv]", "{measure: queue, better: smaller, indifference: 1}");
+const M_SELECT_PAIRED = selectStudy("[runs/day-1.csv, runs/day-3.csv]", "{measure: queue, better: smaller, indifference: 1, method: paired}");
+const SELECT_RUNS = { "runs/day-1.csv": GOOD_CSV, "runs/day-2.csv": GOOD_CSV, "runs/day-3.csv": GOOD_CSV };
 const M_UNIT_OVERRIDE = manifest(QUEUE, "{name: morning, end: 10, runs: runs/*.csv, measures: {queue: {unit: loaves}}}");
 
 function gzipCut(text: string): Buffer {
@@ -1275,6 +1282,36 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.tooManySlices(at(M_SLICES, "0.001", "warmup.slice"), "morning", "day-1", 0.001, 0, 600, 600000, 100000),
+  },
+  {
+    id: "select-probability",
+    title: "A probability of correct selection a blind pick would reach",
+    what: "Among k scenarios, picking one at random is right with probability 1/k, so `probability` must be above 1/k (here 1/2) and below 1.",
+    files: { [STUDY]: M_SELECT_P, ...SELECT_RUNS },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.selectionProbabilityOutOfRange(at(M_SELECT_P, "0.4", "select[0].probability"), 0.4, 2),
+  },
+  {
+    id: "select-first-stage",
+    title: "A selection without first_stage over scenarios with different run counts",
+    what: "`first_stage` (the n0 runs every scenario had before the runs needed were known) may be left out only when every scenario of the selection has the same number of runs.",
+    files: { [STUDY]: M_SELECT_N0, ...SELECT_RUNS },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.selectionFirstStageNeeded(at(M_SELECT_N0, "{measure", "select[0]"), [{ scenario: "morning", runs: 2 }, { scenario: "evening", runs: 1 }]),
+  },
+  {
+    id: "select-paired-runs",
+    title: "A paired selection whose first stages have different run ids",
+    what: "`method: paired` matches the runs of the scenarios by run id (common random numbers): the first-stage runs of every scenario must have the same ids in the same order.",
+    files: { [STUDY]: M_SELECT_PAIRED, ...SELECT_RUNS },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.selectionPairedRunsDiffer(at(M_SELECT_PAIRED, "paired", "select[0].method"), "morning", "evening", ["day-1", "day-2"], ["day-1", "day-3"]),
   },
   // --- output and PDF -----------------------------------------------------------------------
   {

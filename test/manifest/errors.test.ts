@@ -55,7 +55,7 @@ const SCENARIOS = `scenarios:
     runs: runs/three/*.csv
 `;
 const SCENARIO_NAMES = ["two-booths", "three-booths"];
-const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "layout", "analysis", "tables", "max_row_bytes", "scenarios", "measures", "compare"];
+const TOP_KEYS = ["version", "title", "time_unit", "confidence", "warmup", "columns", "layout", "analysis", "tables", "max_row_bytes", "scenarios", "measures", "compare", "select"];
 const SCENARIO_KEYS = ["name", "start", "end", "warmup", "columns", "layout", "analysis", "max_row_bytes", "factors", "runs", "measures"];
 const OVERRIDABLE = ["capacity", "capacity_initial", "initial", "quantiles", "within", "at_least", "target"];
 
@@ -360,6 +360,80 @@ describe("loadStudy: meaning", () => {
     const text = `${SCENARIOS}${MEASURES}compare:\n  - {measure: check_wait, scenarios: [two-booths, three-booths], method: paired}\n`;
     const study = await loadStudy(join(dir, "s.yaml"), { text });
     expect(study.comparisons).toEqual([{ measure: "check_wait", a: "two-booths", b: "three-booths", method: "paired" }]); // brief
+  });
+
+  // --- select: (docs/manifest.md, "Selecting the best") ---
+  const ODD = `${SCENARIOS}  - name: odd\n    end: 600\n    runs: runs/odd/*.csv\n  - name: one\n    end: 600\n    runs: runs/mixed/*.csv\n`;
+
+  test("loadStudy on a selection naming an unknown measure suggests the closest", async () => {
+    const text = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wiat, better: smaller, indifference: 1}\n`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.unknownMeasure(at(file, text, "check_wiat", "select[0].measure"), "check_wiat", MEASURE_NAMES, "check_wait").message); // brief: did-you-mean of the checker
+  });
+
+  test("loadStudy on a selection naming an unknown scenario, or one twice, points at the item", async () => {
+    const unknown = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, scenarios: [two-booths, three-booth]}\n`;
+    const first = await failure(unknown);
+    expect(first.error.message).toBe(m.unknownScenario(at(first.file, unknown, "three-booth]", "select[0].scenarios[1]"), "three-booth", SCENARIO_NAMES, "three-booths").message); // brief
+    const twice = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, scenarios: [two-booths, three-booths, two-booths]}\n`;
+    const second = await failure(twice);
+    expect(second.error.message).toBe(m.selectionScenarioTwice(at(second.file, twice, "two-booths]", "select[0].scenarios[2]"), "two-booths").message); // brief: no repeats
+  });
+
+  test("loadStudy on a selection in a study of one scenario says two are needed", async () => {
+    const text = `scenarios:\n  - {name: two-booths, end: 600, runs: runs/two/*.csv}\n${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1}\n`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.selectionTooFewScenarios(at(file, text, "{measure", "select[0]"), 1).message); // brief: at least 2
+  });
+
+  test("loadStudy on a selection with one scenario listed is stopped by the schema", async () => {
+    const text = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, scenarios: [two-booths]}\n`;
+    const { error } = await failure(text);
+    expect(error.message).toContain("select[0].scenarios"); // brief: at least 2 (schema minItems)
+  });
+
+  test("loadStudy on a probability of correct selection at or below 1/k, or at 1, says the range", async () => {
+    const low = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, probability: 0.5}\n`;
+    const first = await failure(low);
+    expect(first.error.message).toBe(m.selectionProbabilityOutOfRange(at(first.file, low, "0.5}", "select[0].probability"), 0.5, 2).message); // Bechhofer (1954): P* > 1/k, else a blind pick does as well
+    const one = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, probability: 1}\n`;
+    const second = await failure(one);
+    expect(second.error.message).toBe(m.selectionProbabilityOutOfRange(at(second.file, one, "1}", "select[0].probability"), 1, 2).message); // P* = 1 needs infinitely many runs (common practice)
+  });
+
+  test("loadStudy on a selection of scenarios with different run counts and no first_stage asks for it", async () => {
+    const text = `${ODD}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, scenarios: [two-booths, one]}\n`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.selectionFirstStageNeeded(at(file, text, "{measure", "select[0]"), [{ scenario: "two-booths", runs: 2 }, { scenario: "one", runs: 1 }]).message); // brief: first_stage optional only with equal run counts
+  });
+
+  test("loadStudy on a first stage larger than a scenario's runs names the scenario", async () => {
+    const text = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, first_stage: 3}\n`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.selectionFirstStageTooMany(at(file, text, "3}", "select[0].first_stage"), "two-booths", 2, 3).message); // brief: the first stage must be there
+  });
+
+  test("loadStudy on a first stage below 2 is stopped by the schema", async () => {
+    const text = `${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, first_stage: 1}\n`;
+    const { error } = await failure(text);
+    expect(error.message).toContain("select[0].first_stage"); // a variance needs n0 >= 2 (common practice)
+  });
+
+  test("loadStudy on a paired selection whose first stages have different run ids lists both", async () => {
+    const text = `${ODD}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 1, method: paired, scenarios: [two-booths, odd]}\n`;
+    const { error, file } = await failure(text);
+    expect(error.message).toBe(m.selectionPairedRunsDiffer(at(file, text, "paired", "select[0].method"), "two-booths", "odd", ["rep-01", "rep-02"], ["rep-01", "rep-09"]).message); // brief: pairing by run id (common random numbers)
+  });
+
+  test("loadStudy fills a selection's defaults: all scenarios, the study's confidence, independent, n0 = the common run count", async () => {
+    const dir = studyFolder(RUN_FILES);
+    folders.push(dir);
+    const text = `confidence: 0.9\n${SCENARIOS}${MEASURES}select:\n  - {measure: check_wait, better: smaller, indifference: 0.5}\n  - {measure: vehicles_done, better: larger, indifference: 2, probability: 0.99, method: paired, first_stage: 2, scenarios: [three-booths, two-booths]}\n`;
+    const study = await loadStudy(join(dir, "s.yaml"), { text });
+    expect(study.selections).toEqual([
+      { measure: "check_wait", better: "smaller", delta: 0.5, pcs: 0.9, method: "independent", firstStage: 2, scenarios: ["two-booths", "three-booths"] }, // brief: the defaults
+      { measure: "vehicles_done", better: "larger", delta: 2, pcs: 0.99, method: "paired", firstStage: 2, scenarios: ["three-booths", "two-booths"] },
+    ]);
   });
 
   test("loadStudy on an MSER-5 warm-up naming an unknown or a count measure says so", async () => {
