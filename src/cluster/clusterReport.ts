@@ -188,6 +188,25 @@ async function reusable(work: string, study: Study, task: Task, estimated: Reado
   }
 }
 
+/**
+ * Whether the ended submission in WORK made its report from the run files as they are now: the
+ * same runs, each run file with the digest its summary recorded.
+ */
+async function stillCurrent(work: string, study: Study, w: WorkFile): Promise<boolean> {
+  const now = study.scenarios.flatMap((sc) => sc.runs.map((r) => ({ scenario: sc.name, run: r.id, path: r.path })));
+  if (now.length !== w.tasks.length || now.some((t, i) => t.scenario !== w.tasks[i].scenario || t.run !== w.tasks[i].run)) return false;
+  for (const [i, t] of now.entries()) {
+    let recorded: unknown;
+    try {
+      recorded = (JSON.parse(readFileSync(join(work, w.tasks[i].summary), "utf8")) as { input_sha256?: unknown }).input_sha256;
+    } catch {
+      return false;
+    }
+    if (typeof recorded !== "string" || recorded !== (await fileDigest(t.path))) return false;
+  }
+  return true;
+}
+
 /** Submits the study (or follows the submission already in WORK with the same settings) and, unless `--no-wait`, waits for it. */
 export async function clusterReport(manifest: string, o: ClusterReportOptions): Promise<ClusterOutcome> {
   const progress = o.onProgress ?? (() => {});
@@ -203,10 +222,12 @@ export async function clusterReport(manifest: string, o: ClusterReportOptions): 
   const jobsOf = (w: WorkFile) => [w.jobs.parts, w.jobs.warmup, w.jobs.runs, w.jobs.report].filter((j): j is string => j !== null);
 
   let w: WorkFile;
-  if (before !== null && (anyAlive(jobsOf(before)) || readStatus(join(work, "status", "report.rc")) !== null)) {
-    // A submission of the same study is queued, running, or ended with its report: follow it.
+  const alive = before !== null && anyAlive(jobsOf(before));
+  if (before !== null && (alive || (readStatus(join(work, "status", "report.rc")) === 0 && (await stillCurrent(work, study, before))))) {
+    // A submission of the same study is queued, running, or ended with a report of the run files
+    // as they are now: follow it. A report of files changed since is made again.
     if (before.key !== key) {
-      if (anyAlive(jobsOf(before))) throw msg.workInUse(work, jobsOf(before).join(","));
+      if (alive) throw msg.workInUse(work, jobsOf(before).join(","));
       w = await submit(study, work, out, key, report, o, progress);
     } else {
       w = before;

@@ -7,6 +7,7 @@
  */
 import type { EquicoordinatePoint } from "./equicoordinate.js";
 import type { RinottConstant } from "./rinott.js";
+import type { SpreadSteps } from "./spread.js";
 
 /** Which direction of the measure is better. */
 export type Better = "larger" | "smaller";
@@ -40,7 +41,11 @@ export interface SelectionInput {
 /** The first-stage figures of one scenario and the runs it needs. */
 export interface SelectionScenario {
   scenario: string;
-  /** n0 and the first-stage mean, sample variance and standard deviation (independent method). */
+  /**
+   * n0 and the first-stage mean, sample variance (n0 − 1 divisor) and standard deviation, as
+   * measured (not turned for `smaller`). Both methods fill them; only the independent method
+   * plans from the variance (the paired method plans from `pooled_variance`).
+   */
   first_stage_runs: number;
   first_stage_mean: number;
   first_stage_variance: number;
@@ -49,10 +54,19 @@ export interface SelectionScenario {
   runs_needed: number;
   /** The runs the study holds for the scenario. */
   runs_present: number;
-  /** max(0, N_i − runs present). */
+  /**
+   * The runs still to make: independent, max(0, N_i − runs present); paired, how many of the first
+   * N run ids of the pairing order (`steps.paired_runs`, plus the ids not made yet) the scenario
+   * lacks, so that a scenario which already has extra runs is not asked for them again.
+   */
   runs_missing: number;
   /** The mean over the first N_i runs, when the scenario has them; else null. */
   mean: number | null;
+  /**
+   * True when (c·S/δ)² asked for more than MAX_RUNS (src/stats/runsNeeded.ts): `runs_needed` is then
+   * MAX_RUNS, and the selection at the cap no longer has its guaranteed probability.
+   */
+  runs_capped: boolean;
 }
 
 /** A simultaneous interval for μ_i − (best of the other μ_j), oriented so that positive is better. */
@@ -62,8 +76,92 @@ export interface BestComparison {
   difference: number;
   lower: number;
   upper: number;
-  /** True when the interval lies at or below −0 with `upper` = 0: the scenario is not the best. */
+  /** True when `upper` = 0 (the interval lies at or below 0): the scenario cannot be the best. */
   ruled_out: boolean;
+  /** The scenario's mean over its N_i runs, as measured (not turned for `smaller`). */
+  mean: number;
+  /** The best of the other scenarios (the first in the manifest's order at a tie) and its mean. */
+  best_other: string;
+  best_other_mean: number;
+}
+
+/** One scenario's arithmetic, for the appendix. */
+export interface SelectionScenarioSteps {
+  scenario: string;
+  /** The run ids of the first stage and their values, in the order used (paired: the first scenario's order). */
+  first_stage_runs: string[];
+  first_stage_values: number[];
+  /** n0, the sum, mean, Σ(x − x̄)², its rounding correction, variance and sd of the first stage (spread.ts). */
+  first_stage: SpreadSteps;
+  /**
+   * (c·S/δ)² before the ceiling: c = h and S = S_i (independent), or c = g and S the pooled sd
+   * (paired, the same for every scenario); null when S = 0 (then N_i = n0).
+   */
+  runs_ratio: number | null;
+  /** Paired: the ids among the first N of the pairing order that the scenario lacks; empty for independent. */
+  missing_runs: string[];
+  /** The exactly rounded sum of the values over the first N_i runs, when the scenario has them. */
+  sum: number | null;
+}
+
+/** Paired method: the two-way residuals of the first stage and the pooled variance S² (Nelson and Matejcik 1995). */
+export interface PooledSteps {
+  /** The first stage's run ids (the columns), the first n0 of the first scenario. */
+  runs: string[];
+  /** X̄_i·, in the scenarios' order; X̄_·j, in the runs' order; X̄_··. */
+  scenario_means: number[];
+  run_means: number[];
+  grand_mean: number;
+  /** X_ij − X̄_i· − X̄_·j + X̄_··, one row per scenario, one column per run. */
+  residuals: number[][];
+  /** The exactly rounded ΣΣ of the residuals squared. */
+  sum_squared: number;
+  /** (k − 1)(n0 − 1). */
+  df: number;
+  /** S² = 2·sum_squared / df and S. */
+  variance: number;
+  sd: number;
+}
+
+/** One comparison of the first-stage screening: is i kept against j? */
+export interface ScreeningPair {
+  scenario: string;
+  other: string;
+  /** x̄_i − x̄_j on the first stage, turned for `smaller` (positive: i looks better). */
+  difference: number;
+  /** The variance of the difference of means: S_i²/n0 + S_j²/n0 (independent), S_ij²/n0 (paired, S_ij² of X_i − X_j). */
+  variance: number;
+  /** W_ij = t·√variance. */
+  w: number;
+  /** difference ≥ −W_ij. */
+  kept: boolean;
+}
+
+/** The first-stage screening (Nelson, Swann, Goldsman and Song 2001), for the appendix. */
+export interface ScreeningSteps {
+  /** `independent`: t at (P*)^(1/(k−1)); `paired`: t at 1 − (1 − P*)/(k − 1) on the differences (Bonferroni). */
+  form: SelectionMethod;
+  /** The probability of the t quantile, its degrees of freedom n0 − 1, and t. */
+  probability: number;
+  df: number;
+  t: number;
+  /** k(k − 1) rows: scenario i against every j ≠ i, in the scenarios' order. */
+  pairs: ScreeningPair[];
+}
+
+/** Every intermediate number of a selection, so that the appendix can show the arithmetic. */
+export interface SelectionSteps {
+  /** +1 for `larger`, −1 for `smaller`: the procedures work on sign·x, so that larger is better. */
+  sign: 1 | -1;
+  scenarios: SelectionScenarioSteps[];
+  /** Paired only; null for independent. */
+  pooled: PooledSteps | null;
+  /**
+   * Paired only: the pairing order (the first scenario's run ids, then ids only other scenarios
+   * have, in the order first met) cut to its first N; the selection uses these runs. Null for independent.
+   */
+  paired_runs: string[] | null;
+  screening: ScreeningSteps;
 }
 
 export interface SelectionResult {
@@ -86,4 +184,8 @@ export interface SelectionResult {
   subset: string[];
   /** The plain sentence the result supports, for the report's summary. */
   statement: string;
+  /** Σ N_i: the runs the selection uses in all (paired: k·N). */
+  total_runs: number;
+  /** Every intermediate number, for the appendix. */
+  steps: SelectionSteps;
 }

@@ -169,6 +169,29 @@ describe.skipIf(skip !== null)("sojourn report --on slurm (one-node Slurm)", { t
     expectSameBytes(local, out);
   });
 
+  it(title("a rerun after the report ended follows it while the run files are unchanged, and makes the report again after one changed"), async () => {
+    const at = join(dir, "rerun");
+    mkdirSync(at);
+    const manifest = await smallStudy(at);
+    const out = join(dir, "rerun-out");
+    const work = join(dir, "rerun-work");
+    const args = ["report", manifest, "--out", out, "--on", "slurm", "--work", work];
+    expect(sojourn(args).status).toBe(0);
+    const same = sojourn(args);
+    expect(same.stderr).toContain(`following the submission already in ${work}`);
+    expect(same.status).toBe(0);
+
+    // a run file changed after the report: the same command reports the file as it is now
+    await writeRunCsv(join(at, "runs", "s1", "rep-2.csv"), simulateQueue({ arrivalRate: 0.9, serviceRate: 0.5, servers: 3, horizon: 200, seed: 777, decimals: 3 }));
+    const local = join(dir, "rerun-local");
+    expect(sojourn(["report", manifest, "--out", local, "--quiet"]).status).toBe(0);
+    const again = sojourn(args);
+    expect(again.stderr).not.toContain("following the submission");
+    expect(again.stderr).toContain(`reusing 3 of 4 run summaries already in ${work}`);
+    expect(again.status).toBe(0);
+    expectSameBytes(local, out);
+  });
+
   it(title("MSER-5 warm-ups (a level and an observation measure): warm-up array, warm-up job, then the runs; DIR is the --on local report byte for byte, and a rerun reuses every part"), async () => {
     const at = join(dir, "mser");
     mkdirSync(at);
