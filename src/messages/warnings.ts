@@ -88,3 +88,7 @@ export const runsNeededWhy = (reason: string, n: number): string => {
       return `No number of runs (${reason}).`;
   }
 };
+
+/** A `select:` entry whose selection cannot be computed from the runs the study holds. */
+export const selectionNotMade = (index: number, measure: string, problem: string) =>
+  `select entry ${index + 1} (measure "${measure}"): no selection, because ${problem}. What to do: give every scenario of the entry at least its first-stage runs with a value of the measure.`;

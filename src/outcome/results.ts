@@ -1,3 +1,4 @@
+import type { SelectionResult } from "../stats/selection.js";
 import type { RunsNeededReason } from "../stats/runsNeeded.js";
 import type { IntervalSummary } from "../stats/interval.js";
 import type { RunStats } from "./runFigures.js";
@@ -238,4 +239,9 @@ export interface Results {
   comparisons?: Comparison[];
   /** Each measure against each factor (docs/manifest.md, "Factors and response curves"); absent without factors. */
   response_curves?: ResponseCurve[];
+  /** The manifest's `select:` entries that could be computed, in order (docs/results.md); absent without `select:`. */
+  selections?: SelectionEntry[];
 }
+
+/** One selection of the best: the measure it is on, then the procedure's result (stats/selection.ts). */
+export type SelectionEntry = { measure: string } & SelectionResult;

@@ -51,6 +51,8 @@ export interface TableRecord {
   comparison?: { index: number; a: string; b: string; method: string };
   /** Only on a response curve's table (kind "response-curve"): the factor the measure is drawn against. */
   curve?: { factor: string };
+  /** Only on a selection's table (kind "selection"): which `select:` entry of the manifest it is (0-based). */
+  selection?: { index: number };
 }
 
 /** Step-by-step arithmetic of one across-run interval, labelled with what it summarises. */

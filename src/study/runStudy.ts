@@ -16,6 +16,7 @@ import { type ResolvedWarmup, resolveWarmup } from "./warmup.js";
 import { runAnalyzer, workerCount } from "./pool.js";
 import { scenarioPlans, summariesAnalyzer } from "./runSummary.js";
 import { curveTableFile, responseCurves } from "./responseCurves.js";
+import { selectionTableFile, selectScenarios } from "./selections.js";
 import * as summaryMessages from "../messages/summary.js";
 import { runsWithoutValue } from "../messages/warnings.js";
 
@@ -86,6 +87,7 @@ interface ScenarioWork {
  *          │                └─ per measure: across-run summaries with their interval arithmetic
  *          ├─ comparisons between scenarios (Bonferroni over all of them), each with its table
  *          ├─ response curves: each measure against each factor, points = scenario summaries
+ *          ├─ selections of the best (select:): runs needed, selection, comparisons with the best
  *          └─ results.json + tables + chart data + audit records  ──▶  StudyOutcome
  *
  * Runs end in any order (worker threads); what each leaves is kept at its index and the samples
@@ -233,6 +235,14 @@ export async function runStudy(study: Study, options: RunStudyOptions = {}): Pro
   if (curves.length > 0) outcome.results.response_curves = curves;
   for (const curve of curves) {
     const f = curveTableFile(curve);
+    writeTable(f.record.file, f.csv);
+    outcome.tables.push(f.record);
+  }
+  const chosen = selectScenarios(study, outcome.results);
+  if (study.selections.length > 0) outcome.results.selections = chosen.selections.map((s) => ({ measure: s.measure, ...s.result }));
+  outcome.warnings.push(...chosen.warnings);
+  for (const s of chosen.selections) {
+    const f = selectionTableFile(s.index, s.measure, s.result);
     writeTable(f.record.file, f.csv);
     outcome.tables.push(f.record);
   }
