@@ -167,6 +167,16 @@ export async function check(manifest: string, o: { json?: boolean; workers?: num
   else for (const line of planText(plan)) say(line);
 }
 
+export async function moreRuns(manifest: string, o: { json?: boolean; workers?: number }): Promise<void> {
+  const study = await loadStudy(manifest);
+  await noteWorkers(study, o.workers);
+  const [{ runStudy }, { moreRunsPlan, moreRunsText }] = await Promise.all([import("../study/runStudy.js"), import("./moreRuns.js")]);
+  const { outcome } = await runStudy(study, { workers: o.workers });
+  const plan = moreRunsPlan(study, outcome.results);
+  if (o.json) sayJson(plan, 2);
+  else for (const line of moreRunsText(plan)) say(line);
+}
+
 export async function at(manifest: string, o: { scenario: string; run: string; measure: string; time: number; json?: boolean }): Promise<void> {
   const study = await loadStudy(manifest);
   const { timeAverageAt } = await import("../study/at.js");

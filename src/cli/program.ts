@@ -92,6 +92,13 @@ export function program(): Command {
     .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; never more than the cores or the runs; 1: no worker)", count)
     .action(commands.check);
 
+  p.command("more-runs")
+    .description("read the study (writing nothing) and print how many more runs each scenario needs: for each select: entry, and for each measure with a target")
+    .argument("<manifest>", "the study manifest")
+    .option("--json", "print the runs needed as JSON for scripts")
+    .option("--workers <n>", "worker threads for the runs (default: $SOJOURN_WORKERS, else the available cores; never more than the cores or the runs; 1: no worker)", count)
+    .action(commands.moreRuns);
+
   p.command("summarize-run")
     .description("analyse one run and write its results, tables and input digest to a summary file, for a report built elsewhere (report --from-summaries)")
     .argument("<manifest>", "the study manifest")
