@@ -656,3 +656,47 @@ export function responseCurveChart(args: {
     config: config(),
   } as unknown as TopLevelSpec;
 }
+
+/** One scenario's interval of the multiple comparisons with the best, for `bestComparisonChart`. */
+export interface BestComparisonPoint {
+  scenario: string;
+  lower: number;
+  upper: number;
+  /** The interval as shown, for the mark's accessible description. */
+  label: string;
+}
+
+/**
+ * The intervals of the multiple comparisons with the best, one row per scenario: a bar from the
+ * interval's lower to its upper end, with end ticks, and a line at zero. Positive is better (the
+ * intervals are oriented so), so a bar that ends at zero marks a scenario ruled out, one that
+ * starts at zero the selected.
+ */
+export function bestComparisonChart(points: BestComparisonPoint[], valueTitle: string): TopLevelSpec {
+  const order = points.map((p) => nameKey(p.scenario));
+  const y = { field: "scenario_key", type: "nominal", scale: { domain: order }, title: null, axis: { labelExpr: NAME_LABEL } } as const;
+  const values = points.map((p) => ({ ...p, scenario_key: nameKey(p.scenario), about: `${p.scenario}: ${p.label}` }));
+  const x = { field: "lower", type: "quantitative", title: axisTitle(valueTitle) } as const;
+  return {
+    $schema: SCHEMA,
+    width: WIDTH,
+    height: { step: 34 },
+    data: { values },
+    layer: [
+      {
+        name: "best_zero",
+        data: { values: [{ zero: 0 }] },
+        mark: { type: "rule", strokeWidth: 1, color: PALETTE.muted, strokeDash: [4, 3] },
+        encoding: { x: { field: "zero", type: "quantitative" } },
+      },
+      {
+        name: "best_interval",
+        mark: { type: "rule", strokeWidth: 3, color: PALETTE.kiln },
+        encoding: { y, x, x2: { field: "upper" }, description: { field: "about" } },
+      },
+      { name: "best_lower", mark: { type: "tick", thickness: 2, size: 14, color: PALETTE.kiln }, encoding: { y, x } },
+      { name: "best_upper", mark: { type: "tick", thickness: 2, size: 14, color: PALETTE.kiln }, encoding: { y, x: { field: "upper", type: "quantitative" } } },
+    ],
+    config: config(),
+  } as unknown as TopLevelSpec;
+}

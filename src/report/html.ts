@@ -104,18 +104,23 @@ export interface RenderedReport {
   charts: ChartFile[];
 }
 
+/** What a chart belongs to: a measure's section, a scenario's warm-up, or the n-th selection (0-based) and its measure. */
+export type ChartOwner = { measure: string } | { warmup: string } | { selection: number; measure: string };
+
 /**
  * The file of a chart under the report folder, one to one with the charts of a report:
  *
  *   charts/measures/<measure>/<n>-<what>.svg   the n-th chart of a measure section (interval, runs, trace, ...)
  *   charts/warm-up/<scenario>.svg              a scenario's warm-up plot
+ *   charts/selections/<n>-<measure>.svg        the n-th selection's comparisons with the best
  *
  * Names are written with the calculation tables' rule (`safeName`, src/study/tables.ts), which is
  * injective; `<n>` is the chart's running number within its measure, so two traces of one measure
  * never share a file.
  */
-export function chartFile(chart: Chart, owner: { measure: string } | { warmup: string }): string {
+export function chartFile(chart: Chart, owner: ChartOwner): string {
   if ("warmup" in owner) return `charts/warm-up/${safeName(owner.warmup)}.svg`;
+  if ("selection" in owner) return `charts/selections/${owner.selection + 1}-${safeName(owner.measure)}.svg`;
   const m = /-chart-(\d+)-([a-z-]+)$/.exec(chart.id);
   const tail = m === null ? safeName(chart.id) : `${m[1]}-${m[2]}`;
   return `charts/measures/${safeName(owner.measure)}/${tail}.svg`;
@@ -139,7 +144,7 @@ function escapeXml(s: string): string {
 export async function renderReport(model: ReportModel, edition: Edition = DEFAULT_EDITION): Promise<RenderedReport> {
   const { page, css } = await loadTemplates();
   const charts: ChartFile[] = [];
-  const withSvg = async <C extends Chart>(c: C, owner: { measure: string } | { warmup: string }) => {
+  const withSvg = async <C extends Chart>(c: C, owner: ChartOwner) => {
     const svg = await renderChartSvg(c.spec);
     charts.push({ file: chartFile(c, owner), svg: standaloneSvg(svg, c.caption) });
     return { ...c, svg };
@@ -156,7 +161,13 @@ export async function renderReport(model: ReportModel, edition: Edition = DEFAUL
     for (const w of model.warmup.scenarios) scenarios.push({ ...w, chart: w.chart === null ? null : await withSvg(w.chart, { warmup: w.scenario }) });
     warmup = { ...model.warmup, scenarios };
   }
-  const view = editionView({ ...model, warmup, measures } as ReportModel, edition);
+  let selections = null;
+  if (model.selections !== null) {
+    const items = [];
+    for (const [i, s] of model.selections.items.entries()) items.push({ ...s, chart: s.chart === null ? null : await withSvg(s.chart, { selection: i, measure: s.key }) });
+    selections = { ...model.selections, items };
+  }
+  const view = editionView({ ...model, warmup, measures, selections } as ReportModel, edition);
   return { html: page({ ...view, css }), charts };
 }
 

@@ -2,6 +2,7 @@
  * The audit appendix: the input files, the calculation tables, the arithmetic of every interval,
  * the consistency checks and the batch values.
  */
+import { selectionSteps } from "./selections.js";
 import { meanCorrectionMatters, PREVIEW_HEAD, PREVIEW_RUNS, PREVIEW_TAIL } from "../../study/tables.js";
 import type { Check, IntervalArithmetic, StudyOutcome, TableRecord } from "../../outcome/index.js";
 import { MISSING } from "../number.js";
@@ -63,6 +64,7 @@ export function appendixView(ctx: ReportContext): ReportModel["appendix"] {
     tablesElsewhere,
     intervals,
     comparisons: comparisonBlocksView(ctx),
+    selections: selectionSteps(ctx, ctx.outcome.tables.filter((t) => t.kind === "selection").map((t) => `${t.file} (SHA-256 ${t.sha256})`)),
     checks,
     batchValues,
   };

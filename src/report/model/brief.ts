@@ -8,6 +8,7 @@ import type { Comparison, SummaryReading } from "../../outcome/index.js";
 import { formatPercent } from "../number.js";
 import type { ReportContext } from "./anchors.js";
 import type { BriefSentence } from "./view.js";
+import { selectionIds, selectionSentence } from "./selections.js";
 import { fmt, intervalText, q } from "./words.js";
 
 /** Items named in one sentence before "and N more". */
@@ -98,6 +99,11 @@ export function briefSentences(ctx: ReportContext): BriefSentence[] {
     say(`Each measure is also drawn against ${factors.length === 1 ? "the factor" : "the factors"} ${names(factors.map(q))}, each point a scenario's interval above (response curves, no fitted model).`,
       first === undefined ? null : `#${first}`, "(first curve)");
   }
+
+  // Selections of the best: the sentence each supports.
+  const selected = results.selections ?? [];
+  const sections = selectionIds(selected);
+  selected.forEach((s, i) => say(selectionSentence(ctx, s), `#${sections[i].section}`, "(selection)"));
 
   if (b.warnings === 0) say("The study produced no warnings.");
   else say(`The study produced ${count(b.warnings, "warning")}.`, "#warnings", "(warnings)");

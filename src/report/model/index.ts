@@ -20,7 +20,8 @@ import { appendixView } from "./appendix.js";
 import { comparisonsView } from "./comparisons.js";
 import { coverView } from "./cover.js";
 import { measureSection } from "./measure.js";
-import { CURVE_CAUTION, LIMITATIONS, METHODS } from "./methods.js";
+import { CURVE_CAUTION, LIMITATIONS, METHODS, SELECTION_CAUTION } from "./methods.js";
+import { selectionsView } from "./selections.js";
 import { summaryView } from "./summary.js";
 import type { ReportModel } from "./view.js";
 import { warmupSection } from "./warmup.js";
@@ -46,6 +47,7 @@ export function buildReportModel(
   const warmup = warmupSection(ctx);
   const measures = study.measureNames.map((name, mi) => measureSection(ctx, name, mi));
   const comparisons = comparisonsView(ctx);
+  const selections = selectionsView(ctx);
   const warnings = warningLines(outcome, ctx.warningIds, (m) => (study.measureNames.includes(m) ? ctx.labelOf(m) : m));
 
   const contents = [
@@ -53,6 +55,7 @@ export function buildReportModel(
     ...(warmup ? [{ href: "#warmup", label: "Warm-up" }] : []),
     ...measures.map((m) => ({ href: `#${m.id}`, label: m.name })),
     ...(comparisons ? [{ href: "#comparisons", label: "Scenario comparisons" }] : []),
+    ...(selections ? [{ href: "#selections", label: "Selecting the best" }] : []),
     { href: "#methods", label: "Method notes" },
     { href: "#limitations", label: "Limitations and cautions" },
     { href: "#warnings", label: `Warnings (${warnings.length})` },
@@ -71,9 +74,14 @@ export function buildReportModel(
     summary: summaryView(ctx),
     warmup,
     measures,
+    selections,
     comparisons,
     methods: METHODS.map((n, i) => ({ id: anchor("method", i + 1, n.term), ...n })),
-    limitations: (outcome.results.response_curves ?? []).length > 0 ? [...LIMITATIONS, CURVE_CAUTION] : LIMITATIONS,
+    limitations: [
+      ...LIMITATIONS,
+      ...((outcome.results.response_curves ?? []).length > 0 ? [CURVE_CAUTION] : []),
+      ...(study.selections.length > 0 ? [SELECTION_CAUTION] : []),
+    ],
     warnings,
     appendix: appendixView(ctx),
   };

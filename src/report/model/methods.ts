@@ -110,6 +110,15 @@ export const METHODS: Omit<MethodNote, "id">[] = [
 export const CURVE_CAUTION = "Each point of a response curve is its scenario's own interval, with the assumptions of that interval; " +
   "the points are not jointly at the stated confidence, and the lines between them only guide the eye: no factor value between two points was simulated and no model is fitted, so a curve says nothing about values between or beyond its points.";
 
+/**
+ * The caution of the selections of the best, shown after the others when the study has any: what
+ * the procedures assume, and which runs are the first stage.
+ */
+export const SELECTION_CAUTION = "A selection of the best assumes that each scenario's run values are normally distributed and that the runs are independent: " +
+  "across scenarios too, or, with runs paired by id (common random numbers), that run i of every scenario shares its random numbers and the pairs are independent of each other. " +
+  "The first stage is the first n0 runs of each scenario in the order the manifest lists them (a glob lists them by name); the runs needed are counted from there, so runs added later must come after them. " +
+  "The probability is for the whole selection: a difference smaller than the indifference amount counts as no difference, and the probability says nothing about scenarios that were not simulated.";
+
 export const LIMITATIONS = [
   "The report summarises what the simulation model produced. Whether the model represents the real system (its logic, its input distributions, its data) is outside this tool and has to be established separately.",
   "Each interval assumes that the run values of a scenario are independent and identically distributed (separate random-number streams, same settings) and roughly normal; with few runs or skewed values the stated confidence is approximate.",

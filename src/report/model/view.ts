@@ -2,6 +2,7 @@
  * The view types of the report model: what the templates place, every number already text.
  */
 import type { TopLevelSpec } from "vega-lite";
+import type { SelectionSteps, SelectionView } from "./selections.js";
 
 /** A number as shown, with the anchor of the place that derives it (or null). */
 export interface Cell {
@@ -234,6 +235,8 @@ export interface ReportModel {
   /** The warm-up estimates (MSER-5) with the warm-up plot; null when no scenario estimated one. */
   warmup: { intro: string; scenarios: WarmupView[] } | null;
   measures: MeasureSection[];
+  /** The selections of the best (select:), one item per computed entry; null without select:. */
+  selections: { intro: string; items: SelectionView[] } | null;
   /** The comparisons table; `notes` under it say what a comparison was made on, what it assumes, and why one has no arithmetic. */
   comparisons: { intro: string; table: TableView; notes: string[] } | null;
   methods: MethodNote[];
@@ -250,6 +253,8 @@ export interface ReportModel {
     intervals: IntervalView[];
     /** The arithmetic of each comparison that has one; null when the study compares no scenarios. */
     comparisons: { intro: string; blocks: ComparisonBlock[] } | null;
+    /** The arithmetic of each selection of the best; null when there is none. */
+    selections: { intro: string; blocks: SelectionSteps[] } | null;
     /** Consistency checks of the run data, one row per check and run; null when there are none. */
     checks: { intro: string; table: TableView } | null;
     /** The batch means of every run, per measure; null without batch means. */
