@@ -14,9 +14,12 @@ rmSync(join(folder, "runs"), { recursive: true, force: true });
 for (const plan of FERRY_PLANS.plans) {
   const dir = join(folder, "runs", plan.name);
   mkdirSync(dir, { recursive: true });
-  for (let k = 1; k <= FERRY_PLANS.replications; k++) {
+  // The selection's plans also get their second-stage runs (src/demo/ferryPlans.ts).
+  const runs = FERRY_PLANS.selection.plans.includes(plan.name) ? FERRY_PLANS.selection.runs : FERRY_PLANS.replications;
+  for (let k = 1; k <= runs; k++) {
     const rows = simulateQueue({ arrivalRate: FERRY_PLANS.arrivalRate, serviceRate: plan.serviceRate, servers: plan.booths, horizon: FERRY_PLANS.horizon, seed: planSeed(k), decimals: 3 });
     await writeRunCsv(join(dir, `rep-${String(k).padStart(2, "0")}.csv`), rows);
   }
 }
-process.stdout.write(`ferry-booth-plans: wrote ${FERRY_PLANS.plans.length} x ${FERRY_PLANS.replications} runs into ${join(folder, "runs")}` + "\n");
+const second = FERRY_PLANS.selection.plans.length * (FERRY_PLANS.selection.runs - FERRY_PLANS.replications);
+process.stdout.write(`ferry-booth-plans: wrote ${FERRY_PLANS.plans.length} x ${FERRY_PLANS.replications} first-stage runs and ${second} second-stage runs into ${join(folder, "runs")}` + "\n");
