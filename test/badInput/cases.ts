@@ -19,7 +19,7 @@ import { gzipSync } from "node:zlib";
 import { ROW_LIMIT_MAX } from "../../src/ingest/feeder.js";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { PARQUET_CODECS } from "../../src/ingest/parquetFile.js";
-import { type EventRow, eventsParquet, parquetFile } from "../helpers/parquet.js";
+import { type EventRow, eventsParquet, parquetFile, parquetWithSchema } from "../helpers/parquet.js";
 import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
@@ -161,6 +161,26 @@ const PQ_DAMAGED = (() => {
   const at = Math.floor(bytes.length * 0.6);
   return bytes.fill(0xff, at, at + 40);
 })();
+/** A manifest whose measure reads only rows whose `stations` attribute is `oven`. */
+const M_PARQUET_NESTED = manifest("  - {name: queue, kind: level, series: queue, where: {stations: oven}}\n", "{name: morning, end: 10, runs: runs/*.parquet}");
+/** An event table with a list column `stations` (Parquet's three-level LIST of texts) after its flat columns. */
+const PQ_NESTED = parquetWithSchema(
+  [
+    { name: "root", num_children: 4 },
+    { name: "time", type: "DOUBLE", repetition_type: "REQUIRED" },
+    { name: "series", type: "BYTE_ARRAY", converted_type: "UTF8", repetition_type: "OPTIONAL" },
+    { name: "value", type: "DOUBLE", repetition_type: "OPTIONAL" },
+    { name: "stations", repetition_type: "OPTIONAL", converted_type: "LIST", num_children: 1 },
+    { name: "list", repetition_type: "REPEATED", num_children: 1 },
+    { name: "element", type: "BYTE_ARRAY", converted_type: "UTF8", repetition_type: "OPTIONAL" },
+  ],
+  [
+    { name: "time", data: [0, 3] },
+    { name: "series", data: ["queue", "queue"] },
+    { name: "value", data: [2, 5] },
+    { name: "stations", data: [["oven"], ["oven", "till"]] },
+  ],
+);
 /** A name of 300 bytes: more than the 255 most file systems take for one name. */
 const LONG_NAME = "r".repeat(300);
 
@@ -648,6 +668,17 @@ export const CASES: BadInputCase[] = [
     status: 1,
     message: () => ingestMessages.parquetUnusableType("runs/day-1.parquet", 1, "value", "value", "BOOLEAN", "numbers (a double, float, integer or decimal column)"),
     place: "runs/day-1.parquet:1",
+  },
+  {
+    id: "parquet-nested-column",
+    title: "A nested Parquet column that the study reads",
+    what: "The manifest picks rows by `where: {stations: oven}`, but `stations` is a list column: each row holds several texts.",
+    files: { [STUDY]: M_PARQUET_NESTED, "runs/day-1.parquet": PQ_NESTED },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetNestedColumn("runs/day-1.parquet", "stations", "a nested group (LIST)"),
+    place: "runs/day-1.parquet",
   },
   {
     id: "parquet-null-time",
