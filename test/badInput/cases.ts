@@ -209,6 +209,10 @@ const M_ENTITIES = manifest(
   "layout: entities\ncolumns: {entity: id}\n",
 );
 const M_LEVELS = manifest(QUEUE + "  - {name: counter, kind: utilization, series: busy, capacity: 1}\n", undefined, "layout: levels\n");
+const M_WHERE_EMPTY = manifest("  - {name: queue, kind: level, series: queue, where: {}}\n");
+const M_WHERE_NO_VALUES = manifest("  - {name: queue, kind: level, series: queue, where: {server: []}}\n");
+const M_WHERE_MAPPING = manifest("  - {name: queue, kind: level, series: queue, where: {server: {id: 0}}}\n");
+const M_WHERE_EMPTY_TEXT = manifest('  - {name: queue, kind: level, series: queue, where: {class: [gold, ""]}}\n');
 const M_WHERE = manifest("  - {name: queue, kind: level, series: queue, where: {sever: 0}}\n");
 /** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
 const RECORD_NO_OUTPUTS = JSON.stringify(
@@ -999,6 +1003,46 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     startsWith: () => manifestMessages.wrongType(at(M_TYPE, "ten", "scenarios[0].end"), "a number", 'a text ("ten")', null, false).message.split("\n")[0],
+  },
+  {
+    id: "where-empty",
+    title: "An empty where",
+    what: "`where: {}` names no column to filter on.",
+    files: { [STUDY]: M_WHERE_EMPTY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.whereColumnCount(at(M_WHERE_EMPTY, "{}", "measures[0].where"), 0, 1),
+  },
+  {
+    id: "where-no-values",
+    title: "A where column with an empty list of values",
+    what: "`where: {server: []}`: a list of values to keep needs at least one value.",
+    files: { [STUDY]: M_WHERE_NO_VALUES, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongItemCount(at(M_WHERE_NO_VALUES, "[]", "measures[0].where.server"), 0, "at least 1 item", null).message.split("\n")[0],
+  },
+  {
+    id: "where-wrong-type",
+    title: "A where value that is neither a value nor a list",
+    what: "A where column takes a number, a text or a list of them; here a mapping.",
+    files: { [STUDY]: M_WHERE_MAPPING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongType(at(M_WHERE_MAPPING, "{id: 0}", "measures[0].where.server"), "a number, a text or a list", "a mapping", null, false).message.split("\n")[0],
+  },
+  {
+    id: "where-empty-text",
+    title: "An empty text among a where's values",
+    what: "An empty text matches no cell (an empty cell matches nothing), so it is refused.",
+    files: { [STUDY]: M_WHERE_EMPTY_TEXT, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.emptyText(at(M_WHERE_EMPTY_TEXT, '""', "measures[0].where.class[1]")),
   },
   {
     id: "duplicate-name",
