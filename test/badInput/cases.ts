@@ -213,6 +213,14 @@ const M_WHERE_EMPTY = manifest("  - {name: queue, kind: level, series: queue, wh
 const M_WHERE_NO_VALUES = manifest("  - {name: queue, kind: level, series: queue, where: {server: []}}\n");
 const M_WHERE_MAPPING = manifest("  - {name: queue, kind: level, series: queue, where: {server: {id: 0}}}\n");
 const M_WHERE_EMPTY_TEXT = manifest('  - {name: queue, kind: level, series: queue, where: {class: [gold, ""]}}\n');
+/** Two scenarios of a designed experiment with the given `factors` entries (empty: none). */
+const factorStudy = (a: string, b: string) =>
+  `title: Bakery counter\ntime_unit: min\nscenarios:\n  - {name: two-ovens, end: 10, runs: runs/*.csv${a}}\n  - {name: three-ovens, end: 10, runs: runs/*.csv${b}}\nmeasures:\n${QUEUE}`;
+const M_FACTOR_TEXT = factorStudy(", factors: {ovens: two}", ", factors: {ovens: 3}");
+const M_FACTOR_LACKING = factorStudy(", factors: {ovens: 2, bakers: 1}", ", factors: {ovens: 3}");
+const M_FACTOR_EXTRA = factorStudy(", factors: {ovens: 2}", ", factors: {ovens: 3, bakers: 1}");
+const M_FACTOR_SOME = factorStudy(", factors: {ovens: 2}", "");
+const M_FACTOR_EMPTY = factorStudy(", factors: {}", "");
 const M_WHERE = manifest("  - {name: queue, kind: level, series: queue, where: {sever: 0}}\n");
 /** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
 const RECORD_NO_OUTPUTS = JSON.stringify(
@@ -1043,6 +1051,56 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.emptyText(at(M_WHERE_EMPTY_TEXT, '""', "measures[0].where.class[1]")),
+  },
+  {
+    id: "factor-not-a-number",
+    title: "A factor value that is not a number",
+    what: "A factor's value places the scenario on a response curve's axis, so it must be a finite number.",
+    files: { [STUDY]: M_FACTOR_TEXT, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongType(at(M_FACTOR_TEXT, "two}", "scenarios[0].factors.ovens"), "a number", 'a text ("two")', null, false).message.split("\n")[0],
+  },
+  {
+    id: "factor-missing",
+    title: "A scenario that lacks a factor",
+    what: "The first scenario with factors names `ovens` and `bakers`; the second gives only `ovens`.",
+    files: { [STUDY]: M_FACTOR_LACKING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorsDiffer(at(M_FACTOR_LACKING, "{ovens: 3}", "scenarios[1].factors"), "three-ovens", ["bakers"], [], "two-ovens"),
+  },
+  {
+    id: "factor-extra",
+    title: "A scenario that names a factor the others do not",
+    what: "The second scenario gives `bakers`, which the first scenario with factors does not name.",
+    files: { [STUDY]: M_FACTOR_EXTRA, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorsDiffer({ ...at(M_FACTOR_EXTRA, "bakers", "scenarios[1].factors.bakers") }, "three-ovens", [], ["bakers"], "two-ovens"),
+  },
+  {
+    id: "factor-on-some-scenarios",
+    title: "Factors on only some scenarios",
+    what: "Either no scenario has `factors`, or every one does; the second scenario has none.",
+    files: { [STUDY]: M_FACTOR_SOME, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorsDiffer(at(M_FACTOR_SOME, "{name: three-ovens", "scenarios[1]"), "three-ovens", ["ovens"], [], "two-ovens"),
+  },
+  {
+    id: "factors-empty",
+    title: "An empty factors",
+    what: "`factors: {}` names no factor.",
+    files: { [STUDY]: M_FACTOR_EMPTY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorCount(at(M_FACTOR_EMPTY, "{}", "scenarios[0].factors"), 0, 1),
   },
   {
     id: "duplicate-name",
