@@ -221,6 +221,14 @@ const M_FACTOR_LACKING = factorStudy(", factors: {ovens: 2, bakers: 1}", ", fact
 const M_FACTOR_EXTRA = factorStudy(", factors: {ovens: 2}", ", factors: {ovens: 3, bakers: 1}");
 const M_FACTOR_SOME = factorStudy(", factors: {ovens: 2}", "");
 const M_FACTOR_EMPTY = factorStudy(", factors: {}", "");
+const M_BLANK_LABEL = manifest('  - {name: queue, kind: level, series: queue, label: "   "}\n');
+const M_SERIES_AND_FROM = manifest("  - {name: queue, kind: level, series: queue, from: {enter: arrive, leave: leave}}\n");
+const M_SAME_TWICE = manifest(QUEUE) + "compare:\n  - {measure: queue, scenarios: [morning, morning]}\n";
+const M_ONE_BATCH = manifest(QUEUE, undefined, "analysis: {method: batch-means, batches: 1}\n");
+const M_MSER_COUNT = manifest(QUEUE + "  - {name: served, kind: count, series: served}\n", undefined, "warmup: {method: mser-5, measure: served, slice: 1}\n");
+const M_TARGET_EMPTY = manifest("  - {name: queue, kind: level, series: queue, target: {}}\n");
+const M_RUNS_FOLDER = manifest(QUEUE, "{name: morning, end: 10, runs: [runs]}");
+const M_NOT_MAPPING = "- morning\n- evening\n";
 const M_WHERE = manifest("  - {name: queue, kind: level, series: queue, where: {sever: 0}}\n");
 /** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
 const RECORD_NO_OUTPUTS = JSON.stringify(
@@ -1101,6 +1109,106 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.factorCount(at(M_FACTOR_EMPTY, "{}", "scenarios[0].factors"), 0, 1),
+  },
+  {
+    id: "manifest-is-folder",
+    title: "The manifest path names a folder",
+    what: "`sojourn check runs` names the folder of run files, not the manifest.",
+    files: { "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["check", "runs"],
+    status: 1,
+    message: () => manifestMessages.manifestIsFolder("runs"),
+  },
+  {
+    id: "manifest-empty",
+    title: "An empty manifest",
+    what: "The manifest file holds nothing (or only comments).",
+    files: { [STUDY]: "# to do\n", "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestEmpty(STUDY),
+  },
+  {
+    id: "manifest-not-a-mapping",
+    title: "A manifest that is a list",
+    what: "The file is a YAML list, not a mapping of keys.",
+    files: { [STUDY]: M_NOT_MAPPING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.notAMapping({ file: STUDY, line: 1, column: 1, path: "" }, "a list"),
+  },
+  {
+    id: "blank-label",
+    title: "A label of spaces only",
+    what: "A `label` that holds only spaces would show nothing.",
+    files: { [STUDY]: M_BLANK_LABEL, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.blankText(at(M_BLANK_LABEL, '"   "', "measures[0].label")),
+  },
+  {
+    id: "series-and-from",
+    title: "A measure with both series and from",
+    what: "A measure reads one series, or derives from entity events, not both.",
+    files: { [STUDY]: M_SERIES_AND_FROM, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.seriesAndFrom(at(M_SERIES_AND_FROM, "{name: queue", "measures[0]"), "queue"),
+  },
+  {
+    id: "compare-same-scenario",
+    title: "A comparison of a scenario with itself",
+    what: "Both scenarios of the comparison are `morning`.",
+    files: { [STUDY]: M_SAME_TWICE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.sameScenarioTwice(at(M_SAME_TWICE, "morning]}", "compare[0].scenarios[1]"), "morning"),
+  },
+  {
+    id: "one-batch",
+    title: "Batch means with one batch",
+    what: "`batches: 1` leaves no spread between batches to make an interval from.",
+    files: { [STUDY]: M_ONE_BATCH, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.tooFewBatches(at(M_ONE_BATCH, "1}", "analysis.batches"), 1),
+  },
+  {
+    id: "mser-count-measure",
+    title: "An MSER-5 warm-up judged on a count",
+    what: "MSER-5 needs a quantity that varies over time; a count measure has none.",
+    files: { [STUDY]: M_MSER_COUNT, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.mserCountMeasure(at(M_MSER_COUNT, "served, slice", "warmup.measure"), "served"),
+  },
+  {
+    id: "target-empty",
+    title: "An empty precision target",
+    what: "`target: {}` gives neither `half_width` nor `relative`.",
+    files: { [STUDY]: M_TARGET_EMPTY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.targetNeedsOneKey(at(M_TARGET_EMPTY, "{}", "measures[0].target"), 0),
+  },
+  {
+    id: "run-path-is-folder",
+    title: "A run path that names a folder",
+    what: "`runs: [runs]` names the folder, not its files.",
+    files: { [STUDY]: M_RUNS_FOLDER, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.runPathIsFolder(at(M_RUNS_FOLDER, "runs]", "scenarios[0].runs[0]"), "runs"),
   },
   {
     id: "duplicate-name",
