@@ -20,7 +20,7 @@ import { ROW_LIMIT_MAX } from "../../src/ingest/feeder.js";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { PARQUET_CODECS } from "../../src/ingest/parquetFile.js";
 import { type EventRow, eventsParquet, parquetFile, parquetWithSchema } from "../helpers/parquet.js";
-import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
+import { type Place, type UserError, ingestMessages, initMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
 import * as warnings from "../../src/messages/warnings.js";
@@ -229,6 +229,9 @@ const M_MSER_COUNT = manifest(QUEUE + "  - {name: served, kind: count, series: s
 const M_TARGET_EMPTY = manifest("  - {name: queue, kind: level, series: queue, target: {}}\n");
 const M_RUNS_FOLDER = manifest(QUEUE, "{name: morning, end: 10, runs: [runs]}");
 const M_NOT_MAPPING = "- morning\n- evening\n";
+/** An event table and an entity table (one row per customer): two layouts in one runs folder. */
+const EVENTS_CSV = "time,series,value\n0,queue,0\n1,queue,1\n2,queue,2\n3,queue,1\n4,queue,0\n";
+const ENTITY_CSV = "id,arrived,left\n1,0.5,1.25\n2,0.75,2.5\n3,1.5,3\n4,2,3.75\n";
 const M_WHERE = manifest("  - {name: queue, kind: level, series: queue, where: {sever: 0}}\n");
 /** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
 const RECORD_NO_OUTPUTS = JSON.stringify(
@@ -1209,6 +1212,51 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     message: () => manifestMessages.runPathIsFolder(at(M_RUNS_FOLDER, "runs]", "scenarios[0].runs[0]"), "runs"),
+  },
+  {
+    id: "init-runs-folder-missing",
+    title: "The runs folder does not exist",
+    what: "`sojourn init` is given a folder name that is not there.",
+    files: {},
+    show: [],
+    args: ["init", "runz"],
+    status: 1,
+    message: () => initMessages.runsDirNotFound("runz"),
+    afterwards: { [STUDY]: null },
+  },
+  {
+    id: "init-runs-folder-is-file",
+    title: "A run file instead of its folder",
+    what: "`sojourn init` reads a folder of run files; here it is given one file.",
+    files: { "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["init", "runs/day-1.csv"],
+    status: 1,
+    message: () => initMessages.runsDirIsFile("runs/day-1.csv"),
+    afterwards: { [STUDY]: null },
+  },
+  {
+    id: "init-no-run-files",
+    title: "A folder with no run files",
+    what: "The folder is empty (a file with another extension would be listed as skipped first).",
+    files: {},
+    setup: (dir) => mkdirSync(join(dir, "runs")),
+    show: [],
+    args: ["init", "runs"],
+    status: 1,
+    startsWith: () => initMessages.noRunFiles("runs", 0).message.split(" (")[0],
+    afterwards: { [STUDY]: null },
+  },
+  {
+    id: "init-mixed-layouts",
+    title: "Run files of two layouts in one folder",
+    what: "Scenario `a` has an event table, scenario `b` a table of one row per customer; one manifest reads one layout.",
+    files: { "runs/a/day-1.csv": EVENTS_CSV, "runs/b/day-1.csv": ENTITY_CSV },
+    show: ["runs/a/day-1.csv", "runs/b/day-1.csv"],
+    args: ["init", "runs"],
+    status: 1,
+    startsWith: () => initMessages.mixedLayouts("runs/a/day-1.csv", "", "runs/b/day-1.csv", "").message.split(" looks like")[0],
+    afterwards: { [STUDY]: null },
   },
   {
     id: "duplicate-name",
