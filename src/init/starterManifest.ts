@@ -4,9 +4,11 @@
  * The text is written by hand rather than by a YAML library so that every guess can carry a
  * comment saying what it is based on and what to check.
  */
-import { readdirSync } from "node:fs";
+import { existsSync, readdirSync } from "node:fs";
 import { basename, dirname, relative, resolve, sep } from "node:path";
+import { escapePath, globSync, isDynamicPattern } from "tinyglobby";
 import { RUN_EXTENSIONS } from "../ingest/runFile.js";
+import { terminalText } from "../messages/terminal.js";
 import type { RunsScan, ScannedScenario, SeriesFacts } from "./scanRuns.js";
 
 /** Names that suggest a level is the number of busy units of something. */
@@ -107,10 +109,10 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
   for (const c of scan.capacities) {
     const name = unique(`${measureName(c.busy)}_use`);
     const initial = c.capacityFrom > 0 ? `, capacity_initial: 0` : "";
-    const comment = [`GUESS utilization of "${c.busy}" against the capacity series "${c.capacity}": ${c.why}.`];
-    if (c.capacityFrom > 0) comment.push(`"${c.capacity}" first appears at time ${c.capacityFrom}; capacity_initial is the capacity before that: set it.`);
+    const comment = [`GUESS utilization of ${q(c.busy)} against the capacity series ${q(c.capacity)}: ${c.why}.`];
+    if (c.capacityFrom > 0) comment.push(`${q(c.capacity)} first appears at time ${c.capacityFrom}; capacity_initial is the capacity before that: set it.`);
     measures.push({ line: `{name: ${yamlText(name)}, kind: utilization, series: ${yamlText(c.busy)}, capacity: ${yamlText(c.capacity)}${initial}}`, comment });
-    checks.push(`${name}: is "${c.busy}" the busy units and "${c.capacity}" the units available?`);
+    checks.push(`${name}: is ${q(c.busy)} the busy units and ${q(c.capacity)} the units available?`);
   }
   for (const s of levels) {
     if (scan.capacities.some((c) => c.busy === s.name) || capacitySeries.has(s.name) || !BUSY_NAME.test(s.name) || s.min < 0) continue;
@@ -120,26 +122,26 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
     for (const p of perScenario) {
       if (p.max === study) continue;
       const list = overrides.get(p.sc) ?? [];
-      list.push(`${yamlText(name)}: {capacity: ${p.max}}   # GUESS: the most "${s.name}" seen in this scenario's runs`);
+      list.push(`${yamlText(name)}: {capacity: ${p.max}}   # GUESS: the most ${q(s.name)} seen in this scenario's runs`);
       overrides.set(p.sc, list);
     }
     measures.push({
       line: `{name: ${yamlText(name)}, kind: utilization, series: ${yamlText(s.name)}, capacity: ${study}}`,
-      comment: [`GUESS utilization: the name "${s.name}" suggests busy units; capacity ${study} is the most seen in any run. Write the real number of units.`],
+      comment: [`GUESS utilization: the name ${q(s.name)} suggests busy units; capacity ${study} is the most seen in any run. Write the real number of units.`],
     });
-    checks.push(`${name}: the capacity is the most "${s.name}" seen in the runs; write the real number of units${perScenario.length > 1 ? " per scenario" : ""}.`);
+    checks.push(`${name}: the capacity is the most ${q(s.name)} seen in the runs; write the real number of units${perScenario.length > 1 ? " per scenario" : ""}.`);
   }
   if (layout.layout === "entities") measures.push(...chainComment(scan));
   for (const [i, p] of scan.pairs.entries()) {
     const who = layout.layout === "entities" ? "rows" : "entities";
-    const evidence = `${p.shared} ${who} had both "${p.start}" and "${p.end}", ${p.inOrder === p.shared ? "all" : p.inOrder} in that order; ${p.open} had "${p.start}" only (censored if still open at the end)`;
+    const evidence = `${p.shared} ${who} had both ${q(p.start)} and ${q(p.end)}, ${p.inOrder === p.shared ? "all" : p.inOrder} in that order; ${p.open} had ${q(p.start)} only (censored if still open at the end)`;
     measures.push({
       line: `{name: ${yamlText(pairNames[i].level)}, kind: level, from: {enter: ${yamlText(p.start)}, leave: ${yamlText(p.end)}}}`,
-      comment: [`GUESS from entity events: ${evidence}.`, `The number of entities that have had "${p.start}" and not yet "${p.end}" (like a number in system).`],
+      comment: [`GUESS from entity events: ${evidence}.`, `The number of entities that have had ${q(p.start)} and not yet ${q(p.end)} (like a number in system).`],
     });
     measures.push({
       line: `{name: ${yamlText(pairNames[i].time)}, kind: observation, from: {start: ${yamlText(p.start)}, end: ${yamlText(p.end)}}}`,
-      comment: [`Each entity's time from "${p.start}" to "${p.end}" (like a time in system).`],
+      comment: [`Each entity's time from ${q(p.start)} to ${q(p.end)} (like a time in system).`],
     });
   }
   const served = layout.layout === "entities" && layout.events.length >= 3 ? scan.pairs.find((p) => p.start === layout.events[layout.events.length - 2] && p.end === lastEvent) : undefined;
@@ -171,13 +173,13 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
     const end = ends.get(sc.name)!;
     out.push(`  - name: ${yamlText(sc.name)}   # the folder ${rel(sc.dir)}`);
     out.push(`    end: ${end.end}   # CHECK: ${end.why}`);
-    const runs = runsSpec(sc, rel);
+    const runs = runsSpec(sc, rel, manifestDir);
     const ids = sc.runs.map((r) => r.id);
     const idText = ids.length <= 3 ? ids.join(", ") : `${ids[0]}, ${ids[1]}, ..., ${ids[ids.length - 1]}`;
     if (typeof runs === "string") out.push(`    runs: ${runs}   # ${ids.length} run${ids.length === 1 ? "" : "s"}: ${idText}`);
     else {
-      out.push(`    runs:   # ${ids.length} run${ids.length === 1 ? "" : "s"}; listed one by one because the folder holds skipped files too`);
-      for (const r of runs) out.push(`      - ${r}`);
+      out.push(`    runs:   # ${ids.length} run${ids.length === 1 ? "" : "s"}; listed one by one because ${runs.why}`);
+      for (const r of runs.paths) out.push(`      - ${r}`);
     }
     const o = overrides.get(sc.name);
     if (o !== undefined) {
@@ -194,7 +196,20 @@ export function starterManifest(scan: RunsScan, manifestPath: string): StarterMa
   }
   out.push(...attributeLines(scan, pairNames[0]?.time ?? [...seriesMeasure.values()][0]));
   out.push("");
-  return { text: out.join("\n"), checks };
+  return { text: out.map(oneLine).join("\n"), checks };
+}
+
+/**
+ * One line of the manifest with its line breaks written `\n` and `\r` and its other control
+ * characters `\uXXXX` (terminalText): a name from the run files (a series, a column, a folder, a
+ * file) cannot end a comment early and start a line of its own (YAML 1.2.2 section 6.6: a comment
+ * runs to the end of its line). Values are double-quoted by `yamlText` (JSON's escapes, which YAML
+ * 1.2.2 section 7.3.1 reads the same), so there the escapes keep the name as it is.
+ *
+ * Example: `oneLine('# series "a\nb"')` is `# series "a\nb"` with a backslash and an `n`.
+ */
+function oneLine(line: string): string {
+  return terminalText(line.replaceAll("\r", "\\r").replaceAll("\n", "\\n"));
 }
 
 const q = (name: string) => JSON.stringify(name);
@@ -269,7 +284,7 @@ function attributeLines(scan: RunsScan, example: string | undefined): string[] {
 /** A one-line description of a series: rows, files, values and entities. */
 function describe(s: SeriesFacts, runs: number): string {
   const carries = [s.valued > 0 ? (s.valued === s.rows ? "values" : `values on ${s.valued}`) : "no values", s.withEntity > 0 ? (s.withEntity === s.rows ? "entities" : `entities on ${s.withEntity}`) : "no entities"];
-  return `series "${s.name}": ${s.rows} rows in ${s.files} of ${runs} run files; ${carries.join(", ")}`;
+  return `series ${q(s.name)}: ${s.rows} rows in ${s.files} of ${runs} run files; ${carries.join(", ")}`;
 }
 
 /** The window end of a scenario: the last row of any run, rounded up to a round number. */
@@ -293,18 +308,40 @@ export function niceUp(x: number): number {
   return Number((n * step).toPrecision(12));
 }
 
-/** A glob when it matches exactly the scenario's runs, else the list of paths. */
-function runsSpec(sc: ScannedScenario, rel: (p: string) => string): string | string[] {
+/**
+ * A glob when it matches exactly the scenario's runs, else the list of paths. A folder or file
+ * name may hold glob characters (`{x}`, `[1]`, `(a)`, `!`): each text is kept only if the manifest
+ * will read it as naming exactly those files (src/manifest/resolveRuns.ts: a text with glob
+ * characters is a glob, any other a plain path), a path with its glob characters escaped when
+ * that is what it takes.
+ */
+function runsSpec(sc: ScannedScenario, rel: (p: string) => string, manifestDir: string): string | { paths: string[]; why: string } {
   const names = sc.runs.map((r) => basename(r.path));
+  let why = "the folder holds skipped files too";
   const suffix = RUN_EXTENSIONS.find((e) => names[0].endsWith(e));
   if (suffix !== undefined && names.every((n) => n.endsWith(suffix))) {
     const matches = readdirSync(sc.dir).filter((n) => !n.startsWith(".") && n.endsWith(suffix) && n.length > suffix.length);
     if (matches.length === names.length && matches.every((n) => names.includes(n))) {
       const folder = rel(sc.dir);
-      return yamlText(folder === "." ? `*${suffix}` : `${folder}/*${suffix}`);
+      const glob = folder === "." ? `*${suffix}` : `${escapePath(folder)}/*${suffix}`;
+      if (namesExactly(glob, sc.runs.map((r) => rel(r.path)))) return yamlText(glob);
+      why = "no glob names exactly these files (the folder's name holds glob characters)";
     }
   }
-  return sc.runs.map((r) => yamlText(rel(r.path)));
+  const paths = sc.runs.map((r) => {
+    const path = rel(r.path);
+    return yamlText([path, escapePath(path)].find((p) => namesExactly(p, [path])) ?? path);
+  });
+  return { paths, why };
+
+  /** Whether the `runs` entry `entry` names exactly the files `paths` (both relative to the manifest's folder). */
+  function namesExactly(entry: string, paths: string[]): boolean {
+    const found = isDynamicPattern(entry)
+      ? globSync(entry, { cwd: manifestDir, onlyFiles: true, expandDirectories: false, absolute: true }).map((p) => resolve(p))
+      : existsSync(resolve(manifestDir, entry)) ? [resolve(manifestDir, entry)] : [];
+    const wanted = paths.map((p) => resolve(manifestDir, p));
+    return found.length === wanted.length && wanted.every((p) => found.includes(p));
+  }
 }
 
 /** A measure name from a series name: letters, digits and `_`. */

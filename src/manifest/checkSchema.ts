@@ -84,7 +84,7 @@ const RANK: Record<string, number> = { additionalProperties: 0, required: 1, typ
  * also has an unknown key, since the unknown key is most likely the missing one misspelt.
  */
 function firstError(errors: ErrorObject[], source: ManifestSource): ErrorObject {
-  const real = errors.filter((e) => e.keyword !== "if");
+  const real = withoutAlternatives(errors).filter((e) => e.keyword !== "if");
   const withUnknownKey = new Set(real.filter((e) => e.keyword === "additionalProperties").map((e) => e.instancePath));
   const shown = real.filter((e) => !(e.keyword === "required" && withUnknownKey.has(e.instancePath)));
   const candidates = shown.length > 0 ? shown : errors;
@@ -94,6 +94,28 @@ function firstError(errors: ErrorObject[], source: ManifestSource): ErrorObject 
   });
   scored.sort((a, b) => a.line - b.line || a.column - b.column || a.rank - b.rank || a.index - b.index);
   return scored[0].error;
+}
+
+/**
+ * The errors with each `anyOf` (a value that may take one of several forms, such as a where's
+ * value: a number, a text or a list of them) replaced by the errors of the forms the value's type
+ * fits: an empty list is "an empty list", not "expected a text". When the value's type fits no
+ * form, one type error naming every type. ajv lists a branch's errors before the `anyOf` error
+ * itself, at the `anyOf`'s value or below it.
+ */
+function withoutAlternatives(errors: ErrorObject[]): ErrorObject[] {
+  let out = errors;
+  for (const alternatives of errors.filter((e) => e.keyword === "anyOf")) {
+    const at = alternatives.instancePath;
+    const end = out.indexOf(alternatives);
+    const group = out.slice(0, end).filter((e) => e.instancePath === at || e.instancePath.startsWith(`${at}/`));
+    const wrongType = group.filter((e) => e.keyword === "type" && e.instancePath === at);
+    const rest = group.filter((e) => !wrongType.includes(e));
+    const types = [...new Set(wrongType.flatMap((e) => (Array.isArray(e.schema) ? e.schema.map(String) : [String(e.schema)])))];
+    const replacement = rest.length > 0 ? rest : [{ ...alternatives, keyword: "type", schema: types, params: { type: types.join(",") } }];
+    out = [...out.filter((e) => e !== alternatives && !group.includes(e)), ...replacement];
+  }
+  return out;
 }
 
 function keyPathOf(error: ErrorObject, source: ManifestSource): (string | number)[] {
@@ -168,7 +190,9 @@ function toMessage(error: ErrorObject, source: ManifestSource) {
     case "maxProperties": {
       const count = error.data !== null && typeof error.data === "object" ? Object.keys(error.data).length : 0;
       if (parent.title === "the factors") return manifestMessages.factorCount(source.place(path), count, Number(params.limit));
-      return manifestMessages.targetNeedsOneKey(source.place(path), count);
+      if (parent.title === "a where") return manifestMessages.whereColumnCount(source.place(path), count, Number(params.limit));
+      if (parent.title === "a target") return manifestMessages.targetNeedsOneKey(source.place(path), count);
+      return manifestMessages.schemaProblem(source.place(path), error.message ?? "does not have the number of keys it needs");
     }
     default:
       return manifestMessages.schemaProblem(source.place(path), error.message ?? "does not match the manifest format");

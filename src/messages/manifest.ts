@@ -389,6 +389,17 @@ export function factorCount(place: Place, count: number, limit: number): UserErr
   );
 }
 
+/** A `where` with no column, or with more columns than allowed. */
+export function whereColumnCount(place: Place, count: number, limit: number): UserError {
+  return located(
+    place,
+    count === 0 ? "where is empty: it names no column" : `where names ${count} columns, more than the ${limit} allowed`,
+    count === 0
+      ? "Give at least one attribute column with the value or values to keep, such as {server: 0} or {class: [gold, silver]}, or leave where out to count every row."
+      : `Keep at most ${limit} columns in one where; a row counts only if every column named holds one of its values.`,
+  );
+}
+
 export function mserCountMeasure(place: Place, measure: string): UserError {
   return located(place, `the MSER-5 warm-up cannot use the count measure ${quote(measure)}`, "Name a level, utilization or observation measure.");
 }

@@ -19,8 +19,8 @@ import { gzipSync } from "node:zlib";
 import { ROW_LIMIT_MAX } from "../../src/ingest/feeder.js";
 import { RUN_EXTENSIONS } from "../../src/ingest/runFile.js";
 import { PARQUET_CODECS } from "../../src/ingest/parquetFile.js";
-import { type EventRow, eventsParquet, parquetFile } from "../helpers/parquet.js";
-import { type Place, type UserError, ingestMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
+import { type EventRow, eventsParquet, parquetFile, parquetWithSchema } from "../helpers/parquet.js";
+import { type Place, type UserError, ingestMessages, initMessages, manifestMessages, reportMessages } from "../../src/messages/index.js";
 import * as outputMessages from "../../src/messages/output.js";
 import * as studyMessages from "../../src/messages/study.js";
 import * as warnings from "../../src/messages/warnings.js";
@@ -168,6 +168,26 @@ const PQ_DAMAGED = (() => {
   const at = Math.floor(bytes.length * 0.6);
   return bytes.fill(0xff, at, at + 40);
 })();
+/** A manifest whose measure reads only rows whose `stations` attribute is `oven`. */
+const M_PARQUET_NESTED = manifest("  - {name: queue, kind: level, series: queue, where: {stations: oven}}\n", "{name: morning, end: 10, runs: runs/*.parquet}");
+/** An event table with a list column `stations` (Parquet's three-level LIST of texts) after its flat columns. */
+const PQ_NESTED = parquetWithSchema(
+  [
+    { name: "root", num_children: 4 },
+    { name: "time", type: "DOUBLE", repetition_type: "REQUIRED" },
+    { name: "series", type: "BYTE_ARRAY", converted_type: "UTF8", repetition_type: "OPTIONAL" },
+    { name: "value", type: "DOUBLE", repetition_type: "OPTIONAL" },
+    { name: "stations", repetition_type: "OPTIONAL", converted_type: "LIST", num_children: 1 },
+    { name: "list", repetition_type: "REPEATED", num_children: 1 },
+    { name: "element", type: "BYTE_ARRAY", converted_type: "UTF8", repetition_type: "OPTIONAL" },
+  ],
+  [
+    { name: "time", data: [0, 3] },
+    { name: "series", data: ["queue", "queue"] },
+    { name: "value", data: [2, 5] },
+    { name: "stations", data: [["oven"], ["oven", "till"]] },
+  ],
+);
 /** A name of 300 bytes: more than the 255 most file systems take for one name. */
 const LONG_NAME = "r".repeat(300);
 
@@ -196,6 +216,29 @@ const M_ENTITIES = manifest(
   "layout: entities\ncolumns: {entity: id}\n",
 );
 const M_LEVELS = manifest(QUEUE + "  - {name: counter, kind: utilization, series: busy, capacity: 1}\n", undefined, "layout: levels\n");
+const M_WHERE_EMPTY = manifest("  - {name: queue, kind: level, series: queue, where: {}}\n");
+const M_WHERE_NO_VALUES = manifest("  - {name: queue, kind: level, series: queue, where: {server: []}}\n");
+const M_WHERE_MAPPING = manifest("  - {name: queue, kind: level, series: queue, where: {server: {id: 0}}}\n");
+const M_WHERE_EMPTY_TEXT = manifest('  - {name: queue, kind: level, series: queue, where: {class: [gold, ""]}}\n');
+/** Two scenarios of a designed experiment with the given `factors` entries (empty: none). */
+const factorStudy = (a: string, b: string) =>
+  `title: Bakery counter\ntime_unit: min\nscenarios:\n  - {name: two-ovens, end: 10, runs: runs/*.csv${a}}\n  - {name: three-ovens, end: 10, runs: runs/*.csv${b}}\nmeasures:\n${QUEUE}`;
+const M_FACTOR_TEXT = factorStudy(", factors: {ovens: two}", ", factors: {ovens: 3}");
+const M_FACTOR_LACKING = factorStudy(", factors: {ovens: 2, bakers: 1}", ", factors: {ovens: 3}");
+const M_FACTOR_EXTRA = factorStudy(", factors: {ovens: 2}", ", factors: {ovens: 3, bakers: 1}");
+const M_FACTOR_SOME = factorStudy(", factors: {ovens: 2}", "");
+const M_FACTOR_EMPTY = factorStudy(", factors: {}", "");
+const M_BLANK_LABEL = manifest('  - {name: queue, kind: level, series: queue, label: "   "}\n');
+const M_SERIES_AND_FROM = manifest("  - {name: queue, kind: level, series: queue, from: {enter: arrive, leave: leave}}\n");
+const M_SAME_TWICE = manifest(QUEUE) + "compare:\n  - {measure: queue, scenarios: [morning, morning]}\n";
+const M_ONE_BATCH = manifest(QUEUE, undefined, "analysis: {method: batch-means, batches: 1}\n");
+const M_MSER_COUNT = manifest(QUEUE + "  - {name: served, kind: count, series: served}\n", undefined, "warmup: {method: mser-5, measure: served, slice: 1}\n");
+const M_TARGET_EMPTY = manifest("  - {name: queue, kind: level, series: queue, target: {}}\n");
+const M_RUNS_FOLDER = manifest(QUEUE, "{name: morning, end: 10, runs: [runs]}");
+const M_NOT_MAPPING = "- morning\n- evening\n";
+/** An event table and an entity table (one row per customer): two layouts in one runs folder. */
+const EVENTS_CSV = "time,series,value\n0,queue,0\n1,queue,1\n2,queue,2\n3,queue,1\n4,queue,0\n";
+const ENTITY_CSV = "id,arrived,left\n1,0.5,1.25\n2,0.75,2.5\n3,1.5,3\n4,2,3.75\n";
 const M_WHERE = manifest("  - {name: queue, kind: level, series: queue, where: {sever: 0}}\n");
 /** A record.json as `sojourn report` writes it, up to the key that is missing (outputs). */
 const RECORD_NO_OUTPUTS = JSON.stringify(
@@ -657,6 +700,17 @@ export const CASES: BadInputCase[] = [
     place: "runs/day-1.parquet:1",
   },
   {
+    id: "parquet-nested-column",
+    title: "A nested Parquet column that the study reads",
+    what: "The manifest picks rows by `where: {stations: oven}`, but `stations` is a list column: each row holds several texts.",
+    files: { [STUDY]: M_PARQUET_NESTED, "runs/day-1.parquet": PQ_NESTED },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => ingestMessages.parquetNestedColumn("runs/day-1.parquet", "stations", "a nested group (LIST)"),
+    place: "runs/day-1.parquet",
+  },
+  {
     id: "parquet-null-time",
     title: "A null time in a Parquet file",
     what: "Row 2 of the file has no time.",
@@ -975,6 +1029,241 @@ export const CASES: BadInputCase[] = [
     args: check,
     status: 1,
     startsWith: () => manifestMessages.wrongType(at(M_TYPE, "ten", "scenarios[0].end"), "a number", 'a text ("ten")', null, false).message.split("\n")[0],
+  },
+  {
+    id: "where-empty",
+    title: "An empty where",
+    what: "`where: {}` names no column to filter on.",
+    files: { [STUDY]: M_WHERE_EMPTY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.whereColumnCount(at(M_WHERE_EMPTY, "{}", "measures[0].where"), 0, 1),
+  },
+  {
+    id: "where-no-values",
+    title: "A where column with an empty list of values",
+    what: "`where: {server: []}`: a list of values to keep needs at least one value.",
+    files: { [STUDY]: M_WHERE_NO_VALUES, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongItemCount(at(M_WHERE_NO_VALUES, "[]", "measures[0].where.server"), 0, "at least 1 item", null).message.split("\n")[0],
+  },
+  {
+    id: "where-wrong-type",
+    title: "A where value that is neither a value nor a list",
+    what: "A where column takes a number, a text or a list of them; here a mapping.",
+    files: { [STUDY]: M_WHERE_MAPPING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongType(at(M_WHERE_MAPPING, "{id: 0}", "measures[0].where.server"), "a number, a text or a list", "a mapping", null, false).message.split("\n")[0],
+  },
+  {
+    id: "where-empty-text",
+    title: "An empty text among a where's values",
+    what: "An empty text matches no cell (an empty cell matches nothing), so it is refused.",
+    files: { [STUDY]: M_WHERE_EMPTY_TEXT, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.emptyText(at(M_WHERE_EMPTY_TEXT, '""', "measures[0].where.class[1]")),
+  },
+  {
+    id: "factor-not-a-number",
+    title: "A factor value that is not a number",
+    what: "A factor's value places the scenario on a response curve's axis, so it must be a finite number.",
+    files: { [STUDY]: M_FACTOR_TEXT, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    startsWith: () => manifestMessages.wrongType(at(M_FACTOR_TEXT, "two}", "scenarios[0].factors.ovens"), "a number", 'a text ("two")', null, false).message.split("\n")[0],
+  },
+  {
+    id: "factor-missing",
+    title: "A scenario that lacks a factor",
+    what: "The first scenario with factors names `ovens` and `bakers`; the second gives only `ovens`.",
+    files: { [STUDY]: M_FACTOR_LACKING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorsDiffer(at(M_FACTOR_LACKING, "{ovens: 3}", "scenarios[1].factors"), "three-ovens", ["bakers"], [], "two-ovens"),
+  },
+  {
+    id: "factor-extra",
+    title: "A scenario that names a factor the others do not",
+    what: "The second scenario gives `bakers`, which the first scenario with factors does not name.",
+    files: { [STUDY]: M_FACTOR_EXTRA, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorsDiffer({ ...at(M_FACTOR_EXTRA, "bakers", "scenarios[1].factors.bakers") }, "three-ovens", [], ["bakers"], "two-ovens"),
+  },
+  {
+    id: "factor-on-some-scenarios",
+    title: "Factors on only some scenarios",
+    what: "Either no scenario has `factors`, or every one does; the second scenario has none.",
+    files: { [STUDY]: M_FACTOR_SOME, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorsDiffer(at(M_FACTOR_SOME, "{name: three-ovens", "scenarios[1]"), "three-ovens", ["ovens"], [], "two-ovens"),
+  },
+  {
+    id: "factors-empty",
+    title: "An empty factors",
+    what: "`factors: {}` names no factor.",
+    files: { [STUDY]: M_FACTOR_EMPTY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.factorCount(at(M_FACTOR_EMPTY, "{}", "scenarios[0].factors"), 0, 1),
+  },
+  {
+    id: "manifest-is-folder",
+    title: "The manifest path names a folder",
+    what: "`sojourn check runs` names the folder of run files, not the manifest.",
+    files: { "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["check", "runs"],
+    status: 1,
+    message: () => manifestMessages.manifestIsFolder("runs"),
+  },
+  {
+    id: "manifest-empty",
+    title: "An empty manifest",
+    what: "The manifest file holds nothing (or only comments).",
+    files: { [STUDY]: "# to do\n", "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.manifestEmpty(STUDY),
+  },
+  {
+    id: "manifest-not-a-mapping",
+    title: "A manifest that is a list",
+    what: "The file is a YAML list, not a mapping of keys.",
+    files: { [STUDY]: M_NOT_MAPPING, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.notAMapping({ file: STUDY, line: 1, column: 1, path: "" }, "a list"),
+  },
+  {
+    id: "blank-label",
+    title: "A label of spaces only",
+    what: "A `label` that holds only spaces would show nothing.",
+    files: { [STUDY]: M_BLANK_LABEL, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.blankText(at(M_BLANK_LABEL, '"   "', "measures[0].label")),
+  },
+  {
+    id: "series-and-from",
+    title: "A measure with both series and from",
+    what: "A measure reads one series, or derives from entity events, not both.",
+    files: { [STUDY]: M_SERIES_AND_FROM, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.seriesAndFrom(at(M_SERIES_AND_FROM, "{name: queue", "measures[0]"), "queue"),
+  },
+  {
+    id: "compare-same-scenario",
+    title: "A comparison of a scenario with itself",
+    what: "Both scenarios of the comparison are `morning`.",
+    files: { [STUDY]: M_SAME_TWICE, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.sameScenarioTwice(at(M_SAME_TWICE, "morning]}", "compare[0].scenarios[1]"), "morning"),
+  },
+  {
+    id: "one-batch",
+    title: "Batch means with one batch",
+    what: "`batches: 1` leaves no spread between batches to make an interval from.",
+    files: { [STUDY]: M_ONE_BATCH, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.tooFewBatches(at(M_ONE_BATCH, "1}", "analysis.batches"), 1),
+  },
+  {
+    id: "mser-count-measure",
+    title: "An MSER-5 warm-up judged on a count",
+    what: "MSER-5 needs a quantity that varies over time; a count measure has none.",
+    files: { [STUDY]: M_MSER_COUNT, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.mserCountMeasure(at(M_MSER_COUNT, "served, slice", "warmup.measure"), "served"),
+  },
+  {
+    id: "target-empty",
+    title: "An empty precision target",
+    what: "`target: {}` gives neither `half_width` nor `relative`.",
+    files: { [STUDY]: M_TARGET_EMPTY, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.targetNeedsOneKey(at(M_TARGET_EMPTY, "{}", "measures[0].target"), 0),
+  },
+  {
+    id: "run-path-is-folder",
+    title: "A run path that names a folder",
+    what: "`runs: [runs]` names the folder, not its files.",
+    files: { [STUDY]: M_RUNS_FOLDER, "runs/day-1.csv": GOOD_CSV },
+    show: [STUDY],
+    args: check,
+    status: 1,
+    message: () => manifestMessages.runPathIsFolder(at(M_RUNS_FOLDER, "runs]", "scenarios[0].runs[0]"), "runs"),
+  },
+  {
+    id: "init-runs-folder-missing",
+    title: "The runs folder does not exist",
+    what: "`sojourn init` is given a folder name that is not there.",
+    files: {},
+    show: [],
+    args: ["init", "runz"],
+    status: 1,
+    message: () => initMessages.runsDirNotFound("runz"),
+    afterwards: { [STUDY]: null },
+  },
+  {
+    id: "init-runs-folder-is-file",
+    title: "A run file instead of its folder",
+    what: "`sojourn init` reads a folder of run files; here it is given one file.",
+    files: { "runs/day-1.csv": GOOD_CSV },
+    show: [],
+    args: ["init", "runs/day-1.csv"],
+    status: 1,
+    message: () => initMessages.runsDirIsFile("runs/day-1.csv"),
+    afterwards: { [STUDY]: null },
+  },
+  {
+    id: "init-no-run-files",
+    title: "A folder with no run files",
+    what: "The folder is empty (a file with another extension would be listed as skipped first).",
+    files: {},
+    setup: (dir) => mkdirSync(join(dir, "runs")),
+    show: [],
+    args: ["init", "runs"],
+    status: 1,
+    startsWith: () => initMessages.noRunFiles("runs", 0).message.split(" (")[0],
+    afterwards: { [STUDY]: null },
+  },
+  {
+    id: "init-mixed-layouts",
+    title: "Run files of two layouts in one folder",
+    what: "Scenario `a` has an event table, scenario `b` a table of one row per customer; one manifest reads one layout.",
+    files: { "runs/a/day-1.csv": EVENTS_CSV, "runs/b/day-1.csv": ENTITY_CSV },
+    show: ["runs/a/day-1.csv", "runs/b/day-1.csv"],
+    args: ["init", "runs"],
+    status: 1,
+    startsWith: () => initMessages.mixedLayouts("runs/a/day-1.csv", "", "runs/b/day-1.csv", "").message.split(" looks like")[0],
+    afterwards: { [STUDY]: null },
   },
   {
     id: "duplicate-name",
