@@ -3,7 +3,8 @@
 // every start (about 0.1 s each). Each output records the SHA-256 of its sources; at run time a
 // mismatch (sources edited without a rebuild) falls back to compiling from the sources.
 // It also bundles stdlib's t quantile (414 small modules, about 0.12 s to load) into one file
-// (about 0.02 s); test/scale/precompiled.test.ts checks that it gives the same numbers.
+// (about 0.02 s), and yaml and tinyglobby likewise (src/manifest/libraries.ts);
+// test/scale/precompiled.test.ts checks that the bundles give the same answers.
 /* global console, URL */
 import { readFileSync, readdirSync, writeFileSync } from "node:fs";
 import { join, resolve } from "node:path";
@@ -38,9 +39,16 @@ const lines = [
   "};",
 ];
 writeFileSync(join(root, "dist/report/templates.cjs"), lines.join("\n") + "\n");
-// stdlib's t quantile as one CommonJS file.
-const bundle = await rolldown({ input: "@stdlib/stats-base-dists-t-quantile", platform: "node", cwd: root, logLevel: "silent" });
-await bundle.write({ file: join(root, "dist/stats/tQuantileBundle.cjs"), format: "cjs", exports: "auto" });
-await bundle.close();
+// stdlib's t quantile, and the yaml and tinyglobby packages the manifest reader loads before the
+// first run file is opened (src/manifest/libraries.ts), each as one CommonJS file.
+for (const [input, file] of [
+  ["@stdlib/stats-base-dists-t-quantile", "dist/stats/tQuantileBundle.cjs"],
+  ["yaml", "dist/manifest/yamlBundle.cjs"],
+  ["tinyglobby", "dist/manifest/globBundle.cjs"],
+]) {
+  const bundle = await rolldown({ input, platform: "node", cwd: root, logLevel: "silent" });
+  await bundle.write({ file: join(root, file), format: "cjs", exports: "auto" });
+  await bundle.close();
+}
 
-console.log(`precompiled the manifest schema and ${1 + partials.length} templates, and bundled the t quantile, into dist/`);
+console.log(`precompiled the manifest schema and ${1 + partials.length} templates, and bundled the t quantile, yaml and tinyglobby, into dist/`);

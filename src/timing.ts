@@ -1,7 +1,8 @@
 /**
  * Phase times for performance work: with `SOJOURN_TIMING=1` each `mark` writes
- * `timing <label> <ms>` to standard error, the milliseconds since the process (or thread) started.
- * Without it `mark` does nothing. docs/performance.md uses these marks to say where time goes.
+ * `timing <label> <ms> cpu <ms>` to standard error: the milliseconds since the process (or thread)
+ * started, then the CPU milliseconds (user + system) the whole process has used so far, which a
+ * machine shared with other work disturbs much less than the wall clock. Without it `mark` does nothing. docs/performance.md uses these marks to say where time goes.
  */
 import { performance } from "node:perf_hooks";
 import { isMainThread, threadId } from "node:worker_threads";
@@ -15,7 +16,8 @@ const offset = isMainThread ? 0 : performance.timeOrigin - (Number(process.env.S
 export function mark(label: string): void {
   if (!on) return;
   const ms = performance.now() + offset;
-  process.stderr.write(`timing ${label}${isMainThread ? "" : ` (thread ${threadId})`} ${ms.toFixed(0)}\n`);
+  const cpu = process.cpuUsage();
+  process.stderr.write(`timing ${label}${isMainThread ? "" : ` (thread ${threadId})`} ${ms.toFixed(0)} cpu ${((cpu.user + cpu.system) / 1000).toFixed(0)}\n`);
 }
 
 if (on && isMainThread) process.env.SOJOURN_TIMING_ORIGIN = String(performance.timeOrigin);

@@ -2,10 +2,14 @@
  * The manifest text parsed with its source positions, so that any key path can be pointed at by
  * line and column in a message.
  */
-import { Composer, LineCounter, Parser, YAMLParseError, isAlias, isMap, isNode, isPair, isScalar, isSeq, type CST, type Document, type Node } from "yaml";
+import type { CST, Document, Node } from "yaml";
 import { manifestMessages } from "../messages/index.js";
 import type { Place } from "../messages/index.js";
 import { formatKeyPath, type KeyPath } from "./keyPath.js";
+import { yaml } from "./libraries.js";
+
+const { Composer, LineCounter, Parser, YAMLParseError, isAlias, isMap, isNode, isPair, isScalar, isSeq } = yaml;
+type LineCounter = InstanceType<typeof LineCounter>;
 
 export interface ManifestSource {
   /** The manifest path as the user gave it, for messages. */

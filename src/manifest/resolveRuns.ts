@@ -5,12 +5,14 @@
 import { type Dirent, lstatSync, readdirSync, statSync } from "node:fs";
 import { isAbsolute, join, relative, resolve, sep } from "node:path";
 import picomatch from "picomatch";
-import { globSync, isDynamicPattern } from "tinyglobby";
 import { RUN_EXTENSIONS, notFileKind, runFormat, runIdOf } from "../ingest/runFile.js";
 import { manifestMessages } from "../messages/index.js";
 import type { KeyPath } from "./keyPath.js";
 import type { ManifestSource } from "./manifestSource.js";
 import type { ScenarioSpec } from "./spec.js";
+import { tinyglobby } from "./libraries.js";
+
+const { globSync, isDynamicPattern } = tinyglobby;
 
 /** One run file with the manifest entry it came from and the window bounds that entry gives. */
 export interface ResolvedRun {

@@ -7,6 +7,7 @@
 import { createHash } from "node:crypto";
 import { readdirSync, readFileSync } from "node:fs";
 import { createRequire } from "node:module";
+import { fileURLToPath } from "node:url";
 import { Ajv, type ValidateFunction } from "ajv";
 import { parse } from "yaml";
 import { describe, expect, it } from "vitest";
@@ -96,5 +97,43 @@ describe("precompiled artefacts (dist/)", () => {
     expect(built.loadTQuantile()).toBe(bundled);
     // (the published reference values are checked in test/stats/tQuantile.test.ts)
     expect(built.tQuantile(0.975, 10)).toBe(stdlib(0.975, 10));
+  });
+
+  it("the bundled yaml and tinyglobby give the packages' answers, and the built manifest reader uses them", async () => {
+    type Yaml = typeof import("yaml");
+    type Glob = typeof import("tinyglobby");
+    const bundledYaml = require("../../dist/manifest/yamlBundle.cjs") as Yaml;
+    const packageYaml = require("yaml") as Yaml;
+    // the same documents, values, errors and error places, for good and broken texts (common practice)
+    const texts = ["bakery/bakery.yaml", "bike-repair/bike-repair.yaml", "ferry-check-in/ferry.yaml"].map((f) => readFileSync(new URL(`../../examples/${f}`, import.meta.url), "utf8"));
+    const broken = ["a: [1, 2", "a: 1\na: 2", "- a\nb: c", "x: &a 1\ny: *b", "k: 'open", "\tkey: v", "a:\n  - 1\n - 2", "---\na: 1\n---\nb: 2"];
+    const seen = (y: Yaml, text: string) => {
+      const doc = y.parseDocument(text, { uniqueKeys: false });
+      let value: unknown;
+      try {
+        value = doc.toJS();
+      } catch (e) {
+        value = `thrown: ${(e as Error).message}`;
+      }
+      return JSON.stringify({ value, errors: doc.errors.map((e) => [e.code, e.pos, e.message]), warnings: doc.warnings.map((e) => [e.code, e.pos]) });
+    };
+    let errors = 0;
+    for (const text of [...texts, ...broken]) {
+      expect(seen(bundledYaml, text), text).toBe(seen(packageYaml, text));
+      errors += packageYaml.parseDocument(text).errors.length;
+    }
+    expect(errors).toBeGreaterThan(5);
+    const bundledGlob = require("../../dist/manifest/globBundle.cjs") as Glob;
+    const packageGlob = require("tinyglobby") as Glob;
+    const root = fileURLToPath(new URL("../../", import.meta.url));
+    for (const pattern of ["examples/*/*.yaml", "examples/**/*.{md,mjs}", "src/{ingest,stats}/*.ts", "docs/[a-m]*.md", "plain/path.csv"]) {
+      expect(bundledGlob.isDynamicPattern(pattern)).toBe(packageGlob.isDynamicPattern(pattern));
+      const options = { cwd: root, onlyFiles: true, expandDirectories: false, absolute: true };
+      expect(bundledGlob.globSync(pattern, options).sort(), pattern).toEqual(packageGlob.globSync(pattern, options).sort());
+    }
+    expect(packageGlob.globSync("examples/*/*.yaml", { cwd: root }).length).toBeGreaterThan(2);
+    const built = (await import(new URL("../../dist/manifest/libraries.js", import.meta.url).href)) as typeof import("../../src/manifest/libraries.js");
+    expect(built.yaml).toBe(bundledYaml);
+    expect(built.tinyglobby).toBe(bundledGlob);
   });
 });
